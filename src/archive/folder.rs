@@ -1,0 +1,94 @@
+//! Unpacked archives: the folder is walked once, never following symbolic links (so
+//! nothing outside the folder is read and link loops cannot trap the walk).
+
+use std::fs::File;
+use std::path::{Path, PathBuf};
+
+use walkdir::WalkDir;
+
+use super::error::{Error, Result};
+use super::reader::{Entry, limit_error, read_capped, to_path_buf};
+use crate::limits::{LimitName, Limits};
+
+pub struct Folder {
+    root: PathBuf,
+    entries: Vec<Entry>,
+    /// Entries skipped while walking (symbolic links, unreadable folders).
+    pub skipped: Vec<String>,
+}
+
+impl Folder {
+    pub fn open(root: &Path, limits: &Limits) -> Result<Folder> {
+        let mut entries = Vec::new();
+        let mut skipped = Vec::new();
+        let walker = WalkDir::new(root)
+            .follow_links(false)
+            .max_depth(limits.folder_depth as usize)
+            .sort_by_file_name();
+        for item in walker {
+            let item = match item {
+                Ok(i) => i,
+                Err(e) => {
+                    let where_ = e
+                        .path()
+                        .and_then(|p| p.strip_prefix(root).ok())
+                        .map(|p| p.display().to_string())
+                        .unwrap_or_else(|| root.display().to_string());
+                    skipped.push(format!("{where_}: {e}"));
+                    continue;
+                }
+            };
+            if item.path_is_symlink() {
+                let rel = relative(root, item.path());
+                skipped.push(format!("{rel}: symbolic link not followed"));
+                continue;
+            }
+            if !item.file_type().is_file() {
+                continue;
+            }
+            if entries.len() as u64 >= limits.entries {
+                return Err(limit_error(
+                    &root.display().to_string(),
+                    LimitName::Entries,
+                    limits.entries,
+                ));
+            }
+            let size = item.metadata().map(|m| m.len()).unwrap_or(0);
+            entries.push(Entry {
+                path: relative(root, item.path()),
+                size,
+                index: entries.len(),
+            });
+        }
+        Ok(Folder {
+            root: to_path_buf(root),
+            entries,
+            skipped,
+        })
+    }
+
+    pub fn path(&self) -> &Path {
+        &self.root
+    }
+
+    pub fn entries(&self) -> &[Entry] {
+        &self.entries
+    }
+
+    pub fn read(&mut self, entry: &Entry, cap: u64) -> Result<Vec<u8>> {
+        let full = self.root.join(&entry.path);
+        let file = File::open(&full).map_err(|e| Error::Read {
+            entry: entry.path.clone(),
+            detail: e.to_string(),
+        })?;
+        read_capped(file, cap, &entry.path)
+    }
+}
+
+fn relative(root: &Path, path: &Path) -> String {
+    let rel = path.strip_prefix(root).unwrap_or(path);
+    rel.components()
+        .map(|c| c.as_os_str().to_string_lossy().into_owned())
+        .collect::<Vec<_>>()
+        .join("/")
+}

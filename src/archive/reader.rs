@@ -1,0 +1,176 @@
+//! The archive as telltale sees it: a list of entries (path inside the archive and
+//! declared size) and a bounded read of one entry at a time.
+
+use std::io::Read;
+use std::path::{Path, PathBuf};
+
+use super::error::{Error, Result};
+use super::{folder::Folder, zipped::Zipped};
+use crate::limits::{LimitName, Limits, human_bytes};
+
+/// One file inside an archive.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct Entry {
+    /// Path inside the archive, with `/` separators and no leading `./`.
+    pub path: String,
+    /// Decompressed size as the archive declares it (a zip may lie; reads are bounded
+    /// by what is actually produced).
+    pub size: u64,
+    pub(crate) index: usize,
+}
+
+/// Tracks the bytes read so far by one import against the total limit.
+#[derive(Debug, Clone)]
+pub struct ReadBudget {
+    limits: Limits,
+    used: u64,
+}
+
+impl ReadBudget {
+    pub fn new(limits: &Limits) -> Self {
+        ReadBudget {
+            limits: limits.clone(),
+            used: 0,
+        }
+    }
+
+    /// Bytes read so far.
+    pub fn used(&self) -> u64 {
+        self.used
+    }
+
+    pub fn limits(&self) -> &Limits {
+        &self.limits
+    }
+}
+
+/// An opened archive.
+pub enum Archive {
+    Zip(Zipped),
+    Folder(Folder),
+}
+
+impl Archive {
+    /// Open a zip file or a folder. Only the listing is read here.
+    pub fn open(path: &Path, limits: &Limits) -> Result<Archive> {
+        let meta = std::fs::metadata(path).map_err(|source| Error::Open {
+            path: path.to_path_buf(),
+            source,
+        })?;
+        if meta.is_dir() {
+            return Ok(Archive::Folder(Folder::open(path, limits)?));
+        }
+        if meta.is_file() {
+            return Ok(Archive::Zip(Zipped::open(path, limits)?));
+        }
+        Err(Error::NotAnArchive {
+            path: path.to_path_buf(),
+        })
+    }
+
+    /// Where the archive is on disk.
+    pub fn path(&self) -> &Path {
+        match self {
+            Archive::Zip(z) => z.path(),
+            Archive::Folder(f) => f.path(),
+        }
+    }
+
+    pub fn is_zip(&self) -> bool {
+        matches!(self, Archive::Zip(_))
+    }
+
+    /// Every file entry, in archive order.
+    pub fn entries(&self) -> &[Entry] {
+        match self {
+            Archive::Zip(z) => z.entries(),
+            Archive::Folder(f) => f.entries(),
+        }
+    }
+
+    /// Entries left out while listing (symbolic links, unreadable folders), for the
+    /// import summary.
+    pub fn skipped(&self) -> &[String] {
+        match self {
+            Archive::Zip(_) => &[],
+            Archive::Folder(f) => &f.skipped,
+        }
+    }
+
+    /// Find an entry by its exact path inside the archive.
+    pub fn entry(&self, path: &str) -> Option<&Entry> {
+        self.entries().iter().find(|e| e.path == path)
+    }
+
+    /// Read one entry whole, within the per-entry and total limits.
+    pub fn read(&mut self, entry: &Entry, budget: &mut ReadBudget) -> Result<Vec<u8>> {
+        let per_entry = budget.limits.entry_bytes;
+        let remaining = budget.limits.total_bytes.saturating_sub(budget.used);
+        if entry.size > per_entry {
+            return Err(limit_error(&entry.path, LimitName::EntryBytes, per_entry));
+        }
+        if entry.size > remaining {
+            return Err(limit_error(
+                &entry.path,
+                LimitName::TotalBytes,
+                budget.limits.total_bytes,
+            ));
+        }
+        let cap = per_entry.min(remaining);
+        let bytes = match self {
+            Archive::Zip(z) => z.read(entry, cap)?,
+            Archive::Folder(f) => f.read(entry, cap)?,
+        };
+        if bytes.len() as u64 > cap {
+            let name = if cap == per_entry {
+                LimitName::EntryBytes
+            } else {
+                LimitName::TotalBytes
+            };
+            return Err(limit_error(&entry.path, name, budget.limits.get(name)));
+        }
+        budget.used += bytes.len() as u64;
+        Ok(bytes)
+    }
+
+    /// A name for messages: the archive's file or folder name.
+    pub fn display_name(&self) -> String {
+        display_name(self.path())
+    }
+}
+
+pub(crate) fn display_name(path: &Path) -> String {
+    path.file_name()
+        .map(|n| n.to_string_lossy().into_owned())
+        .unwrap_or_else(|| path.display().to_string())
+}
+
+pub(crate) fn limit_error(context: &str, name: LimitName, limit: u64) -> Error {
+    let limit = match name {
+        LimitName::EntryBytes | LimitName::TotalBytes | LimitName::LineBytes => human_bytes(limit),
+        _ => limit.to_string(),
+    };
+    Error::Limit {
+        context: context.to_string(),
+        name,
+        limit,
+    }
+}
+
+/// Read at most `cap + 1` bytes, so that the caller can tell "exactly at the cap" from
+/// "over it" without reading an unbounded stream.
+pub(crate) fn read_capped(reader: impl Read, cap: u64, entry: &str) -> Result<Vec<u8>> {
+    let mut out = Vec::new();
+    reader
+        .take(cap.saturating_add(1))
+        .read_to_end(&mut out)
+        .map_err(|e| Error::Read {
+            entry: entry.to_string(),
+            detail: e.to_string(),
+        })?;
+    Ok(out)
+}
+
+pub(crate) fn to_path_buf(p: &Path) -> PathBuf {
+    p.to_path_buf()
+}

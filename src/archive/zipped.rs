@@ -1,0 +1,142 @@
+//! Zip archives: the central directory is listed once; an entry is decompressed only
+//! when a mapping asks for it, and never past the read limits.
+
+use std::fs::File;
+use std::io::BufReader;
+use std::path::{Path, PathBuf};
+
+use zip::ZipArchive;
+use zip::result::ZipError;
+
+use super::error::{Error, Result};
+use super::reader::{Entry, limit_error, read_capped, to_path_buf};
+use crate::limits::{LimitName, Limits};
+
+pub struct Zipped {
+    path: PathBuf,
+    zip: ZipArchive<BufReader<File>>,
+    entries: Vec<Entry>,
+}
+
+impl Zipped {
+    pub fn open(path: &Path, limits: &Limits) -> Result<Zipped> {
+        let file = File::open(path).map_err(|source| Error::Open {
+            path: to_path_buf(path),
+            source,
+        })?;
+        let zip = ZipArchive::new(BufReader::new(file)).map_err(|e| match e {
+            ZipError::Io(io) => Error::BadZip {
+                path: to_path_buf(path),
+                detail: io.to_string(),
+            },
+            ZipError::InvalidArchive(_) | ZipError::UnsupportedArchive(_) => {
+                if looks_like_zip(path) {
+                    Error::BadZip {
+                        path: to_path_buf(path),
+                        detail: e.to_string(),
+                    }
+                } else {
+                    Error::NotAnArchive {
+                        path: to_path_buf(path),
+                    }
+                }
+            }
+            other => Error::BadZip {
+                path: to_path_buf(path),
+                detail: other.to_string(),
+            },
+        })?;
+        if zip.len() as u64 > limits.entries {
+            return Err(limit_error(
+                &path.display().to_string(),
+                LimitName::Entries,
+                limits.entries,
+            ));
+        }
+        let mut entries = Vec::with_capacity(zip.len());
+        for index in 0..zip.len() {
+            let data = zip.by_index_data(index).map_err(|e| Error::BadZip {
+                path: to_path_buf(path),
+                detail: e.to_string(),
+            })?;
+            if data.is_dir() {
+                continue;
+            }
+            let name = match data.name() {
+                Ok(n) => n.into_owned(),
+                Err(_) => String::from_utf8_lossy(data.name_raw()).into_owned(),
+            };
+            entries.push(Entry {
+                path: clean_entry_path(&name),
+                size: data.size(),
+                index,
+            });
+        }
+        Ok(Zipped {
+            path: to_path_buf(path),
+            zip,
+            entries,
+        })
+    }
+
+    pub fn path(&self) -> &Path {
+        &self.path
+    }
+
+    pub fn entries(&self) -> &[Entry] {
+        &self.entries
+    }
+
+    pub fn read(&mut self, entry: &Entry, cap: u64) -> Result<Vec<u8>> {
+        {
+            let data = self.zip.by_index_data(entry.index).map_err(|e| Error::Read {
+                entry: entry.path.clone(),
+                detail: e.to_string(),
+            })?;
+            if data.encrypted() {
+                return Err(Error::Encrypted {
+                    entry: entry.path.clone(),
+                });
+            }
+        }
+        let file = self.zip.by_index(entry.index).map_err(|e| match e {
+            ZipError::UnsupportedArchive(msg) if msg.to_lowercase().contains("password") => {
+                Error::Encrypted {
+                    entry: entry.path.clone(),
+                }
+            }
+            ZipError::UnsupportedArchive(msg) => Error::Unsupported {
+                entry: entry.path.clone(),
+                detail: msg.to_string(),
+            },
+            ZipError::CompressionMethodNotSupported(m) => Error::Unsupported {
+                entry: entry.path.clone(),
+                detail: format!("method {m}"),
+            },
+            other => Error::Read {
+                entry: entry.path.clone(),
+                detail: other.to_string(),
+            },
+        })?;
+        read_capped(file, cap, &entry.path)
+    }
+}
+
+/// Zip names use `/`; some hand-made zips use `\` or start with `./`.
+fn clean_entry_path(name: &str) -> String {
+    let name = name.replace('\\', "/");
+    let name = name.trim_start_matches("./").trim_start_matches('/');
+    name.to_string()
+}
+
+fn looks_like_zip(path: &Path) -> bool {
+    use std::io::Read;
+    let mut magic = [0u8; 4];
+    File::open(path)
+        .and_then(|mut f| f.read_exact(&mut magic))
+        .map(|_| &magic == b"PK\x03\x04" || &magic == b"PK\x05\x06")
+        .unwrap_or(false)
+        || path
+            .extension()
+            .is_some_and(|e| e.eq_ignore_ascii_case("zip"))
+}

@@ -1,0 +1,24 @@
+//! telltale: an offline check of what a person's own social-network archive gives away
+//! about their age band, home location, political leaning and religion, which items
+//! give the most away, and what to hide.
+//!
+//! The library does all the work and knows nothing of terminals; the `telltale` binary
+//! (CLI and explorer) is a thin shell over it. Data flows
+//! archive → [`import`] (through a [`mapping`]) → [`footprint`] → [`evidence`] (from
+//! [`priors`] and other sources) → [`infer`] → [`report`].
+
+pub mod archive;
+pub mod cautions;
+pub mod evidence;
+pub mod footprint;
+pub mod import;
+pub mod infer;
+pub mod limits;
+pub mod mapping;
+pub mod priors;
+pub mod reading;
+pub mod records;
+pub mod report;
+pub mod scan;
+pub mod stats;
+pub mod text;

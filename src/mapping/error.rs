@@ -1,0 +1,59 @@
+//! Errors from reading and checking a mapping file.
+
+use std::fmt;
+
+pub type Result<T> = std::result::Result<T, Error>;
+
+/// One thing wrong with a mapping file.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct Problem {
+    /// 1-based line in the mapping file, when known.
+    pub line: Option<usize>,
+    /// Which setting: `source[2].name`, `format`, …
+    pub field: String,
+    pub message: String,
+}
+
+impl fmt::Display for Problem {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        match self.line {
+            Some(line) => write!(f, "line {line}, {}: {}", self.field, self.message),
+            None => write!(f, "{}: {}", self.field, self.message),
+        }
+    }
+}
+
+#[derive(Debug, thiserror::Error)]
+pub enum Error {
+    #[error("{file}: cannot read the mapping file: {source}")]
+    Read {
+        file: String,
+        #[source]
+        source: std::io::Error,
+    },
+    #[error("{file}: line {line}, column {column}: not valid TOML: {message}")]
+    Syntax {
+        file: String,
+        line: usize,
+        column: usize,
+        message: String,
+    },
+    #[error("{file}: the mapping has {} problem(s):\n{}", problems.len(), list(problems))]
+    Invalid { file: String, problems: Vec<Problem> },
+    #[error(
+        "no mapping file for {archive}: telltale needs one to know where your likes, groups and friends are.\n\
+         Pass --mapping FILE, or put '{name}' inside the archive or beside it.\n\
+         To start one, run: telltale mapping draft {archive} > my-mapping.toml\n\
+         (docs/mapping.md explains every setting)",
+        name = super::MAPPING_FILE_NAME
+    )]
+    NotFound { archive: String },
+}
+
+fn list(problems: &[Problem]) -> String {
+    problems
+        .iter()
+        .map(|p| format!("  - {p}"))
+        .collect::<Vec<_>>()
+        .join("\n")
+}

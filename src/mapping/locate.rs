@@ -1,0 +1,78 @@
+//! Finding the mapping for an archive when the user names none: a
+//! `telltale-mapping.toml` inside the archive (at its top or in its one top folder),
+//! then `<archive>.mapping.toml` beside it, then `telltale-mapping.toml` beside it.
+
+use std::path::{Path, PathBuf};
+
+use super::error::{Error, Result};
+use crate::archive::{Archive, ReadBudget};
+use crate::limits::Limits;
+
+/// The file name telltale looks for inside or beside an archive.
+pub const MAPPING_FILE_NAME: &str = "telltale-mapping.toml";
+
+/// Mapping text found for an archive, and where it was.
+#[derive(Debug, Clone)]
+pub struct FoundMapping {
+    pub text: String,
+    /// Where it was found, for messages ("inside reporter.zip: telltale-mapping.toml").
+    pub origin: String,
+}
+
+/// Look for a mapping inside or beside the archive.
+pub fn locate(archive: &mut Archive) -> Result<FoundMapping> {
+    let inside = archive
+        .entries()
+        .iter()
+        .find(|e| {
+            let depth = e.path.matches('/').count();
+            depth <= 1 && e.path.rsplit('/').next() == Some(MAPPING_FILE_NAME)
+        })
+        .cloned();
+    if let Some(entry) = inside {
+        let limits = Limits {
+            entry_bytes: 1 << 20,
+            ..Limits::default()
+        };
+        let mut budget = ReadBudget::new(&limits);
+        if let Ok(bytes) = archive.read(&entry, &mut budget) {
+            let text = String::from_utf8_lossy(&bytes).into_owned();
+            return Ok(FoundMapping {
+                text,
+                origin: format!("{} (inside {})", entry.path, archive.display_name()),
+            });
+        }
+    }
+    for candidate in beside(archive.path()) {
+        if candidate.is_file() {
+            let text = std::fs::read_to_string(&candidate).map_err(|source| Error::Read {
+                file: candidate.display().to_string(),
+                source,
+            })?;
+            return Ok(FoundMapping {
+                text,
+                origin: candidate.display().to_string(),
+            });
+        }
+    }
+    Err(Error::NotFound {
+        archive: archive.path().display().to_string(),
+    })
+}
+
+fn beside(archive: &Path) -> Vec<PathBuf> {
+    let mut out = Vec::new();
+    let parent = archive.parent().unwrap_or(Path::new("."));
+    let stem = if archive.is_dir() {
+        archive.file_name()
+    } else {
+        archive.file_stem()
+    };
+    if let Some(stem) = stem {
+        let mut name = stem.to_os_string();
+        name.push(".mapping.toml");
+        out.push(parent.join(name));
+    }
+    out.push(parent.join(MAPPING_FILE_NAME));
+    out
+}

@@ -1,0 +1,147 @@
+//! The priors file's serde form (format 1): what is read and what `synth` and
+//! `priors build` write. Field-by-field documentation: docs/priors.md.
+
+use std::collections::BTreeMap;
+
+use serde::{Deserialize, Serialize};
+
+use crate::footprint::ItemKind;
+
+/// The priors format version this build reads and writes.
+pub const FORMAT: u32 = 1;
+
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct PriorsFile {
+    pub format: u32,
+    pub provenance: Provenance,
+    pub attributes: Vec<AttributeSpec>,
+    #[serde(default)]
+    pub items: Vec<ItemSpec>,
+}
+
+/// Where the statistics came from.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct Provenance {
+    /// Who or what produced the statistics.
+    pub source: String,
+    /// Licence of the statistics (SPDX identifier where there is one).
+    pub licence: String,
+    /// Date made, `YYYY-MM-DD`.
+    pub created: String,
+    /// How they were made, in a sentence or two.
+    pub method: String,
+    /// True when the statistics describe an invented population.
+    pub synthetic: bool,
+    /// How many people contributed.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub contributors: Option<u64>,
+    /// Differential-privacy parameters, when the counts were released with noise.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub privacy: Option<PrivacySpec>,
+}
+
+/// How the counts were protected.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct PrivacySpec {
+    /// "laplace".
+    pub mechanism: String,
+    /// Total privacy budget ε for one contributor.
+    pub epsilon: f64,
+    /// L1 sensitivity of one released count.
+    pub sensitivity: f64,
+    /// Items with fewer noisy members than this were dropped.
+    pub min_members: f64,
+    /// How the budget was split across attributes and items, in words.
+    pub budget_split: String,
+}
+
+/// One protected attribute.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct AttributeSpec {
+    pub id: String,
+    pub label: String,
+    /// Alert threshold: a best guess more likely than this counts as exposed.
+    pub threshold: f64,
+    /// Dirichlet prior strength α for smoothing member counts.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub smoothing: Option<f64>,
+    /// The GDPR Article 9 special category this attribute falls in, if any.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub special_category: Option<String>,
+    pub values: Vec<ValueSpec>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub calibration: Option<Calibration>,
+}
+
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct ValueSpec {
+    pub id: String,
+    pub label: String,
+    pub base_rate: f64,
+}
+
+/// How summed evidence becomes a probability.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(tag = "method", rename_all = "lowercase", deny_unknown_fields)]
+pub enum Calibration {
+    /// Naive Bayes with a temperature: `log P(v) = log π(v) + λ·Σ log L(v) − log Z`.
+    /// λ < 1 tempers the overconfidence that correlated items cause.
+    Temperature { lambda: f64 },
+}
+
+impl Default for Calibration {
+    fn default() -> Self {
+        Calibration::Temperature { lambda: 1.0 }
+    }
+}
+
+/// One reference item.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct ItemSpec {
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub id: Option<String>,
+    pub name: String,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub kind: Option<ItemKind>,
+    /// Other names the item is known by.
+    #[serde(default, skip_serializing_if = "Vec::is_empty")]
+    pub aliases: Vec<String>,
+    /// Attribute id → members per value (in the attribute's value order).
+    pub members: BTreeMap<String, MemberSpec>,
+}
+
+/// Members of an item for one attribute: counts per value, or shares per value with an
+/// effective sample size.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(untagged)]
+pub enum MemberSpec {
+    Counts(Vec<f64>),
+    Shares { shares: Vec<f64>, n: f64 },
+}
+
+impl MemberSpec {
+    /// Counts per value (shares × n for the shares form).
+    pub fn counts(&self) -> Vec<f64> {
+        match self {
+            MemberSpec::Counts(c) => c.clone(),
+            MemberSpec::Shares { shares, n } => shares.iter().map(|s| s * n).collect(),
+        }
+    }
+
+    pub fn len(&self) -> usize {
+        match self {
+            MemberSpec::Counts(c) => c.len(),
+            MemberSpec::Shares { shares, .. } => shares.len(),
+        }
+    }
+
+    pub fn is_empty(&self) -> bool {
+        self.len() == 0
+    }
+}

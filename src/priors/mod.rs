@@ -1,0 +1,19 @@
+//! Reference priors: the population statistics the observer is assumed to have. A JSON
+//! file (format 1, documented in docs/priors.md) lists the protected attributes with
+//! their values, base rates, alert thresholds and calibration, and the reference items
+//! with their members' counts per attribute value, with provenance (source, licence,
+//! method, differential-privacy parameters). Loading checks it and builds the indexes
+//! that match an archive's items by id or normalised name.
+
+mod error;
+mod file;
+mod index;
+mod model;
+
+pub use error::{Error, Result};
+pub use file::{
+    AttributeSpec, Calibration, ItemSpec, MemberSpec, PriorsFile, PrivacySpec, Provenance,
+    ValueSpec, FORMAT,
+};
+pub use index::MatchedBy;
+pub use model::{AttrValue, Attribute, PriorItem, Priors};

@@ -1,0 +1,77 @@
+//! Bytes to text: strip a UTF-8 byte-order mark, and replace invalid UTF-8 with U+FFFD
+//! rather than dropping the file (the caller warns).
+
+use std::borrow::Cow;
+
+/// Decode a file's bytes. Returns the text and the number of invalid byte sequences
+/// that were replaced (0 for clean UTF-8).
+pub fn decode_text(bytes: &[u8]) -> (Cow<'_, str>, usize) {
+    let bytes = bytes.strip_prefix(b"\xEF\xBB\xBF").unwrap_or(bytes);
+    match std::str::from_utf8(bytes) {
+        Ok(s) => (Cow::Borrowed(s), 0),
+        Err(_) => {
+            let mut bad = 0;
+            for chunk in bytes.utf8_chunks() {
+                if !chunk.invalid().is_empty() {
+                    bad += 1;
+                }
+            }
+            (String::from_utf8_lossy(bytes), bad)
+        }
+    }
+}
+
+/// Deepest nesting of arrays and objects in JSON text, found without parsing it (so a
+/// hostile file cannot make the parser recurse before the limit is checked). Brackets
+/// inside strings are ignored.
+pub fn json_depth(text: &str) -> usize {
+    let mut depth = 0usize;
+    let mut max = 0usize;
+    let mut in_string = false;
+    let mut escaped = false;
+    for b in text.bytes() {
+        if in_string {
+            if escaped {
+                escaped = false;
+            } else if b == b'\\' {
+                escaped = true;
+            } else if b == b'"' {
+                in_string = false;
+            }
+            continue;
+        }
+        match b {
+            b'"' => in_string = true,
+            b'[' | b'{' => {
+                depth += 1;
+                max = max.max(depth);
+            }
+            b']' | b'}' => depth = depth.saturating_sub(1),
+            _ => {}
+        }
+    }
+    max
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn bom_is_stripped_and_bad_bytes_counted() {
+        let (t, bad) = decode_text(b"\xEF\xBB\xBF{\"a\":1}");
+        assert_eq!(t, "{\"a\":1}");
+        assert_eq!(bad, 0);
+        let (t, bad) = decode_text(b"caf\xE9 ok");
+        assert_eq!(t, "caf\u{FFFD} ok");
+        assert_eq!(bad, 1);
+    }
+
+    #[test]
+    fn depth_ignores_brackets_in_strings() {
+        assert_eq!(json_depth(r#"{"a":[1,[2]]}"#), 3);
+        assert_eq!(json_depth(r#"{"a":"[[[[["}"#), 1);
+        assert_eq!(json_depth(r#"["\"[["]"#), 1);
+        assert_eq!(json_depth("42"), 0);
+    }
+}

@@ -1,0 +1,244 @@
+//! The report data: what every renderer shows, and exactly what `--format json` writes.
+//! Field names here are a public interface (format 1): add fields, never rename them.
+
+use std::collections::BTreeMap;
+
+use serde::Serialize;
+
+use crate::cautions::CAUTIONS;
+use crate::evidence::Subject;
+use crate::footprint::{Footprint, ItemKind};
+use crate::infer::Exposure;
+use crate::priors::Priors;
+use crate::reading::{attribute_sentence, level};
+
+/// The report format version.
+pub const REPORT_FORMAT: u32 = 1;
+
+#[derive(Debug, Clone, Serialize)]
+pub struct ScanReport {
+    pub format: u32,
+    pub tool: ToolInfo,
+    pub archive: ArchiveInfo,
+    pub priors: PriorsInfo,
+    pub attributes: Vec<AttributeReport>,
+    /// Item × attribute rows, most revealing for this person first.
+    pub items: Vec<ItemReport>,
+    pub warnings: Vec<String>,
+    pub cautions: Vec<String>,
+}
+
+#[derive(Debug, Clone, Serialize)]
+pub struct ToolInfo {
+    pub name: String,
+    pub version: String,
+}
+
+#[derive(Debug, Clone, Serialize)]
+pub struct ArchiveInfo {
+    /// File or folder name only (a full path can name the person).
+    pub name: String,
+    pub fingerprint: String,
+    pub items: usize,
+    pub by_kind: BTreeMap<String, usize>,
+    pub friends: usize,
+    pub files_read: usize,
+    pub records_skipped: usize,
+    pub hidden: usize,
+}
+
+#[derive(Debug, Clone, Serialize)]
+pub struct PriorsInfo {
+    pub name: String,
+    pub source: String,
+    pub licence: String,
+    pub synthetic: bool,
+    pub reference_items: usize,
+    pub items_matched: usize,
+}
+
+#[derive(Debug, Clone, Serialize)]
+pub struct ValueShare {
+    pub id: String,
+    pub label: String,
+    pub probability: f64,
+    pub base_rate: f64,
+}
+
+#[derive(Debug, Clone, Serialize)]
+pub struct AttributeReport {
+    pub id: String,
+    pub label: String,
+    /// Value id of the observer's best guess.
+    pub best_guess: String,
+    pub best_guess_label: String,
+    pub probability: f64,
+    /// Base rate of the best-guess value.
+    pub base_rate: f64,
+    /// probability / base_rate.
+    pub lift: f64,
+    /// 1/|V|: how often a uniform random guess is right.
+    pub uniform_rate: f64,
+    pub threshold: f64,
+    /// exposed, leaning or quiet.
+    pub level: String,
+    /// Visible pieces of evidence feeding this attribute.
+    pub feeding: usize,
+    pub reading: String,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub special_category: Option<String>,
+    pub distribution: Vec<ValueShare>,
+}
+
+#[derive(Debug, Clone, Serialize)]
+pub struct ItemReport {
+    pub name: String,
+    /// like, group, follow, event, or friends (the friend list as a whole).
+    pub kind: String,
+    /// Attribute id.
+    pub attribute: String,
+    /// The value this item points to most (its highest likelihood ratio).
+    pub reveals: String,
+    pub reveals_label: String,
+    /// KL(p‖π) in bits: how far the item's members are from the population.
+    pub bits: f64,
+    /// 1 − H(p)/log₂|V|.
+    pub homogeneity: f64,
+    /// λ·log₂ L(best guess): bits this item adds toward the observer's best guess
+    /// for this person (negative: it argues against it).
+    pub contribution_bits: f64,
+    /// How much the best guess's probability would fall if this item were hidden.
+    pub if_hidden_drop: f64,
+    /// Members behind the estimate.
+    pub support: f64,
+    /// priors, lexicon, friends or mark.
+    pub source: String,
+    pub source_detail: String,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub date: Option<i64>,
+}
+
+/// Build the report for the current state of an exposure.
+pub fn build(
+    archive_name: &str,
+    footprint: &Footprint,
+    priors: &Priors,
+    exposure: &Exposure,
+) -> ScanReport {
+    let mut by_kind = BTreeMap::new();
+    for kind in ItemKind::ALL {
+        by_kind.insert(kind.plural().to_string(), footprint.count(kind));
+    }
+    let archive = ArchiveInfo {
+        name: archive_name.to_string(),
+        fingerprint: footprint.fingerprint.clone(),
+        items: footprint.items.len(),
+        by_kind,
+        friends: footprint.friends.len(),
+        files_read: footprint.stats.files_read,
+        records_skipped: footprint.stats.records_skipped,
+        hidden: exposure.hidden_subjects().len(),
+    };
+    let priors_info = PriorsInfo {
+        name: std::path::Path::new(&priors.origin)
+            .file_name()
+            .map(|n| n.to_string_lossy().into_owned())
+            .unwrap_or_else(|| priors.origin.clone()),
+        source: priors.provenance.source.clone(),
+        licence: priors.provenance.licence.clone(),
+        synthetic: priors.provenance.synthetic,
+        reference_items: priors.items.len(),
+        items_matched: exposure.evidence().matched_items,
+    };
+
+    let mut attributes = Vec::new();
+    let mut items = Vec::new();
+    for (ai, attr) in priors.attributes.iter().enumerate() {
+        let post = exposure.posterior(ai);
+        let base = attr.base_rates[post.best];
+        let guess = &attr.values[post.best];
+        attributes.push(AttributeReport {
+            id: attr.id.clone(),
+            label: attr.label.clone(),
+            best_guess: guess.id.clone(),
+            best_guess_label: guess.label.clone(),
+            probability: post.probability,
+            base_rate: base,
+            lift: post.probability / base,
+            uniform_rate: attr.uniform_rate(),
+            threshold: attr.threshold,
+            level: level(post.probability, base, attr.threshold)
+                .word()
+                .to_string(),
+            feeding: exposure.feeding(ai),
+            reading: attribute_sentence(
+                &attr.label,
+                &guess.label,
+                post.probability,
+                base,
+                attr.threshold,
+            ),
+            special_category: attr.special_category.clone(),
+            distribution: attr
+                .values
+                .iter()
+                .zip(&post.probs)
+                .zip(&attr.base_rates)
+                .map(|((v, &p), &b)| ValueShare {
+                    id: v.id.clone(),
+                    label: v.label.clone(),
+                    probability: p,
+                    base_rate: b,
+                })
+                .collect(),
+        });
+        for c in exposure.contributions(ai) {
+            let e = &exposure.evidence().list[c.evidence];
+            let (name, kind, date) = match c.subject {
+                Subject::Item(i) => {
+                    let it = &footprint.items[i];
+                    (it.name.clone(), it.kind.as_str().to_string(), it.date)
+                }
+                Subject::FriendList => ("your friend list".to_string(), "friends".to_string(), None),
+            };
+            let leaning = e.leaning();
+            items.push(ItemReport {
+                name,
+                kind,
+                attribute: attr.id.clone(),
+                reveals: attr.values[leaning].id.clone(),
+                reveals_label: attr.values[leaning].label.clone(),
+                bits: e.info_bits,
+                homogeneity: e.homogeneity,
+                contribution_bits: c.toward_best_bits,
+                if_hidden_drop: c.loo_drop,
+                support: e.support,
+                source: e.origin.kind().to_string(),
+                source_detail: e.origin.describe(),
+                date,
+            });
+        }
+    }
+    items.sort_by(|a, b| {
+        b.contribution_bits
+            .total_cmp(&a.contribution_bits)
+            .then(b.bits.total_cmp(&a.bits))
+    });
+
+    let mut warnings: Vec<String> = footprint.warnings.iter().map(|w| w.to_string()).collect();
+    warnings.extend(priors.warnings.iter().map(|w| format!("{}: {w}", priors_info.name)));
+
+    ScanReport {
+        format: REPORT_FORMAT,
+        tool: ToolInfo {
+            name: "telltale".into(),
+            version: env!("CARGO_PKG_VERSION").into(),
+        },
+        archive,
+        priors: priors_info,
+        attributes,
+        items,
+        warnings,
+        cautions: CAUTIONS.iter().map(|s| s.to_string()).collect(),
+    }
+}

@@ -1,0 +1,138 @@
+//! The Markdown report: a document a person can keep, print or open in any editor.
+
+use std::io::{self, Write};
+
+use super::build::ScanReport;
+use crate::cautions::TITLE;
+use crate::reading::percent;
+
+/// Escape text for a Markdown table cell or line.
+fn esc(s: &str) -> String {
+    let mut out = String::with_capacity(s.len());
+    for c in s.chars() {
+        if matches!(c, '|' | '*' | '_' | '`' | '[' | ']' | '<' | '>' | '#' | '\\') {
+            out.push('\\');
+        }
+        if c == '\n' {
+            out.push(' ');
+        } else {
+            out.push(c);
+        }
+    }
+    out
+}
+
+/// Write the Markdown report; `top` limits the item table.
+pub fn write_markdown(r: &ScanReport, top: usize, out: &mut dyn Write) -> io::Result<()> {
+    writeln!(out, "# What {} gives away\n", esc(&r.archive.name))?;
+    writeln!(
+        out,
+        "Made by telltale {} on this computer. Archive fingerprint `{}`.\n",
+        r.tool.version, r.archive.fingerprint
+    )?;
+    let kinds: Vec<String> = r
+        .archive
+        .by_kind
+        .iter()
+        .filter(|(_, n)| **n > 0)
+        .map(|(k, n)| format!("{n} {k}"))
+        .collect();
+    writeln!(
+        out,
+        "- **Archive:** {} items ({}), {} friends\n- **Reference statistics:** {} — {}{}; {} of {} items matched",
+        r.archive.items,
+        if kinds.is_empty() { "none".into() } else { kinds.join(", ") },
+        r.archive.friends,
+        esc(&r.priors.name),
+        esc(&r.priors.source),
+        if r.priors.synthetic { " (synthetic: a fictional population)" } else { "" },
+        r.priors.items_matched,
+        r.archive.items
+    )?;
+    if r.archive.hidden > 0 {
+        writeln!(out, "- **Treated as hidden:** {} item(s)", r.archive.hidden)?;
+    }
+    writeln!(out)?;
+
+    writeln!(out, "## What an observer could guess\n")?;
+    writeln!(
+        out,
+        "| Attribute | Best guess | Probability | Population rate | Alert level | Status |"
+    )?;
+    writeln!(out, "|---|---|---:|---:|---:|---|")?;
+    for a in &r.attributes {
+        writeln!(
+            out,
+            "| {} | {} | {} | {} | {} | {} |",
+            esc(&a.label),
+            esc(&a.best_guess_label),
+            percent(a.probability),
+            percent(a.base_rate),
+            percent(a.threshold),
+            a.level
+        )?;
+    }
+    writeln!(out)?;
+    for a in &r.attributes {
+        writeln!(out, "- **{}:** {}", esc(&a.label), esc(&a.reading))?;
+    }
+    writeln!(out)?;
+
+    writeln!(out, "## Items that give the most away\n")?;
+    let shown: Vec<_> = r
+        .items
+        .iter()
+        .filter(|i| i.contribution_bits > 0.0)
+        .take(top)
+        .collect();
+    if shown.is_empty() {
+        writeln!(out, "No item matched the reference statistics.\n")?;
+    } else {
+        writeln!(
+            out,
+            "| # | Item | Kind | Points to | Bits | Homogeneity | Adds (bits) | If hidden |"
+        )?;
+        writeln!(out, "|---:|---|---|---|---:|---:|---:|---:|")?;
+        for (n, i) in shown.iter().enumerate() {
+            let attr_label = r
+                .attributes
+                .iter()
+                .find(|a| a.id == i.attribute)
+                .map(|a| a.label.as_str())
+                .unwrap_or(&i.attribute);
+            writeln!(
+                out,
+                "| {} | {} | {} | {}: {} | {:.2} | {:.2} | {:+.2} | −{} |",
+                n + 1,
+                esc(&i.name),
+                i.kind,
+                esc(attr_label),
+                esc(&i.reveals_label),
+                i.bits,
+                i.homogeneity,
+                i.contribution_bits,
+                percent(i.if_hidden_drop.max(0.0))
+            )?;
+        }
+        writeln!(
+            out,
+            "\n*Bits*: how far the item's members differ from the population (Kullback–Leibler divergence). \
+             *Homogeneity*: 0 when members are as mixed as the population, 1 when all alike. \
+             *Adds*: bits the item adds to the observer's best guess about you. \
+             *If hidden*: how much the best guess's probability would fall.\n"
+        )?;
+    }
+
+    if !r.warnings.is_empty() {
+        writeln!(out, "## Warnings\n")?;
+        for w in &r.warnings {
+            writeln!(out, "- {}", esc(w))?;
+        }
+        writeln!(out)?;
+    }
+    writeln!(out, "## {TITLE}\n")?;
+    for c in &r.cautions {
+        writeln!(out, "- {}", esc(c))?;
+    }
+    Ok(())
+}

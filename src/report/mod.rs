@@ -1,0 +1,21 @@
+//! Reports of one scan: a stable, versioned data structure (the JSON document, format
+//! 1) and renderers for text (with or without colour) and Markdown. Renderers write to
+//! any `io::Write`, so they are tested in memory. Friends' names never appear unless the
+//! caller asks for them.
+
+mod build;
+mod markdown;
+mod text;
+
+pub use build::{
+    ArchiveInfo, AttributeReport, ItemReport, PriorsInfo, REPORT_FORMAT, ScanReport, ValueShare,
+    build,
+};
+pub use markdown::write_markdown;
+pub use text::{TextOptions, write_text};
+
+/// Write the JSON document (pretty-printed, newline-terminated).
+pub fn write_json(report: &ScanReport, out: &mut dyn std::io::Write) -> std::io::Result<()> {
+    serde_json::to_writer_pretty(&mut *out, report)?;
+    writeln!(out)
+}

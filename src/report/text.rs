@@ -1,0 +1,254 @@
+//! The text report: readable at 80 columns, coloured only when asked (the caller
+//! decides from the terminal and `NO_COLOR`), and meaningful without colour (levels are
+//! also written as words).
+
+use std::io::{self, Write};
+
+use super::build::ScanReport;
+use crate::cautions::TITLE;
+use crate::reading::percent;
+use crate::text::{pad_to_width, truncate_to_width};
+
+/// How to render text.
+#[derive(Debug, Clone, Copy)]
+pub struct TextOptions {
+    /// Use ANSI colours and bold.
+    pub colour: bool,
+    /// How many item rows to show.
+    pub top: usize,
+}
+
+impl Default for TextOptions {
+    fn default() -> Self {
+        TextOptions {
+            colour: false,
+            top: 15,
+        }
+    }
+}
+
+struct Paint(bool);
+
+impl Paint {
+    fn wrap(&self, code: &str, s: &str) -> String {
+        if self.0 {
+            format!("\x1b[{code}m{s}\x1b[0m")
+        } else {
+            s.to_string()
+        }
+    }
+    fn bold(&self, s: &str) -> String {
+        self.wrap("1", s)
+    }
+    fn dim(&self, s: &str) -> String {
+        self.wrap("2", s)
+    }
+    fn level(&self, level: &str) -> String {
+        let code = match level {
+            "exposed" => "1;31",
+            "leaning" => "33",
+            _ => "32",
+        };
+        self.wrap(code, &level.to_uppercase())
+    }
+}
+
+/// A bar of `width` cells: filled to `p`, with a `|` at the base rate.
+fn bar(p: f64, base: f64, width: usize) -> String {
+    let filled = (p.clamp(0.0, 1.0) * width as f64).round() as usize;
+    let mark = ((base.clamp(0.0, 1.0) * width as f64).round() as usize).min(width - 1);
+    (0..width)
+        .map(|i| {
+            if i == mark {
+                '|'
+            } else if i < filled {
+                '█'
+            } else {
+                '·'
+            }
+        })
+        .collect()
+}
+
+fn wrap_words(s: &str, width: usize, indent: &str) -> String {
+    let mut lines = Vec::new();
+    let mut line = String::new();
+    for word in s.split_whitespace() {
+        if !line.is_empty() && line.chars().count() + 1 + word.chars().count() > width {
+            lines.push(std::mem::take(&mut line));
+        }
+        if !line.is_empty() {
+            line.push(' ');
+        }
+        line.push_str(word);
+    }
+    if !line.is_empty() {
+        lines.push(line);
+    }
+    lines
+        .iter()
+        .map(|l| format!("{indent}{l}"))
+        .collect::<Vec<_>>()
+        .join("\n")
+}
+
+/// Write the text report.
+pub fn write_text(r: &ScanReport, opts: TextOptions, out: &mut dyn Write) -> io::Result<()> {
+    let p = Paint(opts.colour);
+    writeln!(out, "{}", p.bold("telltale: what your archive gives away"))?;
+    let kinds: Vec<String> = r
+        .archive
+        .by_kind
+        .iter()
+        .filter(|(_, n)| **n > 0)
+        .map(|(k, n)| format!("{n} {k}"))
+        .collect();
+    writeln!(
+        out,
+        "Archive    {} · {} items ({}) · {} friends",
+        r.archive.name,
+        r.archive.items,
+        if kinds.is_empty() {
+            "none".to_string()
+        } else {
+            kinds.join(", ")
+        },
+        r.archive.friends
+    )?;
+    writeln!(
+        out,
+        "Reference  {} · {}{} · {} of {} items matched",
+        r.priors.name,
+        r.priors.source,
+        if r.priors.synthetic {
+            " (synthetic: a fictional population)"
+        } else {
+            ""
+        },
+        r.priors.items_matched,
+        r.archive.items
+    )?;
+    if r.archive.hidden > 0 {
+        writeln!(out, "Hidden     {} item(s) treated as hidden", r.archive.hidden)?;
+    }
+    writeln!(out)?;
+
+    writeln!(out, "{}", p.bold("WHAT AN OBSERVER COULD GUESS"))?;
+    for a in &r.attributes {
+        writeln!(
+            out,
+            "  {} {} {:>4}  {}  {}",
+            pad_to_width(&a.label, 16),
+            pad_to_width(&a.best_guess_label, 18),
+            percent(a.probability),
+            bar(a.probability, a.base_rate, 20),
+            p.level(&a.level),
+        )?;
+        let detail = format!(
+            "population rate {} · alert level {} · {} piece(s) of evidence",
+            percent(a.base_rate),
+            percent(a.threshold),
+            a.feeding
+        );
+        writeln!(out, "{}", p.dim(&format!("    {detail}")))?;
+        writeln!(out, "{}", wrap_words(&a.reading, 74, "    "))?;
+    }
+    writeln!(
+        out,
+        "{}",
+        p.dim("  (bar: █ the guess's probability, | the population rate)")
+    )?;
+    writeln!(out)?;
+
+    let shown: Vec<_> = r
+        .items
+        .iter()
+        .filter(|i| i.contribution_bits > 0.0)
+        .take(opts.top)
+        .collect();
+    writeln!(out, "{}", p.bold("ITEMS THAT GIVE THE MOST AWAY"))?;
+    if shown.is_empty() {
+        writeln!(
+            out,
+            "  None of your items matched the reference statistics, so none points to a guess."
+        )?;
+    } else {
+        writeln!(
+            out,
+            "{}",
+            p.dim(&format!(
+                "  {:>2}  {} {} {} {:>5} {:>6} {:>7}",
+                "#",
+                pad_to_width("Item", 28),
+                pad_to_width("Kind", 7),
+                pad_to_width("Points to", 22),
+                "Bits",
+                "Homog.",
+                "Adds"
+            ))
+        )?;
+        for (n, i) in shown.iter().enumerate() {
+            let attr_label = r
+                .attributes
+                .iter()
+                .find(|a| a.id == i.attribute)
+                .map(|a| a.label.as_str())
+                .unwrap_or(&i.attribute);
+            writeln!(
+                out,
+                "  {:>2}  {} {} {} {:>5.2} {:>6.2} {:>+7.2}",
+                n + 1,
+                pad_to_width(&i.name, 28),
+                pad_to_width(&i.kind, 7),
+                pad_to_width(
+                    &truncate_to_width(&format!("{attr_label}: {}", i.reveals_label), 22),
+                    22
+                ),
+                i.bits,
+                i.homogeneity,
+                i.contribution_bits
+            )?;
+        }
+        writeln!(
+            out,
+            "{}",
+            p.dim(
+                "  Bits: how far the item's members differ from everyone (KL divergence).\n  Homog.: 0 = members as mixed as the population, 1 = all alike.\n  Adds: bits this item adds to the observer's best guess about you."
+            )
+        )?;
+    }
+    writeln!(out)?;
+
+    if !r.warnings.is_empty() {
+        writeln!(out, "{}", p.bold(&format!("WARNINGS ({})", r.warnings.len())))?;
+        for w in r.warnings.iter().take(20) {
+            writeln!(out, "  - {w}")?;
+        }
+        if r.warnings.len() > 20 {
+            writeln!(
+                out,
+                "  … {} more (use --format json for all)",
+                r.warnings.len() - 20
+            )?;
+        }
+        writeln!(out)?;
+    }
+
+    writeln!(out, "{}", p.bold(&TITLE.to_uppercase()))?;
+    for c in &r.cautions {
+        writeln!(out, "{}", wrap_words(c, 76, "  "))?;
+    }
+    Ok(())
+}
+
+#[cfg(test)]
+mod tests {
+    use super::bar;
+
+    #[test]
+    fn bar_marks_probability_and_base() {
+        assert_eq!(bar(0.5, 0.1, 10), "█|███·····");
+        assert_eq!(bar(0.0, 0.0, 4), "|···");
+        assert_eq!(bar(1.0, 1.0, 4), "███|");
+    }
+}

@@ -1,0 +1,102 @@
+//! One scan, end to end: open the archive, find or load its mapping, import the
+//! footprint, gather evidence against the priors and set up the live exposure. The CLI,
+//! the explorer, the planner and the benchmarks all start here.
+
+use std::path::{Path, PathBuf};
+
+use crate::archive::{self, Archive};
+use crate::evidence;
+use crate::footprint::Footprint;
+use crate::import;
+use crate::infer::Exposure;
+use crate::limits::Limits;
+use crate::mapping::{self, Mapping};
+use crate::priors::{self, Priors};
+use crate::report::{self, ScanReport};
+
+/// The bundled demo priors (synthetic statistics of the fictional demo network).
+pub const DEMO_PRIORS_JSON: &str = include_str!("../reference-priors/demo-priors.json");
+
+/// Name shown for the bundled priors.
+pub const DEMO_PRIORS_NAME: &str = "demo-priors.json (bundled)";
+
+/// Load priors from a file, or the bundled demo priors when no file is named.
+pub fn load_priors(path: Option<&Path>) -> Result<Priors, priors::Error> {
+    match path {
+        Some(p) => Priors::load(p),
+        None => Priors::parse(DEMO_PRIORS_JSON, DEMO_PRIORS_NAME),
+    }
+}
+
+/// What to scan.
+#[derive(Debug, Clone, Default)]
+pub struct ScanInput {
+    pub archive: PathBuf,
+    /// A mapping file; `None` looks inside and beside the archive.
+    pub mapping: Option<PathBuf>,
+    pub limits: Limits,
+}
+
+#[derive(Debug, thiserror::Error)]
+pub enum Error {
+    #[error(transparent)]
+    Archive(#[from] archive::Error),
+    #[error(transparent)]
+    Mapping(#[from] mapping::Error),
+    #[error(transparent)]
+    Import(#[from] import::Error),
+}
+
+/// The result of importing and scoring one archive.
+#[derive(Debug, Clone)]
+pub struct Scan {
+    /// The archive's file or folder name.
+    pub archive_name: String,
+    /// Where the mapping came from.
+    pub mapping_origin: String,
+    pub footprint: Footprint,
+    pub exposure: Exposure,
+}
+
+impl Scan {
+    /// Import an archive and score it against the priors.
+    pub fn run(input: &ScanInput, priors: &Priors) -> Result<Scan, Error> {
+        let mut archive = Archive::open(&input.archive, &input.limits)?;
+        let mapping = match &input.mapping {
+            Some(p) => Mapping::load(p)?,
+            None => {
+                let found = mapping::locate(&mut archive)?;
+                Mapping::parse(&found.text, &found.origin)?
+            }
+        };
+        let footprint = import::import(&mut archive, &mapping, &input.limits)?;
+        Ok(Scan::from_footprint(
+            archive.display_name(),
+            mapping.origin.clone(),
+            footprint,
+            priors,
+        ))
+    }
+
+    /// Score an already imported footprint.
+    pub fn from_footprint(
+        archive_name: String,
+        mapping_origin: String,
+        footprint: Footprint,
+        priors: &Priors,
+    ) -> Scan {
+        let evidence = evidence::gather(&footprint, priors);
+        let exposure = Exposure::new(priors, evidence);
+        Scan {
+            archive_name,
+            mapping_origin,
+            footprint,
+            exposure,
+        }
+    }
+
+    /// The report for the current state (hidden items count as hidden).
+    pub fn report(&self, priors: &Priors) -> ScanReport {
+        report::build(&self.archive_name, &self.footprint, priors, &self.exposure)
+    }
+}
