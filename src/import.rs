@@ -13,8 +13,7 @@ use crate::footprint::{Footprint, Friend, Item, Origin, Warning};
 use crate::limits::{LimitName, Limits};
 use crate::mapping::{Field, Mapping, Repair, Source, SourceKind};
 use crate::records::{
-    FieldError, Record, RecordSink, decode_text, field_text, field_value, parse_date,
-    read_records,
+    FieldError, Record, RecordSink, decode_text, field_text, field_value, parse_date, read_records,
 };
 use crate::text::repair_latin1_mojibake;
 
@@ -32,11 +31,18 @@ pub enum Error {
 }
 
 /// Import an archive through a mapping.
-pub fn import(archive: &mut Archive, mapping: &Mapping, limits: &Limits) -> Result<Footprint, Error> {
+pub fn import(
+    archive: &mut Archive,
+    mapping: &Mapping,
+    limits: &Limits,
+) -> Result<Footprint, Error> {
     let mut budget = ReadBudget::new(limits);
     let mut state = State::new(limits.records);
     for skipped in archive.skipped() {
-        state.footprint.warnings.push(Warning::new(format!("{skipped}; left out")));
+        state
+            .footprint
+            .warnings
+            .push(Warning::new(format!("{skipped}; left out")));
     }
 
     // Which entries each source reads, in archive order.

@@ -89,7 +89,11 @@ pub struct Exposure {
 
 impl Exposure {
     pub fn new(priors: &Priors, evidence: EvidenceSet) -> Exposure {
-        let models: Vec<AttrModel> = priors.attributes.iter().map(AttrModel::from_attribute).collect();
+        let models: Vec<AttrModel> = priors
+            .attributes
+            .iter()
+            .map(AttrModel::from_attribute)
+            .collect();
         Exposure::with_models(models, evidence)
     }
 
@@ -271,14 +275,7 @@ mod tests {
     }
 
     fn ev(item: usize, p: &[f64], base: &[f64]) -> Evidence {
-        Evidence::from_distribution(
-            Subject::Item(item),
-            0,
-            p.to_vec(),
-            base,
-            10.0,
-            Origin::Mark,
-        )
+        Evidence::from_distribution(Subject::Item(item), 0, p.to_vec(), base, 10.0, Origin::Mark)
     }
 
     // Worked example by hand (Bayes' rule): prior (0.5, 0.5); two independent items

@@ -21,4 +21,5 @@ pub mod records;
 pub mod report;
 pub mod scan;
 pub mod stats;
+pub mod synth;
 pub mod text;

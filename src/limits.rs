@@ -27,13 +27,13 @@ pub struct Limits {
 impl Default for Limits {
     fn default() -> Self {
         Limits {
-            entry_bytes: 1 << 30,       // 1 GiB
-            total_bytes: 4 << 30,       // 4 GiB
-            entries: 2_000_000,         // photo-heavy archives list many files
-            folder_depth: 64,           // common practice, no source
-            records: 20_000_000,        // far above any personal archive
-            line_bytes: 16 << 20,       // 16 MiB
-            json_depth: 128,            // serde_json's own recursion bound
+            entry_bytes: 1 << 30, // 1 GiB
+            total_bytes: 4 << 30, // 4 GiB
+            entries: 2_000_000,   // photo-heavy archives list many files
+            folder_depth: 64,     // common practice, no source
+            records: 20_000_000,  // far above any personal archive
+            line_bytes: 16 << 20, // 16 MiB
+            json_depth: 128,      // serde_json's own recursion bound
         }
     }
 }

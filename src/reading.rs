@@ -111,7 +111,10 @@ mod tests {
     fn frequencies_read_naturally() {
         assert_eq!(how_often(0.68), "about 7 times in 10");
         assert_eq!(how_often(0.5), "about 5 times in 10");
-        assert_eq!(how_often(0.97), "almost every time (more than 19 times in 20)");
+        assert_eq!(
+            how_often(0.97),
+            "almost every time (more than 19 times in 20)"
+        );
         assert_eq!(how_often(0.04), "about 1 time in 25");
         // Uniform guessing over 55 values: 1/55 ≈ 1.8% (common practice, no source).
         assert_eq!(percent(1.0 / 55.0), "1.8%");

@@ -20,6 +20,43 @@ pub fn smooth(counts: &[f64], base: &[f64], alpha: f64) -> Vec<f64> {
         .collect()
 }
 
+/// An item's smoothed member distribution and its reference, for likelihood ratios.
+///
+/// Each value gets the prior pseudo-count `a(v) = α·μ(v) + k` (α spreads pseudo-members
+/// in proportion to the membership rates μ, `k` adds the same small number to every
+/// value). Then `p(v) = (c(v) + a(v)) / (n + A)` is the item's smoothed distribution
+/// and `q(v) = (n·μ(v) + a(v)) / (n + A)` what an item of the same size would look like
+/// if its members were like everyone's memberships. The likelihood ratio is
+/// `p(v)/q(v) = (c(v) + a(v)) / (n·μ(v) + a(v))`: the Poisson–gamma posterior mean of
+/// the rate ratio, which stays near 1 where few members are expected (small values are
+/// not given weight by chance) and follows the counts where many are. With `k = 0`,
+/// `q = μ` and `p` is the plain Dirichlet smoothing of [`smooth`].
+pub fn smooth_against(
+    counts: &[f64],
+    member_rates: &[f64],
+    alpha: f64,
+    k: f64,
+) -> (Vec<f64>, Vec<f64>) {
+    debug_assert_eq!(counts.len(), member_rates.len());
+    let n: f64 = counts.iter().map(|c| c.max(0.0)).sum();
+    let prior: Vec<f64> = member_rates.iter().map(|m| alpha * m + k).collect();
+    let denom = n + prior.iter().sum::<f64>();
+    if denom <= 0.0 {
+        return (member_rates.to_vec(), member_rates.to_vec());
+    }
+    let p = counts
+        .iter()
+        .zip(&prior)
+        .map(|(&c, &a)| (c.max(0.0) + a) / denom)
+        .collect();
+    let q = member_rates
+        .iter()
+        .zip(&prior)
+        .map(|(&m, &a)| (n * m + a) / denom)
+        .collect();
+    (p, q)
+}
+
 /// Shannon entropy in bits, with `0·log 0 = 0`.
 pub fn entropy_bits(p: &[f64]) -> f64 {
     -p.iter()
@@ -82,6 +119,32 @@ pub fn argmax(p: &[f64]) -> (usize, f64) {
         })
 }
 
+/// Expected calibration error of top-guess confidences: predictions are put in `bins`
+/// equal-width confidence bins and `Σ_b (n_b/N)·|accuracy_b − confidence_b|` is
+/// returned (Guo et al. 2017, "On Calibration of Modern Neural Networks", eq. 3).
+pub fn expected_calibration_error(predictions: &[(f64, bool)], bins: usize) -> f64 {
+    if predictions.is_empty() || bins == 0 {
+        return 0.0;
+    }
+    let mut conf = vec![0.0; bins];
+    let mut hits = vec![0.0; bins];
+    let mut n = vec![0usize; bins];
+    for &(c, correct) in predictions {
+        let b = ((c.clamp(0.0, 1.0) * bins as f64) as usize).min(bins - 1);
+        conf[b] += c;
+        hits[b] += if correct { 1.0 } else { 0.0 };
+        n[b] += 1;
+    }
+    let total = predictions.len() as f64;
+    (0..bins)
+        .filter(|&b| n[b] > 0)
+        .map(|b| {
+            let nb = n[b] as f64;
+            (nb / total) * (hits[b] / nb - conf[b] / nb).abs()
+        })
+        .sum()
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -123,6 +186,38 @@ mod tests {
         assert!(close(p[0], (1.0 + 2.0) / 5.0));
         // Negative (noisy) counts are treated as zero.
         assert_eq!(smooth(&[-3.0, 0.0, 0.0], &base, 4.0), base.to_vec());
+    }
+
+    // Worked by hand from the definition (Guo et al. 2017, eq. 3): two bins, bin
+    // [0.5,1) holds confidences 0.6, 0.8 with one hit → |0.5 − 0.7| · 2/4; bin [0,0.5)
+    // holds 0.2, 0.4 with one hit → |0.5 − 0.3| · 2/4; ECE = 0.2.
+    #[test]
+    fn ece_worked_example() {
+        let preds = [(0.6, true), (0.8, false), (0.2, true), (0.4, false)];
+        assert!(close(expected_calibration_error(&preds, 2), 0.2));
+        assert!(close(expected_calibration_error(&[(1.0, true)], 10), 0.0));
+        assert_eq!(expected_calibration_error(&[], 10), 0.0);
+    }
+
+    #[test]
+    fn smoothing_against_membership_rates() {
+        let mu = [0.5, 0.25, 0.25];
+        // k = 0: p is the Dirichlet smoothing and q the membership rates.
+        let (p, q) = smooth_against(&[6.0, 2.0, 2.0], &mu, 4.0, 0.0);
+        assert_eq!(p, smooth(&[6.0, 2.0, 2.0], &mu, 4.0));
+        for (a, b) in q.iter().zip(&mu) {
+            assert!(close(*a, *b));
+        }
+        // k > 0: likelihood ratio (c + a)/(nμ + a), Poisson–gamma posterior mean.
+        let (p, q) = smooth_against(&[6.0, 2.0, 2.0], &mu, 0.0, 5.0);
+        assert!(close(p[0] / q[0], (6.0 + 5.0) / (5.0 + 5.0)));
+        assert!(close(p.iter().sum::<f64>(), 1.0));
+        assert!(close(q.iter().sum::<f64>(), 1.0));
+        // An item whose members match the memberships carries no evidence.
+        let (p, q) = smooth_against(&[50.0, 25.0, 25.0], &mu, 4.0, 2.0);
+        for (a, b) in p.iter().zip(&q) {
+            assert!(close(*a, *b));
+        }
     }
 
     #[test]

@@ -18,9 +18,13 @@ pub enum Error {
     NotAnArchive { path: PathBuf },
     #[error("{path}: the zip file is damaged or truncated: {detail}")]
     BadZip { path: PathBuf, detail: String },
-    #[error("{entry}: stored encrypted; telltale cannot read encrypted entries (unpack the archive with its password first)")]
+    #[error(
+        "{entry}: stored encrypted; telltale cannot read encrypted entries (unpack the archive with its password first)"
+    )]
     Encrypted { entry: String },
-    #[error("{entry}: compressed with a method telltale does not read ({detail}); unpack the archive and point telltale at the folder")]
+    #[error(
+        "{entry}: compressed with a method telltale does not read ({detail}); unpack the archive and point telltale at the folder"
+    )]
     Unsupported { entry: String, detail: String },
     #[error("{entry}: cannot read: {detail}")]
     Read { entry: String, detail: String },

@@ -89,10 +89,13 @@ impl Zipped {
 
     pub fn read(&mut self, entry: &Entry, cap: u64) -> Result<Vec<u8>> {
         {
-            let data = self.zip.by_index_data(entry.index).map_err(|e| Error::Read {
-                entry: entry.path.clone(),
-                detail: e.to_string(),
-            })?;
+            let data = self
+                .zip
+                .by_index_data(entry.index)
+                .map_err(|e| Error::Read {
+                    entry: entry.path.clone(),
+                    detail: e.to_string(),
+                })?;
             if data.encrypted() {
                 return Err(Error::Encrypted {
                     entry: entry.path.clone(),

@@ -67,13 +67,13 @@ pub struct Evidence {
     pub subject: Subject,
     /// Index into the priors' attributes.
     pub attribute: usize,
-    /// Natural-log likelihood ratio per value, `ln(p(v)/π(v))`.
+    /// Natural-log likelihood ratio per value, `ln(p(v)/μ(v))`.
     pub log_lr: Vec<f64>,
     /// The implied member distribution `p(v)`.
     pub distribution: Vec<f64>,
     /// `1 − H(p)/log₂|V|`.
     pub homogeneity: f64,
-    /// `KL(p ‖ π)` in bits: how far the members are from the population.
+    /// `KL(p ‖ μ)` in bits: how far the members are from everyone's memberships.
     pub info_bits: f64,
     /// Members (or equivalent observations) behind the estimate.
     pub support: f64,
@@ -81,7 +81,8 @@ pub struct Evidence {
 }
 
 impl Evidence {
-    /// Evidence from a member distribution `p` against base rates `π`.
+    /// Evidence from a member distribution `p` against a reference distribution (the
+    /// membership rates μ for table items).
     pub fn from_distribution(
         subject: Subject,
         attribute: usize,

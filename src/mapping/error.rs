@@ -39,7 +39,10 @@ pub enum Error {
         message: String,
     },
     #[error("{file}: the mapping has {} problem(s):\n{}", problems.len(), list(problems))]
-    Invalid { file: String, problems: Vec<Problem> },
+    Invalid {
+        file: String,
+        problems: Vec<Problem>,
+    },
     #[error(
         "no mapping file for {archive}: telltale needs one to know where your likes, groups and friends are.\n\
          Pass --mapping FILE, or put '{name}' inside the archive or beside it.\n\

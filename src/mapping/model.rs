@@ -171,10 +171,7 @@ impl Mapping {
     /// Check mapping text; `origin` names it in messages.
     pub fn parse(text: &str, origin: &str) -> Result<Mapping> {
         let raw: RawMapping = toml::from_str(text).map_err(|e| {
-            let (line, column) = e
-                .span()
-                .map(|s| line_col(text, s.start))
-                .unwrap_or((1, 1));
+            let (line, column) = e.span().map(|s| line_col(text, s.start)).unwrap_or((1, 1));
             Error::Syntax {
                 file: origin.to_string(),
                 line,
@@ -291,7 +288,11 @@ impl SourceCheck<'_> {
                 let span = f.span();
                 let v = f.into_inner().into_vec();
                 if v.is_empty() {
-                    self.problem(Some(span.clone()), "files", "empty: list at least one glob".into());
+                    self.problem(
+                        Some(span.clone()),
+                        "files",
+                        "empty: list at least one glob".into(),
+                    );
                 }
                 Some((span, v))
             }
@@ -373,16 +374,15 @@ impl SourceCheck<'_> {
         let date = self.field(&raw.date, "date", fmt);
 
         match kind {
-            Some(SourceKind::SelfDeclared) => {
-                if raw.attributes.is_empty() {
-                    self.problem(
-                        None,
-                        "attributes",
-                        "a 'self' source needs [source.attributes] naming the field of each attribute"
-                            .into(),
-                    );
-                }
+            Some(SourceKind::SelfDeclared) if raw.attributes.is_empty() => {
+                self.problem(
+                    None,
+                    "attributes",
+                    "a 'self' source needs [source.attributes] naming the field of each attribute"
+                        .into(),
+                );
             }
+            Some(SourceKind::SelfDeclared) => {}
             Some(_) if raw.name.is_none() => self.problem(
                 None,
                 "name",

@@ -66,9 +66,14 @@ pub struct AttributeSpec {
     pub label: String,
     /// Alert threshold: a best guess more likely than this counts as exposed.
     pub threshold: f64,
-    /// Dirichlet prior strength α for smoothing member counts.
+    /// Dirichlet prior strength α for smoothing member counts (pseudo-members spread
+    /// in proportion to the membership rates).
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub smoothing: Option<f64>,
+    /// Pseudo-members added to every value, so values few members are expected to
+    /// hold need real evidence before they count.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub pseudocount: Option<f64>,
     /// The GDPR Article 9 special category this attribute falls in, if any.
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub special_category: Option<String>,
@@ -82,7 +87,13 @@ pub struct AttributeSpec {
 pub struct ValueSpec {
     pub id: String,
     pub label: String,
+    /// Share of the population with this value: the observer's prior.
     pub base_rate: f64,
+    /// Share of all item memberships held by people with this value (people with
+    /// some values join more items than others). Likelihood ratios are taken against
+    /// it; when absent, the base rate is used.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub member_rate: Option<f64>,
 }
 
 /// How summed evidence becomes a probability.

@@ -9,11 +9,13 @@ mod error;
 mod file;
 mod index;
 mod model;
+mod write;
 
 pub use error::{Error, Result};
 pub use file::{
-    AttributeSpec, Calibration, ItemSpec, MemberSpec, PriorsFile, PrivacySpec, Provenance,
-    ValueSpec, FORMAT,
+    AttributeSpec, Calibration, FORMAT, ItemSpec, MemberSpec, PriorsFile, PrivacySpec, Provenance,
+    ValueSpec,
 };
 pub use index::MatchedBy;
-pub use model::{AttrValue, Attribute, PriorItem, Priors};
+pub use model::{AttrValue, Attribute, DEFAULT_SMOOTHING, PriorItem, Priors};
+pub use write::write_priors;

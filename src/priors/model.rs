@@ -5,7 +5,7 @@ use std::collections::{HashMap, HashSet};
 use std::path::Path;
 
 use super::error::{Error, Result};
-use super::file::{Calibration, PriorsFile, Provenance, FORMAT};
+use super::file::{Calibration, FORMAT, PriorsFile, Provenance};
 use super::index::{Index, MatchedBy};
 use crate::footprint::{Item, ItemKind};
 
@@ -32,8 +32,13 @@ pub struct Attribute {
     pub base_rates: Vec<f64>,
     /// ln π(v).
     pub log_base: Vec<f64>,
+    /// Share of item memberships per value, μ(v), summing to 1: the reference an
+    /// item's members are compared with (equals the base rates when the file gives
+    /// none).
+    pub member_rates: Vec<f64>,
     pub threshold: f64,
     pub smoothing: f64,
+    pub pseudocount: f64,
     pub special_category: Option<String>,
     pub calibration: Calibration,
 }
@@ -42,14 +47,11 @@ impl Attribute {
     /// Find a value by id or label (case-insensitive).
     pub fn value_index(&self, s: &str) -> Option<usize> {
         let s = s.trim();
-        self.values
-            .iter()
-            .position(|v| v.id == s)
-            .or_else(|| {
-                self.values
-                    .iter()
-                    .position(|v| v.id.eq_ignore_ascii_case(s) || v.label.eq_ignore_ascii_case(s))
-            })
+        self.values.iter().position(|v| v.id == s).or_else(|| {
+            self.values
+                .iter()
+                .position(|v| v.id.eq_ignore_ascii_case(s) || v.label.eq_ignore_ascii_case(s))
+        })
     }
 
     /// The uniform-guess rate 1/|V|.
@@ -185,14 +187,47 @@ impl Priors {
                 ));
             }
             let smoothing = spec.smoothing.unwrap_or(DEFAULT_SMOOTHING);
-            if !(smoothing.is_finite() && smoothing > 0.0) {
-                problems.push(format!("{at}: smoothing must be above 0"));
+            if !(smoothing.is_finite() && smoothing >= 0.0) {
+                problems.push(format!("{at}: smoothing must be 0 or more"));
+            }
+            let pseudocount = spec.pseudocount.unwrap_or(0.0);
+            if !(pseudocount.is_finite() && pseudocount >= 0.0) {
+                problems.push(format!("{at}: pseudocount must be 0 or more"));
+            }
+            if smoothing + pseudocount <= 0.0 {
+                problems.push(format!(
+                    "{at}: smoothing and pseudocount cannot both be 0 (items with one member would be certain)"
+                ));
             }
             let calibration = spec.calibration.clone().unwrap_or_default();
             let Calibration::Temperature { lambda } = calibration;
             if !(lambda.is_finite() && lambda > 0.0) {
                 problems.push(format!("{at}: calibration lambda must be above 0"));
             }
+            let mut member_rates = Vec::with_capacity(spec.values.len());
+            let given = spec
+                .values
+                .iter()
+                .filter(|v| v.member_rate.is_some())
+                .count();
+            if given != 0 && given != spec.values.len() {
+                problems.push(format!(
+                    "{at}: member_rate is given for {given} of {} values; give it for all or none",
+                    spec.values.len()
+                ));
+            }
+            for v in &spec.values {
+                let m = v.member_rate.unwrap_or(v.base_rate);
+                if !(m.is_finite() && m > 0.0) {
+                    problems.push(format!(
+                        "{at}: value '{}' has member_rate {m}; it must be above 0",
+                        v.id
+                    ));
+                }
+                member_rates.push(m.max(f64::MIN_POSITIVE));
+            }
+            let member_total: f64 = member_rates.iter().sum();
+            member_rates.iter_mut().for_each(|m| *m /= member_total);
             let base_rates: Vec<f64> = spec
                 .values
                 .iter()
@@ -211,8 +246,10 @@ impl Priors {
                     .collect(),
                 log_base: base_rates.iter().map(|p| p.ln()).collect(),
                 base_rates,
+                member_rates,
                 threshold: spec.threshold,
                 smoothing,
+                pseudocount,
                 special_category: spec.special_category.clone(),
                 calibration,
             });

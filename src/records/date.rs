@@ -28,7 +28,9 @@ fn parse_date_text(s: &str, format: DateFormat) -> Result<i64, String> {
     let t = s.trim();
     if format != DateFormat::Rfc3339
         && !t.is_empty()
-        && t.bytes().enumerate().all(|(i, b)| b.is_ascii_digit() || (i == 0 && b == b'-'))
+        && t.bytes()
+            .enumerate()
+            .all(|(i, b)| b.is_ascii_digit() || (i == 0 && b == b'-'))
     {
         return t
             .parse::<i64>()
@@ -75,7 +77,10 @@ mod tests {
         let auto = DateFormat::Auto;
         assert_eq!(parse_date(&json!(1_600_000_000), auto), Ok(1_600_000_000));
         assert_eq!(parse_date(&json!("1600000000"), auto), Ok(1_600_000_000));
-        assert_eq!(parse_date(&json!("1985-04-12T23:20:50.52Z"), auto), Ok(482_196_050));
+        assert_eq!(
+            parse_date(&json!("1985-04-12T23:20:50.52Z"), auto),
+            Ok(482_196_050)
+        );
         assert_eq!(
             parse_date(&json!("1996-12-19T16:39:57-08:00"), auto),
             Ok(851_042_397)

@@ -209,9 +209,11 @@ fn read_csv(
     let headers: Vec<String> = match reader.headers() {
         Ok(h) => h.iter().map(|s| s.trim().to_string()).collect(),
         Err(e) => {
-            return Err(Warning::new(format!("cannot read the CSV header: {e}; file skipped"))
-                .in_file(file)
-                .at_line(1));
+            return Err(
+                Warning::new(format!("cannot read the CSV header: {e}; file skipped"))
+                    .in_file(file)
+                    .at_line(1),
+            );
         }
     };
     if headers.iter().all(|h| h.is_empty()) {
@@ -229,10 +231,7 @@ fn read_csv(
             Ok(false) => break,
             Ok(true) => {}
             Err(e) => {
-                let line = e
-                    .position()
-                    .map(|p| p.line() as usize)
-                    .unwrap_or(line);
+                let line = e.position().map(|p| p.line() as usize).unwrap_or(line);
                 sink.warn(
                     Warning::new(format!("unreadable CSV row: {e}; skipped"))
                         .in_file(file)

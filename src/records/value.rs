@@ -17,7 +17,10 @@ pub enum FieldError {
 }
 
 /// The field's value: `Ok(None)` when absent, null or blank.
-pub fn field_value<'a>(record: &Record<'a>, field: &Field) -> Result<Option<Cow<'a, Value>>, FieldError> {
+pub fn field_value<'a>(
+    record: &Record<'a>,
+    field: &Field,
+) -> Result<Option<Cow<'a, Value>>, FieldError> {
     match (record, field) {
         (Record::Json { value, .. }, Field::Path { query, .. }) => {
             match query.query(value).first() {
@@ -31,11 +34,15 @@ pub fn field_value<'a>(record: &Record<'a>, field: &Field) -> Result<Option<Cow<
                 .position(|h| h == name)
                 .or_else(|| headers.iter().position(|h| h.eq_ignore_ascii_case(name)));
             match idx.and_then(|i| row.get(i)) {
-                Some(s) if !s.trim().is_empty() => Ok(Some(Cow::Owned(Value::String(s.to_string())))),
+                Some(s) if !s.trim().is_empty() => {
+                    Ok(Some(Cow::Owned(Value::String(s.to_string()))))
+                }
                 _ => Ok(None),
             }
         }
-        _ => Err(FieldError::WrongType("field does not fit the file format".into())),
+        _ => Err(FieldError::WrongType(
+            "field does not fit the file format".into(),
+        )),
     }
 }
 
@@ -48,7 +55,11 @@ pub fn field_text(record: &Record<'_>, field: &Field) -> Result<Option<String>, 
     match v.as_ref() {
         Value::String(s) => {
             let t = s.trim();
-            Ok(if t.is_empty() { None } else { Some(t.to_string()) })
+            Ok(if t.is_empty() {
+                None
+            } else {
+                Some(t.to_string())
+            })
         }
         Value::Number(n) => Ok(Some(n.to_string())),
         Value::Bool(b) => Ok(Some(b.to_string())),

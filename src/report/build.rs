@@ -199,7 +199,9 @@ pub fn build(
                     let it = &footprint.items[i];
                     (it.name.clone(), it.kind.as_str().to_string(), it.date)
                 }
-                Subject::FriendList => ("your friend list".to_string(), "friends".to_string(), None),
+                Subject::FriendList => {
+                    ("your friend list".to_string(), "friends".to_string(), None)
+                }
             };
             let leaning = e.leaning();
             items.push(ItemReport {
@@ -226,7 +228,12 @@ pub fn build(
     });
 
     let mut warnings: Vec<String> = footprint.warnings.iter().map(|w| w.to_string()).collect();
-    warnings.extend(priors.warnings.iter().map(|w| format!("{}: {w}", priors_info.name)));
+    warnings.extend(
+        priors
+            .warnings
+            .iter()
+            .map(|w| format!("{}: {w}", priors_info.name)),
+    );
 
     ScanReport {
         format: REPORT_FORMAT,

@@ -10,7 +10,10 @@ use crate::reading::percent;
 fn esc(s: &str) -> String {
     let mut out = String::with_capacity(s.len());
     for c in s.chars() {
-        if matches!(c, '|' | '*' | '_' | '`' | '[' | ']' | '<' | '>' | '#' | '\\') {
+        if matches!(
+            c,
+            '|' | '*' | '_' | '`' | '[' | ']' | '<' | '>' | '#' | '\\'
+        ) {
             out.push('\\');
         }
         if c == '\n' {
@@ -41,11 +44,19 @@ pub fn write_markdown(r: &ScanReport, top: usize, out: &mut dyn Write) -> io::Re
         out,
         "- **Archive:** {} items ({}), {} friends\n- **Reference statistics:** {} — {}{}; {} of {} items matched",
         r.archive.items,
-        if kinds.is_empty() { "none".into() } else { kinds.join(", ") },
+        if kinds.is_empty() {
+            "none".into()
+        } else {
+            kinds.join(", ")
+        },
         r.archive.friends,
         esc(&r.priors.name),
         esc(&r.priors.source),
-        if r.priors.synthetic { " (synthetic: a fictional population)" } else { "" },
+        if r.priors.synthetic {
+            " (synthetic: a fictional population)"
+        } else {
+            ""
+        },
         r.priors.items_matched,
         r.archive.items
     )?;

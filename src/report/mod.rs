@@ -1,7 +1,7 @@
 //! Reports of one scan: a stable, versioned data structure (the JSON document, format
-//! 1) and renderers for text (with or without colour) and Markdown. Renderers write to
-//! any `io::Write`, so they are tested in memory. Friends' names never appear unless the
-//! caller asks for them.
+//! version one) and renderers for text (with or without colour) and Markdown.
+//! Renderers write to any `io::Write`, so they are tested in memory. Friends' names
+//! never appear unless the caller asks for them.
 
 mod build;
 mod markdown;

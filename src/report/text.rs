@@ -129,7 +129,11 @@ pub fn write_text(r: &ScanReport, opts: TextOptions, out: &mut dyn Write) -> io:
         r.archive.items
     )?;
     if r.archive.hidden > 0 {
-        writeln!(out, "Hidden     {} item(s) treated as hidden", r.archive.hidden)?;
+        writeln!(
+            out,
+            "Hidden     {} item(s) treated as hidden",
+            r.archive.hidden
+        )?;
     }
     writeln!(out)?;
 
@@ -138,8 +142,8 @@ pub fn write_text(r: &ScanReport, opts: TextOptions, out: &mut dyn Write) -> io:
         writeln!(
             out,
             "  {} {} {:>4}  {}  {}",
-            pad_to_width(&a.label, 16),
-            pad_to_width(&a.best_guess_label, 18),
+            pad_to_width(&a.label, 18),
+            pad_to_width(&a.best_guess_label, 16),
             percent(a.probability),
             bar(a.probability, a.base_rate, 20),
             p.level(&a.level),
@@ -220,7 +224,11 @@ pub fn write_text(r: &ScanReport, opts: TextOptions, out: &mut dyn Write) -> io:
     writeln!(out)?;
 
     if !r.warnings.is_empty() {
-        writeln!(out, "{}", p.bold(&format!("WARNINGS ({})", r.warnings.len())))?;
+        writeln!(
+            out,
+            "{}",
+            p.bold(&format!("WARNINGS ({})", r.warnings.len()))
+        )?;
         for w in r.warnings.iter().take(20) {
             writeln!(out, "  - {w}")?;
         }

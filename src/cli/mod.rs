@@ -1,0 +1,39 @@
+//! Command-line interface: argument definitions and dispatch. Each command's work is in
+//! its own file and calls the library; nothing here computes.
+
+mod args;
+mod output;
+mod scan;
+mod synth;
+
+use std::process::ExitCode;
+
+use clap::Parser;
+
+pub use args::{Cli, Command};
+
+/// Exit code for errors the user can fix (bad input, missing files).
+const EXIT_ERROR: u8 = 1;
+
+pub fn main() -> ExitCode {
+    let cli = Cli::parse();
+    let result = match cli.command {
+        Some(Command::Scan(args)) => scan::run(&args),
+        Some(Command::Synth(cmd)) => synth::run(cmd),
+        None => match cli.archive {
+            Some(archive) => scan::run_default(archive, cli.input),
+            None => {
+                use clap::CommandFactory;
+                let _ = Cli::command().print_help();
+                return ExitCode::from(2);
+            }
+        },
+    };
+    match result {
+        Ok(code) => code,
+        Err(e) => {
+            eprintln!("telltale: {e:#}");
+            ExitCode::from(EXIT_ERROR)
+        }
+    }
+}

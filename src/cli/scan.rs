@@ -1,0 +1,59 @@
+//! `telltale scan`: import, score and report.
+
+use std::path::PathBuf;
+use std::process::ExitCode;
+
+use anyhow::{Context, Result};
+use telltale::limits::Limits;
+use telltale::report::{TextOptions, write_json, write_markdown, write_text};
+use telltale::scan::{Scan, ScanInput, load_priors};
+
+use super::args::{ColourChoice, OutputArgs, ReportFormat, ScanArgs, SourceArgs};
+use super::output::{emit, use_colour};
+
+/// Build the scan input from the shared arguments.
+pub fn input(archive: PathBuf, src: &SourceArgs) -> Result<ScanInput> {
+    let mut limits = Limits::default();
+    for setting in &src.limits {
+        limits
+            .apply(setting)
+            .map_err(|e| anyhow::anyhow!("--limit {setting}: {e}"))?;
+    }
+    Ok(ScanInput {
+        archive,
+        mapping: src.mapping.clone(),
+        limits,
+    })
+}
+
+pub fn run(args: &ScanArgs) -> Result<ExitCode> {
+    let priors = load_priors(args.input.priors.as_deref()).context("cannot use the priors")?;
+    let input = input(args.archive.clone(), &args.input)?;
+    let scan = Scan::run(&input, &priors)?;
+    let report = scan.report(&priors);
+    let to_file = args.output.output.is_some();
+    let colour = use_colour(args.output.colour, to_file);
+    let top = args.top;
+    emit(args.output.output.as_deref(), |out| {
+        match args.output.format {
+            ReportFormat::Text => write_text(&report, TextOptions { colour, top }, out),
+            ReportFormat::Json => write_json(&report, out),
+            ReportFormat::Markdown => write_markdown(&report, top, out),
+        }
+    })?;
+    Ok(ExitCode::SUCCESS)
+}
+
+/// `telltale ARCHIVE` with no command.
+pub fn run_default(archive: PathBuf, src: SourceArgs) -> Result<ExitCode> {
+    run(&ScanArgs {
+        archive,
+        input: src,
+        output: OutputArgs {
+            format: ReportFormat::Text,
+            output: None,
+            colour: ColourChoice::Auto,
+        },
+        top: 15,
+    })
+}

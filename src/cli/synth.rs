@@ -1,0 +1,69 @@
+//! `telltale synth`: generate the fictional demo data.
+
+use std::process::ExitCode;
+
+use anyhow::{Context, Result};
+use telltale::reading::percent;
+use telltale::synth::{DemoConfig, generate_demo};
+
+use super::args::SynthCommand;
+
+pub fn run(cmd: SynthCommand) -> Result<ExitCode> {
+    match cmd {
+        SynthCommand::Demo(args) => {
+            let cfg = DemoConfig {
+                seed: args.seed,
+                members: args.members,
+                items: args.items,
+                ..DemoConfig::default()
+            };
+            let out = generate_demo(&cfg, &args.priors_out, &args.exports_out)
+                .context("cannot write the demo files")?;
+            println!(
+                "Wrote {} ({} reference items) and {} persona archive(s) under {}.",
+                out.priors_path.display(),
+                out.priors_items,
+                out.personas.len(),
+                args.exports_out.display()
+            );
+            println!(
+                "\nCalibration on {} held-out invented members:",
+                cfg.held_out
+            );
+            println!(
+                "  {:<10} {:>6} {:>4} {:>7} {:>9} {:>9} {:>9} {:>11} {:>9}",
+                "attribute",
+                "alpha",
+                "k",
+                "lambda",
+                "accuracy",
+                "majority",
+                "log loss",
+                "ECE(before)",
+                "ECE(fit)"
+            );
+            for f in &out.fits {
+                println!(
+                    "  {:<10} {:>6} {:>4} {:>7.3} {:>9} {:>9} {:>9.3} {:>11.3} {:>9.3}",
+                    f.attribute,
+                    f.smoothing,
+                    f.pseudocount,
+                    f.lambda,
+                    percent(f.accuracy),
+                    percent(f.majority_rate),
+                    f.log_loss,
+                    f.ece_uncalibrated,
+                    f.ece_calibrated
+                );
+            }
+            println!("\nPersonas:");
+            for p in &out.personas {
+                println!(
+                    "  {:<10} layout {}  {:>3} likes {:>3} groups {:>3} follows {:>3} events {:>4} friends  ({})",
+                    p.slug, p.layout, p.likes, p.groups, p.follows, p.events, p.friends, p.archive
+                );
+            }
+            Ok(ExitCode::SUCCESS)
+        }
+    }
+}

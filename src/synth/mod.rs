@@ -1,0 +1,21 @@
+//! The synthetic generator: a reproducible fictional social network ("Lanternwick")
+//! with members carrying latent attributes, items with homophilous membership and a
+//! spread of homogeneity, and homophilous friendships. From it come the bundled demo
+//! priors (marked synthetic), the demo persona archives in two invented layouts, and
+//! (for benchmarks and workshops) larger archives and cohorts. Nothing here describes
+//! real people or a real platform.
+
+pub mod calibrate;
+pub mod catalogue;
+mod demo;
+pub mod layout_a;
+pub mod layout_b;
+pub mod membership;
+pub mod personas;
+pub mod places;
+pub mod reference;
+pub mod sink;
+mod words;
+pub mod world;
+
+pub use demo::{DemoConfig, DemoOutput, PersonaManifest, generate_demo, stream};
