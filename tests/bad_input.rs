@@ -1,0 +1,209 @@
+//! Broken input gets clear messages naming the file, record and field, and the rest of
+//! the import goes on.
+
+use std::io::Write;
+use std::path::Path;
+
+use telltale::archive::Archive;
+use telltale::footprint::ItemKind;
+use telltale::import::import;
+use telltale::limits::Limits;
+use telltale::mapping::{Error as MappingError, Mapping};
+
+fn write(dir: &Path, rel: &str, text: &str) {
+    let p = dir.join(rel);
+    std::fs::create_dir_all(p.parent().expect("parent")).expect("mkdir");
+    std::fs::write(p, text).expect("write");
+}
+
+const MAPPING: &str = r#"
+format = 1
+[[source]]
+kind = "like"
+files = ["likes.json"]
+records = "$.likes[*]"
+name = "$.title"
+date = "$.at"
+
+[[source]]
+kind = "group"
+files = ["groups.csv"]
+name = "Group"
+date = "Joined"
+
+[[source]]
+kind = "follow"
+files = ["follows.ndjson"]
+name = "$.who"
+
+[[source]]
+kind = "event"
+files = ["events/*.json"]
+name = "$.title"
+"#;
+
+#[test]
+fn bad_records_become_warnings_and_the_rest_is_imported() {
+    let dir = tempfile::tempdir().expect("tempdir");
+    write(
+        dir.path(),
+        "likes.json",
+        r#"{"likes": [
+            {"title": "Good page", "at": 1600000000},
+            {"at": 1600000001},
+            {"title": {"nested": "object"}},
+            {"title": "Bad date page", "at": "yesterday"},
+            {"title": "Another good page"}
+        ]}"#,
+    );
+    write(
+        dir.path(),
+        "groups.csv",
+        "Group,Joined\nChess Circle,2020-01-02\nRagged Row\nToo,Many,Fields\n",
+    );
+    write(
+        dir.path(),
+        "follows.ndjson",
+        "{\"who\": \"A\"}\n{not json}\n\n{\"who\": \"B\"}\n",
+    );
+    write(dir.path(), "events/broken.json", "{\"title\": \"cut off");
+    let mapping = Mapping::parse(MAPPING, "test-mapping.toml").expect("mapping");
+    let mut archive = Archive::open(dir.path(), &Limits::default()).expect("archive");
+    let fp = import(&mut archive, &mapping, &Limits::default()).expect("import goes on");
+
+    assert_eq!(fp.count(ItemKind::Like), 3, "three likes have names");
+    assert_eq!(fp.count(ItemKind::Group), 3, "ragged rows are still read");
+    assert_eq!(fp.count(ItemKind::Follow), 2, "the bad line is skipped");
+    assert_eq!(fp.count(ItemKind::Event), 0);
+    let bad_date = fp
+        .items
+        .iter()
+        .find(|i| i.name == "Bad date page")
+        .expect("kept");
+    assert_eq!(
+        bad_date.date, None,
+        "an unreadable date is left out, the item kept"
+    );
+
+    let msgs: Vec<String> = fp.warnings.iter().map(|w| w.to_string()).collect();
+    let has = |needle: &str| msgs.iter().any(|m| m.contains(needle));
+    assert!(
+        has("likes.json, record 2, field 'name': no name"),
+        "{msgs:#?}"
+    );
+    assert!(
+        has("likes.json, record 3, field 'name': expected a single value, found an object"),
+        "{msgs:#?}"
+    );
+    assert!(has("likes.json, record 4, field 'date'"), "{msgs:#?}");
+    assert!(has("follows.ndjson, line 2: not valid JSON"), "{msgs:#?}");
+    assert!(has("events/broken.json"), "{msgs:#?}");
+    assert!(has("truncated"), "{msgs:#?}");
+    assert!(
+        has("groups.csv") && has("different number of fields"),
+        "{msgs:#?}"
+    );
+    assert_eq!(fp.stats.records_skipped, 2);
+}
+
+#[test]
+fn a_bad_mapping_lists_every_problem_with_its_line() {
+    let text = "format = 1\n\n[[source]]\nkind = \"likes\"\nfiles = [\"a.json\"]\nname = \"$[\"\n";
+    let err = Mapping::parse(text, "my-mapping.toml").unwrap_err();
+    let msg = err.to_string();
+    assert!(matches!(err, MappingError::Invalid { .. }));
+    assert!(
+        msg.starts_with("my-mapping.toml: the mapping has 2 problem(s)"),
+        "{msg}"
+    );
+    assert!(
+        msg.contains("line 4, source[1].kind: 'likes' is not a kind"),
+        "{msg}"
+    );
+    assert!(msg.contains("line 6, source[1].name"), "{msg}");
+}
+
+#[test]
+fn a_mapping_that_matches_nothing_says_so() {
+    let dir = tempfile::tempdir().expect("tempdir");
+    write(dir.path(), "other.txt", "hello");
+    let mapping = Mapping::parse(MAPPING, "test-mapping.toml").expect("mapping");
+    let mut archive = Archive::open(dir.path(), &Limits::default()).expect("archive");
+    let fp = import(&mut archive, &mapping, &Limits::default()).expect("import");
+    assert!(fp.items.is_empty());
+    assert_eq!(fp.warnings.len(), 4);
+    assert!(
+        fp.warnings[0]
+            .to_string()
+            .contains("matched no file in the archive")
+    );
+}
+
+#[test]
+fn an_oversized_zip_entry_is_refused_by_name() {
+    let dir = tempfile::tempdir().expect("tempdir");
+    let zip_path = dir.path().join("big.zip");
+    {
+        let f = std::fs::File::create(&zip_path).expect("create");
+        let mut z = zip::ZipWriter::new(f);
+        let opts = zip::write::SimpleFileOptions::default();
+        z.start_file("likes.json", opts).expect("start");
+        // 2 MiB of highly compressible JSON.
+        write!(
+            z,
+            "{{\"likes\": [{}]}}",
+            vec!["{\"title\":\"x\"}"; 150_000].join(",")
+        )
+        .expect("write");
+        z.finish().expect("finish");
+    }
+    let limits = Limits {
+        entry_bytes: 1 << 20,
+        ..Limits::default()
+    };
+    let mapping = Mapping::parse(MAPPING, "test-mapping.toml").expect("mapping");
+    let mut archive = Archive::open(&zip_path, &limits).expect("archive");
+    let err = import(&mut archive, &mapping, &limits)
+        .unwrap_err()
+        .to_string();
+    assert!(err.contains("likes.json"), "{err}");
+    assert!(err.contains("--limit entry-bytes="), "{err}");
+}
+
+#[test]
+fn a_missing_mapping_says_how_to_draft_one() {
+    let dir = tempfile::tempdir().expect("tempdir");
+    let archive_dir = dir.path().join("my-archive");
+    write(&archive_dir, "x.json", "[]");
+    let mut archive = Archive::open(&archive_dir, &Limits::default()).expect("archive");
+    let err = telltale::mapping::locate(&mut archive)
+        .unwrap_err()
+        .to_string();
+    assert!(err.contains("telltale mapping draft"), "{err}");
+    assert!(err.contains("--mapping FILE"), "{err}");
+}
+
+#[test]
+fn not_an_archive_and_damaged_zip_are_named() {
+    let dir = tempfile::tempdir().expect("tempdir");
+    let txt = dir.path().join("notes.txt");
+    std::fs::write(&txt, "just text").expect("write");
+    let err = Archive::open(&txt, &Limits::default())
+        .err()
+        .expect("refused")
+        .to_string();
+    assert!(
+        err.contains("notes.txt: not a zip file or a folder"),
+        "{err}"
+    );
+    let bad = dir.path().join("cut.zip");
+    std::fs::write(&bad, b"PK\x03\x04 truncated").expect("write");
+    let err = Archive::open(&bad, &Limits::default())
+        .err()
+        .expect("refused")
+        .to_string();
+    assert!(
+        err.contains("cut.zip: the zip file is damaged or truncated"),
+        "{err}"
+    );
+}
