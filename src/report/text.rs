@@ -101,7 +101,13 @@ pub fn write_text(r: &ScanReport, opts: TextOptions, out: &mut dyn Write) -> io:
         .by_kind
         .iter()
         .filter(|(_, n)| **n > 0)
-        .map(|(k, n)| format!("{n} {k}"))
+        .map(|(k, n)| {
+            if *n == 1 {
+                format!("1 {}", k.trim_end_matches('s'))
+            } else {
+                format!("{n} {k}")
+            }
+        })
         .collect();
     writeln!(
         out,
@@ -149,7 +155,7 @@ pub fn write_text(r: &ScanReport, opts: TextOptions, out: &mut dyn Write) -> io:
             p.level(&a.level),
         )?;
         let detail = format!(
-            "population rate {} · alert level {} · {} piece(s) of evidence",
+            "population rate {} · alert level {} · fed by {} piece(s) of evidence",
             percent(a.base_rate),
             percent(a.threshold),
             a.feeding
