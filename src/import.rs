@@ -38,6 +38,12 @@ pub fn import(
 ) -> Result<Footprint, Error> {
     let mut budget = ReadBudget::new(limits);
     let mut state = State::new(limits.records);
+    if archive.entries().is_empty() {
+        state.footprint.warnings.push(Warning::new(format!(
+            "{}: the archive holds no files",
+            archive.display_name()
+        )));
+    }
     for skipped in archive.skipped() {
         state
             .footprint
@@ -78,10 +84,13 @@ pub fn import(
             Ok(b) => b,
             Err(e @ archive::Error::Limit { .. }) => return Err(e.into()),
             Err(e) => {
+                let text = e.to_string();
+                let prefix = format!("{}: ", entry.path);
+                let text = text.strip_prefix(&prefix).unwrap_or(&text);
                 state
                     .footprint
                     .warnings
-                    .push(Warning::new(format!("{e}; file skipped")).in_file(&entry.path));
+                    .push(Warning::new(format!("{text}; file skipped")).in_file(&entry.path));
                 continue;
             }
         };

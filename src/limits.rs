@@ -22,18 +22,22 @@ pub struct Limits {
     pub line_bytes: u64,
     /// Deepest JSON nesting accepted in a mapped file.
     pub json_depth: u64,
+    /// Largest ratio of decompressed to compressed size for a zip entry (a
+    /// compression bomb inflates thousands of times).
+    pub compression_ratio: u64,
 }
 
 impl Default for Limits {
     fn default() -> Self {
         Limits {
-            entry_bytes: 1 << 30, // 1 GiB
-            total_bytes: 4 << 30, // 4 GiB
-            entries: 2_000_000,   // photo-heavy archives list many files
-            folder_depth: 64,     // common practice, no source
-            records: 20_000_000,  // far above any personal archive
-            line_bytes: 16 << 20, // 16 MiB
-            json_depth: 128,      // serde_json's own recursion bound
+            entry_bytes: 1 << 30,    // 1 GiB
+            total_bytes: 4 << 30,    // 4 GiB
+            entries: 2_000_000,      // photo-heavy archives list many files
+            folder_depth: 64,        // common practice, no source
+            records: 20_000_000,     // far above any personal archive
+            line_bytes: 16 << 20,    // 16 MiB
+            json_depth: 128,         // serde_json's own recursion bound
+            compression_ratio: 1000, // common practice, no source: text compresses ~5–50×
         }
     }
 }
@@ -48,10 +52,11 @@ pub enum LimitName {
     Records,
     LineBytes,
     JsonDepth,
+    CompressionRatio,
 }
 
 impl LimitName {
-    pub const ALL: [LimitName; 7] = [
+    pub const ALL: [LimitName; 8] = [
         LimitName::EntryBytes,
         LimitName::TotalBytes,
         LimitName::Entries,
@@ -59,6 +64,7 @@ impl LimitName {
         LimitName::Records,
         LimitName::LineBytes,
         LimitName::JsonDepth,
+        LimitName::CompressionRatio,
     ];
 
     pub fn key(self) -> &'static str {
@@ -70,6 +76,7 @@ impl LimitName {
             LimitName::Records => "records",
             LimitName::LineBytes => "line-bytes",
             LimitName::JsonDepth => "json-depth",
+            LimitName::CompressionRatio => "compression-ratio",
         }
     }
 
@@ -82,6 +89,7 @@ impl LimitName {
             LimitName::Records => "number of records",
             LimitName::LineBytes => "length of one line",
             LimitName::JsonDepth => "JSON nesting depth",
+            LimitName::CompressionRatio => "compression ratio of a zip entry",
         }
     }
 }
@@ -102,6 +110,7 @@ impl Limits {
             LimitName::Records => self.records,
             LimitName::LineBytes => self.line_bytes,
             LimitName::JsonDepth => self.json_depth,
+            LimitName::CompressionRatio => self.compression_ratio,
         }
     }
 
@@ -114,6 +123,7 @@ impl Limits {
             LimitName::Records => self.records = value,
             LimitName::LineBytes => self.line_bytes = value,
             LimitName::JsonDepth => self.json_depth = value,
+            LimitName::CompressionRatio => self.compression_ratio = value,
         }
     }
 

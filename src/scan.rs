@@ -82,9 +82,10 @@ impl Scan {
     pub fn from_footprint(
         archive_name: String,
         mapping_origin: String,
-        footprint: Footprint,
+        mut footprint: Footprint,
         priors: &Priors,
     ) -> Scan {
+        check_attribute_names(&mut footprint, priors, &mapping_origin);
         let evidence = evidence::gather(&footprint, priors);
         let exposure = Exposure::new(priors, evidence);
         Scan {
@@ -98,5 +99,52 @@ impl Scan {
     /// The report for the current state (hidden items count as hidden).
     pub fn report(&self, priors: &Priors) -> ScanReport {
         report::build(&self.archive_name, &self.footprint, priors, &self.exposure)
+    }
+}
+
+/// Attribute ids and values the mapping produced (declared values, friends' public
+/// attributes) that the priors do not know are reported once each, not silently dropped.
+fn check_attribute_names(footprint: &mut Footprint, priors: &Priors, mapping_origin: &str) {
+    use std::collections::BTreeSet;
+    let mut unknown_attr = BTreeSet::new();
+    let mut unknown_value = BTreeSet::new();
+    let pairs = footprint
+        .declared
+        .iter()
+        .chain(footprint.friends.iter().flat_map(|f| f.attributes.iter()));
+    for (attr, value) in pairs {
+        match priors.attribute(attr) {
+            None => {
+                unknown_attr.insert(attr.clone());
+            }
+            Some((_, a)) if a.value_index(value).is_none() => {
+                unknown_value.insert((attr.clone(), value.clone()));
+            }
+            Some(_) => {}
+        }
+    }
+    let known: Vec<&str> = priors.attributes.iter().map(|a| a.id.as_str()).collect();
+    for attr in unknown_attr {
+        footprint.warnings.push(
+            crate::footprint::Warning::new(format!(
+                "the mapping names attribute '{attr}', which the priors do not have (they have {}); its values are ignored",
+                known.join(", ")
+            ))
+            .in_file(mapping_origin),
+        );
+    }
+    let shown = unknown_value.len().min(5);
+    for (attr, value) in unknown_value.iter().take(shown) {
+        footprint.warnings.push(crate::footprint::Warning::new(format!(
+            "'{value}' is not a value of {attr} in the priors (use a value id or label); ignored"
+        )));
+    }
+    if unknown_value.len() > shown {
+        footprint
+            .warnings
+            .push(crate::footprint::Warning::new(format!(
+                "{} more unknown attribute value(s) ignored",
+                unknown_value.len() - shown
+            )));
     }
 }

@@ -81,7 +81,7 @@ impl Folder {
             entry: entry.path.clone(),
             detail: e.to_string(),
         })?;
-        read_capped(file, cap, &entry.path)
+        read_capped(file, cap, &entry.path, None)
     }
 }
 

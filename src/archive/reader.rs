@@ -118,7 +118,7 @@ impl Archive {
         }
         let cap = per_entry.min(remaining);
         let bytes = match self {
-            Archive::Zip(z) => z.read(entry, cap)?,
+            Archive::Zip(z) => z.read(entry, cap, budget.limits.compression_ratio)?,
             Archive::Folder(f) => f.read(entry, cap)?,
         };
         if bytes.len() as u64 > cap {
@@ -158,16 +158,37 @@ pub(crate) fn limit_error(context: &str, name: LimitName, limit: u64) -> Error {
 }
 
 /// Read at most `cap + 1` bytes, so that the caller can tell "exactly at the cap" from
-/// "over it" without reading an unbounded stream.
-pub(crate) fn read_capped(reader: impl Read, cap: u64, entry: &str) -> Result<Vec<u8>> {
+/// "over it" without reading an unbounded stream. With `inflate_limit`, stop with an
+/// error as soon as more than that many bytes come out (a compression bomb is refused
+/// after reading at most that much, whatever sizes its headers claim).
+pub(crate) fn read_capped(
+    mut reader: impl Read,
+    cap: u64,
+    entry: &str,
+    inflate_limit: Option<(u64, u64)>,
+) -> Result<Vec<u8>> {
+    let io = |e: std::io::Error| Error::Read {
+        entry: entry.to_string(),
+        detail: e.to_string(),
+    };
     let mut out = Vec::new();
-    reader
-        .take(cap.saturating_add(1))
-        .read_to_end(&mut out)
-        .map_err(|e| Error::Read {
-            entry: entry.to_string(),
-            detail: e.to_string(),
-        })?;
+    let mut chunk = vec![0u8; 64 * 1024];
+    let stop = cap.saturating_add(1);
+    while (out.len() as u64) < stop {
+        let want = chunk.len().min((stop - out.len() as u64) as usize);
+        let n = match reader.read(&mut chunk[..want]) {
+            Ok(0) => break,
+            Ok(n) => n,
+            Err(e) if e.kind() == std::io::ErrorKind::Interrupted => continue,
+            Err(e) => return Err(io(e)),
+        };
+        out.extend_from_slice(&chunk[..n]);
+        if let Some((allowed, ratio)) = inflate_limit
+            && out.len() as u64 > allowed
+        {
+            return Err(limit_error(entry, LimitName::CompressionRatio, ratio));
+        }
+    }
     Ok(out)
 }
 

@@ -87,7 +87,7 @@ impl Zipped {
         &self.entries
     }
 
-    pub fn read(&mut self, entry: &Entry, cap: u64) -> Result<Vec<u8>> {
+    pub fn read(&mut self, entry: &Entry, cap: u64, ratio: u64) -> Result<Vec<u8>> {
         {
             let data = self
                 .zip
@@ -99,6 +99,18 @@ impl Zipped {
             if data.encrypted() {
                 return Err(Error::Encrypted {
                     entry: entry.path.clone(),
+                });
+            }
+            let method = data.compression();
+            if !matches!(
+                method,
+                zip::CompressionMethod::Stored | zip::CompressionMethod::Deflated
+            ) {
+                #[allow(deprecated)] // the numeric code is what names the method
+                let name = zip::CompressionMethod::name_from_u16(method.to_u16());
+                return Err(Error::Unsupported {
+                    entry: entry.path.clone(),
+                    detail: name.to_string(),
                 });
             }
         }
@@ -121,7 +133,9 @@ impl Zipped {
                 detail: other.to_string(),
             },
         })?;
-        read_capped(file, cap, &entry.path)
+        // Small entries may compress very well by chance; only refuse past 1 MiB.
+        let allowed = file.compressed_size().saturating_mul(ratio).max(1 << 20);
+        read_capped(file, cap, &entry.path, Some((allowed, ratio)))
     }
 }
 

@@ -24,6 +24,9 @@ pub struct ScanReport {
     pub attributes: Vec<AttributeReport>,
     /// Item × attribute rows, most revealing for this person first.
     pub items: Vec<ItemReport>,
+    /// Your items that carry no evidence (not in the reference statistics): telltale
+    /// cannot judge them.
+    pub unmatched: Vec<UnmatchedItem>,
     pub warnings: Vec<String>,
     pub cautions: Vec<String>,
 }
@@ -116,6 +119,14 @@ pub struct ItemReport {
     pub source_detail: String,
     #[serde(skip_serializing_if = "Option::is_none")]
     pub date: Option<i64>,
+}
+
+#[derive(Debug, Clone, Serialize)]
+pub struct UnmatchedItem {
+    pub name: String,
+    pub kind: String,
+    /// Archive file and record it came from.
+    pub origin: String,
 }
 
 /// Build the report for the current state of an exposure.
@@ -227,6 +238,26 @@ pub fn build(
             .then(b.bits.total_cmp(&a.bits))
     });
 
+    let mut has_evidence = vec![false; footprint.items.len()];
+    for e in &exposure.evidence().list {
+        if let Subject::Item(i) = e.subject
+            && let Some(h) = has_evidence.get_mut(i)
+        {
+            *h = true;
+        }
+    }
+    let unmatched = footprint
+        .items
+        .iter()
+        .zip(&has_evidence)
+        .filter(|(_, h)| !**h)
+        .map(|(it, _)| UnmatchedItem {
+            name: it.name.clone(),
+            kind: it.kind.as_str().to_string(),
+            origin: it.origin.to_string(),
+        })
+        .collect();
+
     let mut warnings: Vec<String> = footprint.warnings.iter().map(|w| w.to_string()).collect();
     warnings.extend(
         priors
@@ -245,6 +276,7 @@ pub fn build(
         priors: priors_info,
         attributes,
         items,
+        unmatched,
         warnings,
         cautions: CAUTIONS.iter().map(|s| s.to_string()).collect(),
     }

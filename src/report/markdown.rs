@@ -134,6 +134,13 @@ pub fn write_markdown(r: &ScanReport, top: usize, out: &mut dyn Write) -> io::Re
         )?;
     }
 
+    if !r.unmatched.is_empty() {
+        writeln!(
+            out,
+            "{} of your items are not in the reference statistics, so telltale cannot judge them.\n",
+            r.unmatched.len()
+        )?;
+    }
     if !r.warnings.is_empty() {
         writeln!(out, "## Warnings\n")?;
         for w in &r.warnings {

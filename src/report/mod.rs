@@ -8,8 +8,8 @@ mod markdown;
 mod text;
 
 pub use build::{
-    ArchiveInfo, AttributeReport, ItemReport, PriorsInfo, REPORT_FORMAT, ScanReport, ValueShare,
-    build,
+    ArchiveInfo, AttributeReport, ItemReport, PriorsInfo, REPORT_FORMAT, ScanReport, UnmatchedItem,
+    ValueShare, build,
 };
 pub use markdown::write_markdown;
 pub use text::{TextOptions, write_text};

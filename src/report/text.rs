@@ -227,6 +227,25 @@ pub fn write_text(r: &ScanReport, opts: TextOptions, out: &mut dyn Write) -> io:
             )
         )?;
     }
+    if !r.unmatched.is_empty() {
+        writeln!(
+            out,
+            "  {} of your items are not in the reference statistics, so telltale cannot judge them{}.",
+            r.unmatched.len(),
+            if r.unmatched.len() <= 3 {
+                format!(
+                    ": {}",
+                    r.unmatched
+                        .iter()
+                        .map(|u| truncate_to_width(&u.name, 30))
+                        .collect::<Vec<_>>()
+                        .join("; ")
+                )
+            } else {
+                " (--format json lists them)".to_string()
+            }
+        )?;
+    }
     writeln!(out)?;
 
     if !r.warnings.is_empty() {

@@ -1,0 +1,203 @@
+"""Write the malformed-archive corpus under tests/corpus/.
+
+Each case is a folder with the archive (zip file or folder), a mapping, optionally a
+priors file, and case.toml saying how telltale is run on it and what its output must
+contain. tests/corpus.rs runs every case. The archives are made here (Python standard
+library only) so each defect is exact and documented; the outputs are checked in.
+
+Usage: python tests/corpus/make_corpus.py   (from the repository root)
+"""
+import io
+import json
+import os
+import shutil
+import struct
+import zipfile
+import zlib
+
+ROOT = os.path.dirname(os.path.abspath(__file__))
+
+LIKES_MAPPING = """format = 1
+[[source]]
+kind = "like"
+files = ["**/*.json"]
+records = "$.likes[*]"
+name = "$.title"
+date = "$.at"
+"""
+
+GOOD_LIKES = json.dumps({"likes": [{"title": "Weekend Pottery Fans", "at": 1600000000},
+                                   {"title": "Quiet Chess Circle", "at": 1600000100}]})
+
+
+JSON = ["scan", "{archive}", "--mapping", "{mapping}", "--format", "json"]
+
+
+def case(name, expect, exit_code=0, args=None, mapping=LIKES_MAPPING, priors=None):
+    d = os.path.join(ROOT, name)
+    if os.path.exists(d):
+        shutil.rmtree(d)
+    os.makedirs(d)
+    with open(os.path.join(d, "mapping.toml"), "w") as f:
+        f.write(mapping)
+    if priors is not None:
+        with open(os.path.join(d, "priors.json"), "w") as f:
+            f.write(priors)
+    args = args or ["scan", "{archive}", "--mapping", "{mapping}"] + (["--priors", "{priors}"] if priors else [])
+    with open(os.path.join(d, "case.toml"), "w") as f:
+        f.write(f"args = {json.dumps(args)}\nexit = {exit_code}\nexpect = {json.dumps(expect, ensure_ascii=False)}\n")
+    return d
+
+
+def zip_bytes(entries, method=zipfile.ZIP_DEFLATED):
+    buf = io.BytesIO()
+    with zipfile.ZipFile(buf, "w", method) as z:
+        for name, data in entries:
+            info = zipfile.ZipInfo(name, date_time=(2026, 11, 30, 0, 0, 0))
+            info.compress_type = method
+            z.writestr(info, data)
+    return buf.getvalue()
+
+
+def write(path, data):
+    with open(path, "wb") as f:
+        f.write(data if isinstance(data, bytes) else data.encode())
+
+
+# 1. A zip cut off half way.
+d = case("truncated-zip", ["archive.zip: the zip file is damaged or truncated"], exit_code=1)
+z = zip_bytes([("likes.json", GOOD_LIKES * 50)])
+write(os.path.join(d, "archive.zip"), z[: len(z) // 2])
+
+# 2. An entry marked encrypted (general-purpose flag bit 0 set in both headers).
+d = case("encrypted-entry", ["secret.json: stored encrypted", "Weekend Pottery Fans"], args=JSON)
+z = bytearray(zip_bytes([("secret.json", GOOD_LIKES), ("open/likes.json", GOOD_LIKES)]))
+local = z.find(b"PK\x03\x04")
+struct.pack_into("<H", z, local + 6, struct.unpack_from("<H", z, local + 6)[0] | 1)
+central = z.find(b"PK\x01\x02")
+struct.pack_into("<H", z, central + 8, struct.unpack_from("<H", z, central + 8)[0] | 1)
+write(os.path.join(d, "archive.zip"), bytes(z))
+
+# 3. Entry names that are not UTF-8 (a Latin-1 byte, no UTF-8 flag), written by hand.
+def raw_stored_zip(name: bytes, data: bytes) -> bytes:
+    crc = zlib.crc32(data)
+    local = struct.pack("<IHHHHHIIIHH", 0x04034B50, 20, 0, 0, 0, 0, crc, len(data), len(data), len(name), 0) + name
+    central = struct.pack("<IHHHHHHIIIHHHHHII", 0x02014B50, 20, 20, 0, 0, 0, 0, crc, len(data), len(data),
+                          len(name), 0, 0, 0, 0, 0, 0) + name
+    end = struct.pack("<IHHHHIIH", 0x06054B50, 0, 0, 1, 1, len(central), len(local) + len(data), 0)
+    return local + data + central + end
+
+
+d = case("non-utf8-names", ["Weekend Pottery Fans"], args=JSON)
+write(os.path.join(d, "archive.zip"), raw_stored_zip(b"caf\xe9.json", GOOD_LIKES.encode()))
+
+# 4. Text that is not UTF-8 inside a JSON file (Latin-1 bytes).
+d = case("non-utf8-text", ["likes.json: not valid UTF-8 text", "Caf\ufffd Society"], args=JSON)
+os.makedirs(os.path.join(d, "archive"))
+write(os.path.join(d, "archive", "likes.json"), b'{"likes": [{"title": "Caf\xe9 Society"}]}')
+
+# 5. A UTF-8 byte-order mark before the JSON.
+d = case("bom", ["Weekend Pottery Fans"], args=JSON)
+os.makedirs(os.path.join(d, "archive"))
+write(os.path.join(d, "archive", "likes.json"), b"\xef\xbb\xbf" + GOOD_LIKES.encode())
+
+# 6. UTF-8 text decoded as Latin-1 and re-encoded by an exporter, repaired by the mapping.
+d = case("mis-decoded-utf8", ["Café Crème Lovers", "Łódź Sketchers"],
+         mapping=LIKES_MAPPING + 'repair = "latin1-mojibake"\n', args=JSON)
+os.makedirs(os.path.join(d, "archive"))
+damaged = lambda s: s.encode("utf-8").decode("latin-1")
+write(os.path.join(d, "archive", "likes.json"),
+      json.dumps({"likes": [{"title": damaged("Café Crème Lovers")}, {"title": damaged("Łódź Sketchers")}]}, ensure_ascii=False))
+
+# 7. Invalid JSON.
+d = case("invalid-json", ["likes.json, line 3: not valid JSON", "file skipped"])
+os.makedirs(os.path.join(d, "archive"))
+write(os.path.join(d, "archive", "likes.json"), '{"likes": [\n {"title": "A"},\n {"title": "B",, }\n]}')
+
+# 8. Ragged CSV.
+d = case("ragged-csv", ["groups.csv, line 3: 2 row(s) have a different number of fields", "Chess Circle"], args=JSON,
+         mapping='format = 1\n[[source]]\nkind = "group"\nfiles = ["groups.csv"]\nname = "Group"\ndate = "Joined"\n')
+os.makedirs(os.path.join(d, "archive"))
+write(os.path.join(d, "archive", "groups.csv"), "Group,Joined\nChess Circle,2020-01-02\nLonely\nA,2020-01-01,extra\n")
+
+# 9. An empty zip.
+d = case("empty-archive", ["the archive holds no files", "matched no file in the archive"])
+write(os.path.join(d, "archive.zip"), zip_bytes([]))
+
+# 10. A mapping that matches nothing in the archive.
+d = case("mapping-matches-nothing", ["matched no file in the archive", 'files = ["**/*.json"]'])
+os.makedirs(os.path.join(d, "archive"))
+write(os.path.join(d, "archive", "notes.txt"), "nothing to see")
+
+# 11. Priors of another format version.
+d = case("priors-wrong-version", ["priors.json: this priors file is format 2; this telltale reads format 1"],
+         exit_code=1, priors=json.dumps({"format": 2, "attributes": []}))
+os.makedirs(os.path.join(d, "archive"))
+write(os.path.join(d, "archive", "likes.json"), GOOD_LIKES)
+
+# 12. Attribute names the priors do not have.
+d = case("unknown-attribute",
+         ["the mapping names attribute 'shoe_size'", "'Atlantis' is not a value of location"],
+         mapping=LIKES_MAPPING + '\n[[source]]\nkind = "self"\nfiles = ["me.toml.json"]\n[source.attributes]\nshoe_size = "$.shoe"\nlocation = "$.home"\n')
+os.makedirs(os.path.join(d, "archive"))
+write(os.path.join(d, "archive", "likes.json"), GOOD_LIKES)
+write(os.path.join(d, "archive", "me.toml.json"), '{"shoe": "42", "home": "Atlantis"}')
+
+# 13. Duplicated items in the archive and in the priors.
+priors = {
+    "format": 1,
+    "provenance": {"source": "corpus", "licence": "CC0-1.0", "created": "2026-12-01",
+                   "method": "hand-made for a test", "synthetic": True},
+    "attributes": [{"id": "age_band", "label": "Age band", "threshold": 0.5,
+                    "values": [{"id": "young", "label": "Young", "base_rate": 0.5},
+                               {"id": "old", "label": "Old", "base_rate": 0.5}]}],
+    "items": [{"id": "p1", "name": "Quiet Chess Circle", "members": {"age_band": [1, 9]}},
+              {"id": "p1", "name": "Quiet Chess Circle again", "members": {"age_band": [9, 1]}}],
+}
+d = case("duplicated-items", ["the id 'p1' is listed twice", '"items": 1'],
+         priors=json.dumps(priors),
+         args=["scan", "{archive}", "--mapping", "{mapping}", "--priors", "{priors}", "--format", "json"])
+os.makedirs(os.path.join(d, "archive"))
+write(os.path.join(d, "archive", "likes.json"),
+      json.dumps({"likes": [{"title": "Quiet Chess Circle"}, {"title": "quiet chess circle!"}]}))
+
+# 14. A compression bomb: 256 MiB of zeros in a ~250 KB entry (ratio about 1000:1).
+d = case("compression-bomb", ["compression ratio of a zip entry", "--limit compression-ratio="], exit_code=1)
+buf = io.BytesIO()
+with zipfile.ZipFile(buf, "w", zipfile.ZIP_DEFLATED, compresslevel=9) as zf:
+    info = zipfile.ZipInfo("likes.json", date_time=(2026, 11, 30, 0, 0, 0))
+    info.compress_type = zipfile.ZIP_DEFLATED
+    with zf.open(info, "w") as f:
+        block = b"\0" * (1 << 20)
+        for _ in range(256):
+            f.write(block)
+write(os.path.join(d, "archive.zip"), buf.getvalue())
+
+# 15. JSON nested far too deep.
+d = case("deep-json", ["JSON nested 5000 levels deep, over the limit of 128"])
+os.makedirs(os.path.join(d, "archive"))
+write(os.path.join(d, "archive", "likes.json"), "[" * 5000 + "]" * 5000)
+
+# 16. An NDJSON line over the line limit (with the limit lowered to 1 KiB).
+d = case("long-line", ["follows.ndjson, line 2: line longer than the limit of 1.0 KiB", "Short One"],
+         mapping='format = 1\n[[source]]\nkind = "follow"\nfiles = ["follows.ndjson"]\nname = "$.who"\n',
+         args=JSON + ["--limit", "line-bytes=1K"])
+os.makedirs(os.path.join(d, "archive"))
+write(os.path.join(d, "archive", "follows.ndjson"),
+      '{"who": "Short One"}\n{"who": "' + "x" * 4000 + '"}\n')
+
+# 17. A zip entry compressed with a method telltale does not read (bzip2).
+d = case("unsupported-method", ["compressed with a method telltale does not read (Bzip2)"], args=JSON)
+write(os.path.join(d, "archive.zip"), zip_bytes([("likes.json", GOOD_LIKES)], method=zipfile.ZIP_BZIP2))
+
+# 18. Entry names that climb out of the archive: never extracted, read in place.
+d = case("path-traversal-names", ["Weekend Pottery Fans"], args=JSON)
+write(os.path.join(d, "archive.zip"), zip_bytes([("../../outside/likes.json", GOOD_LIKES)]))
+
+# 19. Dates telltale cannot read.
+d = case("bad-dates", ["likes.json, record 1, field 'date': 'next spring' is not a date telltale reads", "Weekend Pottery Fans"], args=JSON)
+os.makedirs(os.path.join(d, "archive"))
+write(os.path.join(d, "archive", "likes.json"),
+      json.dumps({"likes": [{"title": "Weekend Pottery Fans", "at": "next spring"}]}))
+
+print("corpus written to", ROOT)
