@@ -11,6 +11,8 @@ pub mod archive;
 pub mod cautions;
 pub mod evidence;
 pub mod footprint;
+#[doc(hidden)]
+pub mod fuzzing;
 pub mod import;
 pub mod infer;
 pub mod limits;

@@ -68,6 +68,11 @@ impl Archive {
         })
     }
 
+    /// A zip archive held in memory; `name` stands for it in messages.
+    pub fn zip_from_bytes(bytes: Vec<u8>, name: &Path, limits: &Limits) -> Result<Archive> {
+        Ok(Archive::Zip(Zipped::from_bytes(bytes, name, limits)?))
+    }
+
     /// Where the archive is on disk.
     pub fn path(&self) -> &Path {
         match self {

@@ -2,7 +2,7 @@
 //! when a mapping asks for it, and never past the read limits.
 
 use std::fs::File;
-use std::io::BufReader;
+use std::io::{BufReader, Cursor, Read, Seek};
 use std::path::{Path, PathBuf};
 
 use zip::ZipArchive;
@@ -12,9 +12,13 @@ use super::error::{Error, Result};
 use super::reader::{Entry, limit_error, read_capped, to_path_buf};
 use crate::limits::{LimitName, Limits};
 
+/// What a zip can be read from: a file, or bytes in memory.
+pub trait ZipSource: Read + Seek + Send {}
+impl<T: Read + Seek + Send> ZipSource for T {}
+
 pub struct Zipped {
     path: PathBuf,
-    zip: ZipArchive<BufReader<File>>,
+    zip: ZipArchive<Box<dyn ZipSource>>,
     entries: Vec<Entry>,
 }
 
@@ -24,7 +28,16 @@ impl Zipped {
             path: to_path_buf(path),
             source,
         })?;
-        let zip = ZipArchive::new(BufReader::new(file)).map_err(|e| match e {
+        Zipped::from_source(Box::new(BufReader::new(file)), path, limits)
+    }
+
+    /// A zip held in memory (`name` is used in messages).
+    pub fn from_bytes(bytes: Vec<u8>, name: &Path, limits: &Limits) -> Result<Zipped> {
+        Zipped::from_source(Box::new(Cursor::new(bytes)), name, limits)
+    }
+
+    fn from_source(source: Box<dyn ZipSource>, path: &Path, limits: &Limits) -> Result<Zipped> {
+        let zip = ZipArchive::new(source).map_err(|e| match e {
             ZipError::Io(io) => Error::BadZip {
                 path: to_path_buf(path),
                 detail: io.to_string(),
