@@ -74,6 +74,18 @@ pub(crate) fn search(
 ) -> Search {
     let started = Instant::now();
     let n = p.n();
+    // Pigeonhole: k probabilities summing to 1 cannot all be at most τ < 1/k.
+    if p.attrs
+        .iter()
+        .any(|a| a.true_value.is_none() && a.threshold * (a.k as f64) < 1.0 - 1e-12)
+    {
+        return Search {
+            best: None,
+            stopped: None,
+            lower_bound: f64::INFINITY,
+            nodes: 0,
+        };
+    }
     let mut best = incumbent;
     let mut nodes: u64 = 0;
     let mut stack = vec![Node {

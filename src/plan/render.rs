@@ -173,7 +173,14 @@ pub fn write_text(r: &PlanReport, out: &mut dyn Write) -> io::Result<()> {
                 percent(b.probability),
                 percent(b.threshold)
             );
-            if b.prior_probability > b.threshold {
+            if b.threshold * (b.values as f64) < 1.0 {
+                line.push_str(&format!(
+                    " With {} possible values some guess always has at least 1 chance in {}, so no alert level under {} can be met.",
+                    b.values,
+                    b.values,
+                    percent(1.0 / b.values as f64)
+                ));
+            } else if b.prior_probability > b.threshold {
                 line.push_str(&format!(
                     " Your alert level is below what the model gives with nothing visible at all ({}): raise it.",
                     percent(b.prior_probability)

@@ -128,6 +128,8 @@ pub struct BlockedReport {
     /// Kept items pushing toward the value: (name, bits).
     pub kept_items: Vec<(String, f64)>,
     pub proven_alone: bool,
+    /// How many values the attribute has (no best guess is below 1 in that many).
+    pub values: usize,
 }
 
 #[derive(Debug, Clone, Serialize)]
@@ -268,6 +270,7 @@ pub fn build(
                         .map(|(s, bits)| (subject_name(footprint, *s).0, *bits))
                         .collect(),
                     proven_alone: b.proven_alone,
+                    values: a.values.len(),
                 }
             })
             .collect(),
