@@ -17,6 +17,7 @@ pub mod import;
 pub mod infer;
 pub mod limits;
 pub mod mapping;
+pub mod plan;
 pub mod priors;
 pub mod reading;
 pub mod records;

@@ -23,6 +23,9 @@ pub struct Cli {
 pub enum Command {
     /// Report what an observer could infer from an archive.
     Scan(ScanArgs),
+    /// Find the smallest set of items to hide so no attribute is guessed above your
+    /// alert levels, and compare it with the usual coarse advice.
+    Plan(PlanArgs),
     /// Generate fictional data: the demo priors and persona archives.
     #[command(subcommand)]
     Synth(SynthCommand),
@@ -123,4 +126,51 @@ pub struct ScanArgs {
     /// How many items to list in text and Markdown reports.
     #[arg(long, default_value_t = 15)]
     pub top: usize,
+}
+
+#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub enum PlanMethod {
+    /// Branch and bound: proven smallest when it finishes in time.
+    Exact,
+    /// Quick, no guarantee.
+    Greedy,
+}
+
+#[derive(Debug, Args)]
+pub struct PlanArgs {
+    /// Archive: a zip file or an unpacked folder.
+    pub archive: PathBuf,
+
+    #[command(flatten)]
+    pub input: SourceArgs,
+
+    #[command(flatten)]
+    pub output: OutputArgs,
+
+    /// Alert level for an attribute, e.g. --threshold religion=0.4 or location=35%
+    /// (default: the priors' own levels). Repeat for several attributes.
+    #[arg(long = "threshold", value_name = "ATTR=P")]
+    pub thresholds: Vec<String>,
+
+    /// An item that must stay visible: its archive id, exact name or key; "friends"
+    /// for the friend list. Repeat for several.
+    #[arg(long = "keep", value_name = "ITEM")]
+    pub keep: Vec<String>,
+
+    /// Your true value for an attribute, e.g. --true politics=left: then only that
+    /// value's probability must stay under the alert level. Never written to reports.
+    #[arg(long = "true", value_name = "ATTR=VALUE")]
+    pub true_values: Vec<String>,
+
+    /// How much you mind hiding an item (default 1 each), e.g. --cost "Night Owls=3".
+    #[arg(long = "cost", value_name = "ITEM=W")]
+    pub costs: Vec<String>,
+
+    /// Search method.
+    #[arg(long, value_enum, default_value_t = PlanMethod::Exact)]
+    pub method: PlanMethod,
+
+    /// Stop the exact search after this many seconds and report the best plan found.
+    #[arg(long, value_name = "SECONDS", default_value_t = 10.0)]
+    pub time_limit: f64,
 }

@@ -3,6 +3,7 @@
 
 mod args;
 mod output;
+mod plan;
 mod scan;
 mod synth;
 
@@ -19,6 +20,7 @@ pub fn main() -> ExitCode {
     let cli = Cli::parse();
     let result = match cli.command {
         Some(Command::Scan(args)) => scan::run(&args),
+        Some(Command::Plan(args)) => plan::run(&args),
         Some(Command::Synth(cmd)) => synth::run(cmd),
         None => match cli.archive {
             Some(archive) => scan::run_default(archive, cli.input),

@@ -1,0 +1,362 @@
+//! The planning problem in the form the solvers use: the candidates (visible subjects
+//! that are not kept and carry evidence; the rest are pruned), their costs, and for
+//! each protected attribute the summed log-likelihood ratios each candidate adds, the
+//! visible sums with every candidate shown, and the constraint. Feasibility is always
+//! decided by the same calibrated posterior the scan uses ([`AttrModel::posterior`]);
+//! the bounds use the fact that the model's logits are `ln π(v) + λ·sum(v)`.
+
+use std::collections::HashMap;
+
+use super::request::{Error, PlanRequest};
+use crate::evidence::Subject;
+use crate::infer::{AttrModel, Exposure, Posterior};
+use crate::priors::Calibration;
+
+/// One protected attribute, ready for the solvers.
+#[derive(Debug, Clone)]
+pub(crate) struct PAttr {
+    /// Index into the exposure's attributes.
+    pub attribute: usize,
+    /// Number of values.
+    pub k: usize,
+    /// Offset of this attribute's sums in a state vector.
+    pub offset: usize,
+    /// λ: the logits are `log_base + λ·sum`.
+    pub lambda: f64,
+    pub log_base: Vec<f64>,
+    pub model: AttrModel,
+    pub threshold: f64,
+    /// `ln((1−τ)/τ)`: a value's probability is at most τ exactly when
+    /// `LSE_{u≠v}(z_u − z_v) ≥ κ`.
+    pub kappa: f64,
+    pub true_value: Option<usize>,
+    /// Per candidate, its summed log-likelihood ratios for this attribute (`n × k`).
+    pub w: Vec<f64>,
+    /// Per candidate, the values ordered by `w` ascending (`n × k`): the order in which
+    /// hiding the candidate helps the constraint on any value most.
+    pub order: Vec<u16>,
+    /// Per candidate: whether it has evidence for this attribute.
+    pub touches: Vec<bool>,
+}
+
+impl PAttr {
+    pub fn w(&self, i: usize) -> &[f64] {
+        &self.w[i * self.k..(i + 1) * self.k]
+    }
+
+    pub fn order(&self, i: usize) -> &[u16] {
+        &self.order[i * self.k..(i + 1) * self.k]
+    }
+
+    /// The logits for this attribute's part of a state.
+    pub fn logits(&self, sums: &[f64]) -> Vec<f64> {
+        self.log_base
+            .iter()
+            .zip(sums)
+            .map(|(b, s)| b + self.lambda * s)
+            .collect()
+    }
+
+    /// Constrained values whose probability is over the threshold.
+    pub fn violated(&self, post: &Posterior) -> Vec<usize> {
+        (0..self.k)
+            .filter(|&v| self.constrains(v) && post.probs[v] > self.threshold)
+            .collect()
+    }
+
+    pub fn constrains(&self, v: usize) -> bool {
+        self.threshold < 1.0 && self.true_value.is_none_or(|t| t == v)
+    }
+}
+
+/// The problem the solvers work on.
+#[derive(Debug, Clone)]
+pub(crate) struct Problem {
+    /// Candidates: visible subjects that may be hidden and carry evidence.
+    pub subjects: Vec<Subject>,
+    pub cost: Vec<f64>,
+    /// Every cost is 1.
+    pub unit_costs: bool,
+    /// Every cost is a whole number (so any plan's cost is one).
+    pub integral_costs: bool,
+    /// Candidates with bit-identical evidence and equal cost share a class; the search
+    /// never tries one of a class while skipping an earlier one.
+    pub class: Vec<usize>,
+    pub attrs: Vec<PAttr>,
+    /// Sums with every candidate visible (attributes concatenated).
+    pub start: Vec<f64>,
+    /// Visible, not kept, but carrying no evidence: hiding them changes nothing.
+    pub pruned: Vec<Subject>,
+}
+
+/// Check a request against an exposure.
+pub(crate) fn validate(exposure: &Exposure, request: &PlanRequest) -> Result<(), Error> {
+    let models = exposure.models();
+    let mut seen = vec![false; models.len()];
+    for t in &request.targets {
+        let Some(m) = models.get(t.attribute) else {
+            return Err(Error::UnknownAttribute {
+                attribute: t.attribute,
+                count: models.len(),
+            });
+        };
+        if std::mem::replace(&mut seen[t.attribute], true) {
+            return Err(Error::DuplicateTarget {
+                attribute: t.attribute,
+            });
+        }
+        if !(t.threshold > 0.0 && t.threshold <= 1.0) {
+            return Err(Error::Threshold {
+                attribute: t.attribute,
+                threshold: t.threshold,
+            });
+        }
+        if let Some(v) = t.true_value
+            && v >= m.log_base.len()
+        {
+            return Err(Error::UnknownValue {
+                attribute: t.attribute,
+                value: v,
+                count: m.log_base.len(),
+            });
+        }
+    }
+    let n_items = exposure.evidence().n_items;
+    let known = |s: &Subject| match s {
+        Subject::Item(i) => *i < n_items,
+        Subject::FriendList => true,
+    };
+    for s in request.keep.iter().chain(request.costs.keys()) {
+        if !known(s) {
+            return Err(Error::UnknownSubject { subject: *s });
+        }
+    }
+    for &cost in request.costs.values() {
+        if !(cost.is_finite() && cost > 0.0) {
+            return Err(Error::Cost { cost });
+        }
+    }
+    Ok(())
+}
+
+impl Problem {
+    /// Set up the problem: candidates are the visible, not kept subjects with evidence.
+    /// Subjects already hidden in the exposure stay hidden and cost nothing.
+    pub fn build(exposure: &Exposure, request: &PlanRequest) -> Problem {
+        let n_items = exposure.evidence().n_items;
+        let mut subjects = Vec::new();
+        let mut pruned = Vec::new();
+        for s in (0..n_items)
+            .map(Subject::Item)
+            .chain(std::iter::once(Subject::FriendList))
+        {
+            if exposure.is_hidden(s) || request.keep.contains(&s) {
+                continue;
+            }
+            let ev = exposure.evidence_of(s);
+            let carries = ev.iter().any(|&e| {
+                let l = &exposure.evidence().list[e].log_lr;
+                let (lo, hi) = l
+                    .iter()
+                    .fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), &x| {
+                        (a.min(x), b.max(x))
+                    });
+                hi - lo > 0.0
+            });
+            if carries {
+                subjects.push(s);
+            } else if s != Subject::FriendList || !ev.is_empty() {
+                // The friend list only counts as pruned when it has evidence at all.
+                pruned.push(s);
+            }
+        }
+        let n = subjects.len();
+        let cost: Vec<f64> = subjects.iter().map(|&s| request.cost(s)).collect();
+        let mut attrs = Vec::new();
+        let mut start = Vec::new();
+        for t in &request.targets {
+            let model = exposure.models()[t.attribute].clone();
+            let k = model.log_base.len();
+            let lambda = match &model.calibration {
+                Calibration::Temperature { lambda } => *lambda,
+            };
+            let mut w = vec![0.0; n * k];
+            let mut touching = Vec::new();
+            for (ci, &s) in subjects.iter().enumerate() {
+                let mut any = false;
+                for &e in exposure.evidence_of(s) {
+                    let e = &exposure.evidence().list[e];
+                    if e.attribute == t.attribute {
+                        any = true;
+                        for (x, l) in w[ci * k..(ci + 1) * k].iter_mut().zip(&e.log_lr) {
+                            *x += l;
+                        }
+                    }
+                }
+                if any {
+                    touching.push(ci);
+                }
+            }
+            let mut order = Vec::with_capacity(n * k);
+            for ci in 0..n {
+                let row = &w[ci * k..(ci + 1) * k];
+                let mut idx: Vec<u16> = (0..k as u16).collect();
+                idx.sort_by(|&a, &b| row[a as usize].total_cmp(&row[b as usize]));
+                order.extend(idx);
+            }
+            let mut touches = vec![false; n];
+            for &ci in &touching {
+                touches[ci] = true;
+            }
+            let tau = t.threshold;
+            attrs.push(PAttr {
+                attribute: t.attribute,
+                k,
+                offset: start.len(),
+                lambda,
+                log_base: model.log_base.clone(),
+                threshold: tau,
+                kappa: ((1.0 - tau) / tau).ln(),
+                true_value: t.true_value,
+                model,
+                w,
+                order,
+                touches,
+            });
+            start.extend_from_slice(exposure.sum(t.attribute));
+        }
+        let unit_costs = cost.iter().all(|&c| c == 1.0);
+        let integral_costs = cost.iter().all(|&c| c.fract() == 0.0);
+        let class = twin_classes(&subjects, &cost, exposure);
+        Problem {
+            subjects,
+            cost,
+            unit_costs,
+            integral_costs,
+            class,
+            attrs,
+            start,
+            pruned,
+        }
+    }
+
+    pub fn n(&self) -> usize {
+        self.subjects.len()
+    }
+
+    /// The state (sums) with the given candidates hidden.
+    pub fn state_with(&self, hidden: &[usize]) -> Vec<f64> {
+        let mut s = self.start.clone();
+        for &i in hidden {
+            self.hide(&mut s, i);
+        }
+        s
+    }
+
+    /// Hide candidate `i` in a state.
+    pub fn hide(&self, state: &mut [f64], i: usize) {
+        for a in &self.attrs {
+            for (x, w) in state[a.offset..a.offset + a.k].iter_mut().zip(a.w(i)) {
+                *x -= w;
+            }
+        }
+    }
+
+    /// Show candidate `i` again in a state.
+    pub fn show(&self, state: &mut [f64], i: usize) {
+        for a in &self.attrs {
+            for (x, w) in state[a.offset..a.offset + a.k].iter_mut().zip(a.w(i)) {
+                *x += w;
+            }
+        }
+    }
+
+    pub fn sums<'a>(&self, a: &PAttr, state: &'a [f64]) -> &'a [f64] {
+        &state[a.offset..a.offset + a.k]
+    }
+
+    /// The calibrated posterior of attribute `a` (index into `attrs`) in a state.
+    pub fn posterior(&self, a: usize, state: &[f64]) -> Posterior {
+        let at = &self.attrs[a];
+        at.model.posterior(self.sums(at, state))
+    }
+
+    /// Constraints (attribute index into `attrs`, value) that a state violates.
+    pub fn violated(&self, state: &[f64]) -> Vec<(usize, usize)> {
+        let mut out = Vec::new();
+        for (ai, a) in self.attrs.iter().enumerate() {
+            if a.threshold >= 1.0 {
+                continue;
+            }
+            let post = self.posterior(ai, state);
+            out.extend(a.violated(&post).into_iter().map(|v| (ai, v)));
+        }
+        out
+    }
+
+    pub fn feasible(&self, state: &[f64]) -> bool {
+        self.attrs
+            .iter()
+            .enumerate()
+            .all(|(ai, a)| a.threshold >= 1.0 || a.violated(&self.posterior(ai, state)).is_empty())
+    }
+
+    /// Total cost of a set of candidates.
+    pub fn cost_of(&self, set: &[usize]) -> f64 {
+        set.iter().map(|&i| self.cost[i]).sum()
+    }
+
+    /// Drop hidden candidates that are not needed (most expensive first) while the
+    /// state stays feasible; the result is minimal under inclusion.
+    pub fn trim(&self, set: &mut Vec<usize>) {
+        let mut state = self.state_with(set);
+        let mut order: Vec<usize> = set.clone();
+        order.sort_by(|&a, &b| self.cost[b].total_cmp(&self.cost[a]).then(a.cmp(&b)));
+        for i in order {
+            self.show(&mut state, i);
+            if self.feasible(&state) {
+                set.retain(|&x| x != i);
+            } else {
+                self.hide(&mut state, i);
+            }
+        }
+        set.sort_unstable();
+    }
+
+    /// The same problem restricted to some of its attributes (indices into `attrs`).
+    pub fn restricted(&self, keep: &[usize]) -> Problem {
+        let mut attrs = Vec::new();
+        let mut start = Vec::new();
+        for &ai in keep {
+            let mut a = self.attrs[ai].clone();
+            start.extend_from_slice(&self.start[a.offset..a.offset + a.k]);
+            a.offset = start.len() - a.k;
+            attrs.push(a);
+        }
+        Problem {
+            attrs,
+            start,
+            ..self.clone()
+        }
+    }
+}
+
+/// Group candidates whose evidence is bit-for-bit the same (the same reference item
+/// matched twice, say) and whose costs are equal.
+fn twin_classes(subjects: &[Subject], cost: &[f64], exposure: &Exposure) -> Vec<usize> {
+    let mut seen: HashMap<Vec<u64>, usize> = HashMap::new();
+    let mut class = Vec::with_capacity(subjects.len());
+    for (ci, &s) in subjects.iter().enumerate() {
+        let mut key = vec![cost[ci].to_bits()];
+        let mut ev: Vec<usize> = exposure.evidence_of(s).to_vec();
+        ev.sort_by_key(|&e| exposure.evidence().list[e].attribute);
+        for e in ev {
+            let e = &exposure.evidence().list[e];
+            key.push(e.attribute as u64);
+            key.extend(e.log_lr.iter().map(|x| x.to_bits()));
+        }
+        let next = seen.len();
+        class.push(*seen.entry(key).or_insert(next));
+    }
+    class
+}

@@ -1,0 +1,348 @@
+//! Plan reports as text (plain words, 80 columns) and Markdown. Both write to any
+//! `io::Write`, so they are tested in memory; JSON is `serde_json` on [`PlanReport`].
+
+use std::io::{self, Write};
+
+use super::report::{PlanReport, StateReport, cost_words};
+use crate::cautions::TITLE;
+use crate::reading::percent;
+use crate::text::{pad_to_width, truncate_to_width};
+
+/// Write the JSON document (pretty-printed, newline-terminated).
+pub fn write_json(r: &PlanReport, out: &mut dyn Write) -> io::Result<()> {
+    serde_json::to_writer_pretty(&mut *out, r)?;
+    writeln!(out)
+}
+
+fn state_words(s: &StateReport) -> String {
+    match s.true_value_probability {
+        Some(t) => format!(
+            "{} {} (your value {})",
+            s.guess_label,
+            percent(s.probability),
+            percent(t)
+        ),
+        None => format!("{} {}", s.guess_label, percent(s.probability)),
+    }
+}
+
+fn why(r: &PlanReport, i: usize) -> String {
+    let Some(plan) = &r.plan else {
+        return String::new();
+    };
+    plan.items[i]
+        .reasons
+        .iter()
+        .take(2)
+        .map(|x| {
+            format!(
+                "{}: {} ({:+.2} bits{})",
+                x.attribute_label,
+                x.value_label,
+                x.bits,
+                if x.needed {
+                    format!("; shown again: {}", percent(x.probability_if_shown))
+                } else {
+                    String::new()
+                }
+            )
+        })
+        .collect::<Vec<_>>()
+        .join("; ")
+}
+
+fn wrap(s: &str, width: usize, indent: &str) -> String {
+    let mut lines = Vec::new();
+    let mut line = String::new();
+    for word in s.split_whitespace() {
+        if !line.is_empty() && line.chars().count() + 1 + word.chars().count() > width {
+            lines.push(std::mem::take(&mut line));
+        }
+        if !line.is_empty() {
+            line.push(' ');
+        }
+        line.push_str(word);
+    }
+    if !line.is_empty() {
+        lines.push(line);
+    }
+    lines
+        .iter()
+        .map(|l| format!("{indent}{l}"))
+        .collect::<Vec<_>>()
+        .join("\n")
+}
+
+/// Write the text report.
+pub fn write_text(r: &PlanReport, out: &mut dyn Write) -> io::Result<()> {
+    writeln!(out, "telltale plan: what to hide")?;
+    writeln!(
+        out,
+        "Archive    {} · reference {}{}",
+        r.archive,
+        r.priors,
+        if r.priors_synthetic {
+            " (synthetic: a fictional population)"
+        } else {
+            ""
+        }
+    )?;
+    writeln!(out)?;
+    writeln!(out, "{}", wrap(&r.summary, 78, ""))?;
+    if let Some(plan) = &r.plan
+        && !plan.items.is_empty()
+    {
+        writeln!(out, "\nITEMS TO HIDE")?;
+        writeln!(
+            out,
+            "   #  {}  {}  Why (what it was feeding)",
+            pad_to_width("Item", 30),
+            pad_to_width("Kind", 7)
+        )?;
+        for (i, h) in plan.items.iter().enumerate() {
+            writeln!(
+                out,
+                "  {:>2}  {}  {}  {}",
+                i + 1,
+                pad_to_width(&truncate_to_width(&h.name, 30), 30),
+                pad_to_width(&h.kind, 7),
+                why(r, i)
+            )?;
+        }
+        writeln!(
+            out,
+            "  Bits: how much the item adds toward the value; \"shown again\": that value's\n  probability if you showed just this item again."
+        )?;
+    }
+    writeln!(out, "\nBEFORE AND AFTER")?;
+    for a in &r.attributes {
+        writeln!(
+            out,
+            "  {}  {} → {}   alert level {}   {}",
+            pad_to_width(&a.label, 18),
+            state_words(&a.before),
+            state_words(&a.after),
+            percent(a.threshold),
+            if a.after.meets { "ok" } else { "STILL OVER" }
+        )?;
+    }
+    if !r.coarse_moves.is_empty() {
+        writeln!(out, "\nWHAT THE USUAL ADVICE WOULD DO")?;
+        let plan_count = r.plan.as_ref().map(|p| p.count);
+        for m in &r.coarse_moves {
+            let over: Vec<String> = m
+                .after
+                .iter()
+                .filter(|(_, s)| !s.meets)
+                .map(|(id, s)| {
+                    let label = r
+                        .attributes
+                        .iter()
+                        .find(|a| &a.id == id)
+                        .map_or(id.as_str(), |a| a.label.as_str());
+                    format!("{label} still {}", percent(s.probability))
+                })
+                .collect();
+            let verdict = if m.meets_all {
+                "every attribute under your alert levels".to_string()
+            } else {
+                format!(
+                    "{} of {} attributes under your alert levels ({})",
+                    m.attributes_met,
+                    m.after.len(),
+                    over.join(", ")
+                )
+            };
+            let compare = match plan_count {
+                Some(n) if n > 0 && m.hides > 0 => {
+                    format!("; {} hidden against the plan's {}", m.hides, n)
+                }
+                _ => String::new(),
+            };
+            let line = format!("• To {}: {verdict}{compare}.", m.description);
+            writeln!(out, "{}", wrap(&line, 76, "  "))?;
+        }
+    }
+    if let Some(inf) = &r.infeasible {
+        writeln!(out, "\nWHAT STANDS IN THE WAY")?;
+        for b in &inf.blocked {
+            let mut line = format!(
+                "• {}: with everything you allow hidden, {} is at {} (alert level {}).",
+                b.attribute_label,
+                b.value_label,
+                percent(b.probability),
+                percent(b.threshold)
+            );
+            if b.threshold * (b.values as f64) < 1.0 {
+                line.push_str(&format!(
+                    " With {} possible values some guess always has at least 1 chance in {}, so no alert level under {} can be met.",
+                    b.values,
+                    b.values,
+                    percent(1.0 / b.values as f64)
+                ));
+            } else if b.prior_probability > b.threshold {
+                line.push_str(&format!(
+                    " Your alert level is below what the model gives with nothing visible at all ({}): raise it.",
+                    percent(b.prior_probability)
+                ));
+            }
+            if !b.kept_items.is_empty() {
+                let names: Vec<String> = b
+                    .kept_items
+                    .iter()
+                    .take(5)
+                    .map(|(n, bits)| format!("{n} ({bits:+.2} bits)"))
+                    .collect();
+                line.push_str(&format!(
+                    " Items you keep that give it away: {}.",
+                    names.join(", ")
+                ));
+            }
+            writeln!(out, "{}", wrap(&line, 76, "  "))?;
+        }
+        for (x, y) in &inf.conflicts {
+            writeln!(
+                out,
+                "{}",
+                wrap(
+                    &format!(
+                        "• {x} and {y} can each be met alone, but no set of hidden items meets both: hiding what helps one pushes the other over."
+                    ),
+                    76,
+                    "  "
+                )
+            )?;
+        }
+    }
+    writeln!(out, "\nHOW THIS WAS WORKED OUT")?;
+    let mut lines = vec![format!(
+        "{} candidate(s) with evidence were considered ({} without evidence left out, {} kept visible by you).",
+        r.search.candidates, r.search.pruned, r.search.kept
+    )];
+    match (r.greedy.count, r.greedy.excess_over_plan) {
+        (Some(n), Some(x)) if x > 1e-9 => lines.push(format!(
+            "The quick greedy method found a plan of {}, {} more than this one.",
+            cost_words(n, r.greedy.cost.unwrap_or(n as f64)),
+            if (x - x.round()).abs() < 1e-9 {
+                format!("{x:.0}")
+            } else {
+                format!("{x:.2}")
+            }
+        )),
+        (Some(n), _) => lines.push(format!(
+            "The quick greedy method found a plan of {} as well.",
+            cost_words(n, r.greedy.cost.unwrap_or(n as f64))
+        )),
+        (None, _) => lines.push("The quick greedy method found no plan.".into()),
+    }
+    if r.search.nodes > 0 {
+        lines.push(format!(
+            "The exact search (branch and bound) looked at {} node(s) in {:.2} s.",
+            r.search.nodes, r.search.seconds
+        ));
+    }
+    for l in lines {
+        writeln!(out, "{}", wrap(&l, 76, "  "))?;
+    }
+    writeln!(out, "\n{}", TITLE.to_uppercase())?;
+    for c in &r.cautions {
+        writeln!(out, "{}", wrap(c, 76, "  "))?;
+    }
+    Ok(())
+}
+
+/// Escape text for Markdown.
+fn esc(s: &str) -> String {
+    let mut out = String::with_capacity(s.len());
+    for c in s.chars() {
+        if matches!(
+            c,
+            '|' | '*' | '_' | '`' | '[' | ']' | '<' | '>' | '#' | '\\'
+        ) {
+            out.push('\\');
+        }
+        out.push(if c == '\n' { ' ' } else { c });
+    }
+    out
+}
+
+/// Write the Markdown report.
+pub fn write_markdown(r: &PlanReport, out: &mut dyn Write) -> io::Result<()> {
+    writeln!(out, "# What to hide in {}\n", esc(&r.archive))?;
+    writeln!(out, "{}\n", esc(&r.summary))?;
+    if let Some(plan) = &r.plan
+        && !plan.items.is_empty()
+    {
+        writeln!(out, "## Items to hide\n")?;
+        writeln!(out, "| # | Item | Kind | Why |")?;
+        writeln!(out, "|---:|---|---|---|")?;
+        for (i, h) in plan.items.iter().enumerate() {
+            writeln!(
+                out,
+                "| {} | {} | {} | {} |",
+                i + 1,
+                esc(&h.name),
+                h.kind,
+                esc(&why(r, i))
+            )?;
+        }
+        writeln!(out)?;
+    }
+    writeln!(out, "## Before and after\n")?;
+    writeln!(out, "| Attribute | Before | After | Alert level | Met |")?;
+    writeln!(out, "|---|---|---|---:|---|")?;
+    for a in &r.attributes {
+        writeln!(
+            out,
+            "| {} | {} | {} | {} | {} |",
+            esc(&a.label),
+            esc(&state_words(&a.before)),
+            esc(&state_words(&a.after)),
+            percent(a.threshold),
+            if a.after.meets { "yes" } else { "no" }
+        )?;
+    }
+    if !r.coarse_moves.is_empty() {
+        writeln!(out, "\n## What the usual advice would do\n")?;
+        writeln!(out, "| Move | Hidden | Attributes under the alert level |")?;
+        writeln!(out, "|---|---:|---:|")?;
+        for m in &r.coarse_moves {
+            writeln!(
+                out,
+                "| {} | {} | {} of {} |",
+                esc(&m.description),
+                m.hides,
+                m.attributes_met,
+                m.after.len()
+            )?;
+        }
+    }
+    if let Some(inf) = &r.infeasible {
+        writeln!(out, "\n## What stands in the way\n")?;
+        for b in &inf.blocked {
+            let kept: Vec<String> = b.kept_items.iter().take(5).map(|(n, _)| esc(n)).collect();
+            writeln!(
+                out,
+                "- {}: {} at {} with everything allowed hidden (alert level {}; with nothing visible {}){}",
+                esc(&b.attribute_label),
+                esc(&b.value_label),
+                percent(b.probability),
+                percent(b.threshold),
+                percent(b.prior_probability),
+                if kept.is_empty() {
+                    String::new()
+                } else {
+                    format!("; kept items giving it away: {}", kept.join(", "))
+                }
+            )?;
+        }
+        for (x, y) in &inf.conflicts {
+            writeln!(out, "- {} and {} cannot be met together.", esc(x), esc(y))?;
+        }
+    }
+    writeln!(out, "\n## {}\n", TITLE)?;
+    for c in &r.cautions {
+        writeln!(out, "- {}", esc(c))?;
+    }
+    Ok(())
+}

@@ -1,0 +1,189 @@
+//! The demo personas get plans that, re-scored through a fresh exposure with the
+//! plan's items hidden (the scan's own scoring path), meet every alert level — with
+//! the priors' levels, and with each persona's true values (from
+//! demo-exports/manifest.json) stated. Also drives `telltale plan` end to end.
+
+use std::path::PathBuf;
+use std::process::Command;
+use std::time::Duration;
+
+use telltale::plan::{Budget, PlanRequest, Status, solve};
+use telltale::scan::{Scan, ScanInput, load_priors};
+use telltale::synth::PersonaManifest;
+
+fn root() -> PathBuf {
+    PathBuf::from(env!("CARGO_MANIFEST_DIR"))
+}
+
+fn personas() -> Vec<PersonaManifest> {
+    let text = std::fs::read_to_string(root().join("demo-exports/manifest.json")).unwrap();
+    serde_json::from_str(&text).unwrap()
+}
+
+#[test]
+fn demo_plans_meet_every_threshold_when_rescored() {
+    let priors = load_priors(None).unwrap();
+    for p in personas() {
+        let input = ScanInput {
+            archive: root().join("demo-exports").join(&p.archive),
+            mapping: Some(root().join("demo-exports").join(&p.mapping)),
+            ..ScanInput::default()
+        };
+        let scan = Scan::run(&input, &priors).unwrap();
+        for with_truth in [false, true] {
+            let mut req = PlanRequest::for_footprint(&priors, &scan.footprint);
+            if with_truth {
+                for (ai, v) in p.truth.iter().enumerate() {
+                    let vi = priors.attributes[ai].value_index(v).unwrap();
+                    req.set_true_value(ai, vi);
+                }
+            }
+            req.budget = Budget::with_time_limit(Duration::from_secs(2));
+            let out = solve(&scan.exposure, &req).unwrap();
+            assert!(
+                matches!(out.status, Status::Optimal | Status::Feasible),
+                "{}: {:?}",
+                p.slug,
+                out.status
+            );
+            let plan = out.plan.as_ref().unwrap();
+            // Re-score from scratch: a fresh exposure from the same footprint.
+            let mut fresh =
+                Scan::from_footprint("x".into(), "y".into(), scan.footprint.clone(), &priors);
+            for s in plan.subjects() {
+                fresh.exposure.set_hidden(s, true);
+            }
+            fresh.exposure.recompute();
+            for t in &req.targets {
+                let post = fresh.exposure.posterior(t.attribute);
+                let p_watched = match t.true_value {
+                    Some(v) => post.probs[v],
+                    None => post.probability,
+                };
+                assert!(
+                    p_watched <= t.threshold,
+                    "{} (truth {with_truth}): attribute {} at {p_watched} over {}",
+                    p.slug,
+                    t.attribute,
+                    t.threshold
+                );
+            }
+            // The "hide everything" move hides at least as much as the plan.
+            let everything = out.moves.last().unwrap();
+            assert!(everything.hides >= plan.len());
+            if let Some(lb) = out.lower_bound {
+                assert!(lb <= plan.cost + 1e-9);
+            }
+        }
+    }
+}
+
+fn telltale(args: &[&str]) -> std::process::Output {
+    Command::new(env!("CARGO_BIN_EXE_telltale"))
+        .args(args)
+        .current_dir(root())
+        .output()
+        .unwrap()
+}
+
+#[test]
+fn cli_plan_writes_versioned_json_and_names_near_matches() {
+    let out = telltale(&[
+        "plan",
+        "demo-exports/teacher",
+        "--format",
+        "json",
+        "--time-limit",
+        "5",
+    ]);
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    assert_eq!(v["format"], 1);
+    assert_eq!(v["status"], "optimal");
+    let items = v["plan"]["items"].as_array().unwrap();
+    assert!(!items.is_empty());
+    assert!(
+        items
+            .iter()
+            .all(|i| !i["reasons"].as_array().unwrap().is_empty())
+    );
+    assert_eq!(v["attributes"].as_array().unwrap().len(), 4);
+    assert!(
+        v["attributes"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .all(|a| a["after"]["meets"] == true)
+    );
+
+    // Keeping the first planned item gives a plan without it.
+    let first = items[0]["name"].as_str().unwrap().to_string();
+    let out = telltale(&[
+        "plan",
+        "demo-exports/teacher",
+        "--format",
+        "json",
+        "--keep",
+        &first,
+    ]);
+    assert!(out.status.success());
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    if let Some(items) = v["plan"]["items"].as_array() {
+        assert!(items.iter().all(|i| i["name"] != first.as_str()));
+    }
+
+    // A misspelt item is an error naming the near match.
+    let out = telltale(&[
+        "plan",
+        "demo-exports/teacher",
+        "--keep",
+        "Kosher Kitchen Chanel",
+    ]);
+    assert!(!out.status.success());
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(err.contains("Kosher Kitchen Channel"), "{err}");
+
+    // An alert level under 1/7 for a seven-valued attribute cannot be met (the
+    // probabilities add up to 1, so some value has at least 1/7): proven and said.
+    let out = telltale(&[
+        "plan",
+        "demo-exports/teacher",
+        "--threshold",
+        "religion=5%",
+        "--format",
+        "json",
+    ]);
+    assert!(out.status.success());
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    assert_eq!(v["status"], "infeasible");
+    assert_eq!(v["infeasible"]["blocked"][0]["attribute"], "religion");
+    let out = telltale(&["plan", "demo-exports/teacher", "--threshold", "religion=5%"]);
+    let text = String::from_utf8_lossy(&out.stdout);
+    assert!(text.contains("WHAT STANDS IN THE WAY"), "{text}");
+    assert!(text.contains("1 chance in 7"), "{text}");
+}
+
+#[cfg(unix)]
+#[test]
+fn cli_plan_output_file_is_owner_only() {
+    use std::os::unix::fs::PermissionsExt;
+    let dir = tempfile::tempdir().unwrap();
+    let path = dir.path().join("plan.md");
+    let out = telltale(&[
+        "plan",
+        "demo-exports/teacher",
+        "--format",
+        "markdown",
+        "--output",
+        path.to_str().unwrap(),
+    ]);
+    assert!(out.status.success());
+    let meta = std::fs::metadata(&path).unwrap();
+    assert_eq!(meta.permissions().mode() & 0o777, 0o600);
+    let text = std::fs::read_to_string(&path).unwrap();
+    assert!(text.starts_with("# What to hide in teacher"));
+}
