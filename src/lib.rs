@@ -13,6 +13,7 @@ pub mod evidence;
 pub mod footprint;
 pub mod import;
 pub mod infer;
+pub mod lexicon;
 pub mod limits;
 pub mod mapping;
 pub mod priors;
