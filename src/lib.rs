@@ -11,6 +11,7 @@ pub mod archive;
 pub mod cautions;
 pub mod evidence;
 pub mod footprint;
+pub mod friends_file;
 pub mod import;
 pub mod infer;
 pub mod lexicon;
