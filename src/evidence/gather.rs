@@ -19,6 +19,7 @@ use crate::priors::Priors;
 /// Gather the evidence the chosen sources give for a footprint.
 pub fn gather(footprint: &Footprint, priors: &Priors, sources: &Sources) -> EvidenceSet {
     let mut set = EvidenceSet::new(footprint.items.len());
+    set.sources = sources.enabled();
     if sources.table {
         from_table(footprint, priors, &mut set);
     }

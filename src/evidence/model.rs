@@ -151,6 +151,8 @@ pub struct EvidenceSet {
     pub friends: Option<FriendStats>,
     /// The "now" ages were computed for (Unix seconds), when the life-stage source ran.
     pub reference_time: Option<i64>,
+    /// The sources that ran.
+    pub sources: Vec<super::sources::SourceKind>,
 }
 
 impl EvidenceSet {

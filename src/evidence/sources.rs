@@ -52,7 +52,7 @@ impl SourceKind {
             SourceKind::Places => "Place names",
             SourceKind::LifeStages => "Life stages and dates",
             SourceKind::Vocabulary => "Belief vocabulary",
-            SourceKind::Friends => "Friends' known attributes",
+            SourceKind::Friends => "Friends",
         }
     }
 
