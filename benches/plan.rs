@@ -14,7 +14,7 @@ use std::time::Duration;
 use criterion::{Criterion, criterion_group, criterion_main};
 use rand::{Rng, SeedableRng};
 use rand_chacha::ChaCha8Rng;
-use telltale::evidence::{Evidence, EvidenceSet, Origin, Subject};
+use telltale::evidence::{Evidence, EvidenceSet, Origin, Sources, Subject};
 use telltale::footprint::{Footprint, Item, ItemKind};
 use telltale::infer::{AttrModel, Exposure};
 use telltale::plan::{Budget, Method, PlanRequest, Status, solve};
@@ -128,7 +128,7 @@ fn benches(c: &mut Criterion) {
 
     for seed in [1u64, 2, 3] {
         let fp = member_footprint(&priors, seed, 60);
-        let scan = Scan::from_footprint("bench".into(), "bench".into(), fp, &priors);
+        let scan = Scan::from_footprint("bench".into(), "bench".into(), fp, &priors, &Sources::table_only());
         let o = exact(&priors, &scan.exposure);
         eprintln!(
             "member seed {seed}: {} candidates, status {:?}, plan {:?}, greedy {:?}, nodes {}",
@@ -151,7 +151,7 @@ fn benches(c: &mut Criterion) {
     };
     let mut fp = Scan::run(&input, &priors).expect("demo archive").footprint;
     fp.items.truncate(60);
-    let scan = Scan::from_footprint("bench".into(), "bench".into(), fp, &priors);
+    let scan = Scan::from_footprint("bench".into(), "bench".into(), fp, &priors, &Sources::table_only());
     g.bench_function("exact_60x4_reporter_first60", |b| {
         b.iter(|| exact(&priors, black_box(&scan.exposure)))
     });

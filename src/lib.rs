@@ -13,8 +13,10 @@ pub mod evidence;
 pub mod footprint;
 #[doc(hidden)]
 pub mod fuzzing;
+pub mod friends_file;
 pub mod import;
 pub mod infer;
+pub mod lexicon;
 pub mod limits;
 pub mod mapping;
 pub mod plan;

@@ -7,6 +7,7 @@ use std::path::{Path, PathBuf};
 use crate::archive::{self, Archive};
 use crate::evidence;
 use crate::footprint::Footprint;
+use crate::friends_file::{self, merge_friends_file};
 use crate::import;
 use crate::infer::Exposure;
 use crate::limits::Limits;
@@ -35,6 +36,10 @@ pub struct ScanInput {
     /// A mapping file; `None` looks inside and beside the archive.
     pub mapping: Option<PathBuf>,
     pub limits: Limits,
+    /// Evidence sources to run (default: all, with the bundled lexicons).
+    pub sources: evidence::Sources,
+    /// A CSV of some friends' attributes to merge into the archive's friends.
+    pub friends_file: Option<PathBuf>,
 }
 
 #[derive(Debug, thiserror::Error)]
@@ -45,6 +50,8 @@ pub enum Error {
     Mapping(#[from] mapping::Error),
     #[error(transparent)]
     Import(#[from] import::Error),
+    #[error(transparent)]
+    FriendsFile(#[from] friends_file::Error),
 }
 
 /// The result of importing and scoring one archive.
@@ -69,12 +76,16 @@ impl Scan {
                 Mapping::parse(&found.text, &found.origin)?
             }
         };
-        let footprint = import::import(&mut archive, &mapping, &input.limits)?;
+        let mut footprint = import::import(&mut archive, &mapping, &input.limits)?;
+        if let Some(path) = &input.friends_file {
+            merge_friends_file(&mut footprint, path, priors)?;
+        }
         Ok(Scan::from_footprint(
             archive.display_name(),
             mapping.origin.clone(),
             footprint,
             priors,
+            &input.sources,
         ))
     }
 
@@ -84,9 +95,10 @@ impl Scan {
         mapping_origin: String,
         mut footprint: Footprint,
         priors: &Priors,
+        sources: &evidence::Sources,
     ) -> Scan {
         check_attribute_names(&mut footprint, priors, &mapping_origin);
-        let evidence = evidence::gather(&footprint, priors);
+        let evidence = evidence::gather(&footprint, priors, sources);
         let exposure = Exposure::new(priors, evidence);
         Scan {
             archive_name,

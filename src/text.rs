@@ -17,9 +17,25 @@ use unicode_width::UnicodeWidthStr;
 /// space. Letters and digits of every script are kept, so names in Greek, Arabic or
 /// Chinese keep their identity.
 pub fn name_key(s: &str) -> String {
-    let mut out = String::with_capacity(s.len());
+    // NFD(NFKC(s)) is NFKD(s), so one compatibility decomposition does both steps. ASCII
+    // text is unchanged by every normal form and skips them (most names are ASCII).
+    if s.is_ascii() {
+        return fold_chars(s.chars());
+    }
+    let out = fold_chars(s.nfkd());
+    if out.is_ascii() {
+        return out;
+    }
+    // Recompose so keys compare equal whatever form the input had.
+    out.nfc().collect()
+}
+
+/// Drop combining marks, lower-case letters and digits, turn every run of anything
+/// else into one space (apostrophes join).
+fn fold_chars(chars: impl Iterator<Item = char>) -> String {
+    let mut out = String::new();
     let mut pending_space = false;
-    for c in s.nfkc().collect::<String>().nfd() {
+    for c in chars {
         if is_combining_mark(c) {
             continue;
         }
@@ -28,8 +44,10 @@ pub fn name_key(s: &str) -> String {
                 out.push(' ');
             }
             pending_space = false;
-            for l in c.to_lowercase() {
-                out.push(l);
+            if c.is_ascii() {
+                out.push(c.to_ascii_lowercase());
+            } else {
+                out.extend(c.to_lowercase());
             }
         } else if c == '\'' || c == '’' || c == 'ʼ' {
             // Apostrophes join: "Farmers' Market" and "Farmers Market" match.
@@ -37,8 +55,7 @@ pub fn name_key(s: &str) -> String {
             pending_space = true;
         }
     }
-    // Recompose so keys compare equal whatever form the input had.
-    out.nfc().collect()
+    out
 }
 
 /// Repair text that was UTF-8, decoded as Latin-1 and re-encoded as UTF-8 (each byte

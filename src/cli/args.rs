@@ -79,6 +79,18 @@ pub struct SourceArgs {
     /// json-depth.
     #[arg(long = "limit", value_name = "NAME=VALUE")]
     pub limits: Vec<String>,
+
+    /// Evidence sources to use, comma-separated: table, places, life-stages,
+    /// vocabulary, friends, or all (the default). `--sources table` uses the reference
+    /// table alone.
+    #[arg(long, value_name = "LIST")]
+    pub sources: Option<String>,
+
+    /// A CSV file of some friends' attributes (columns: name and/or id, then one per
+    /// attribute, e.g. location, politics). Merged with the archive's friends; names
+    /// are used for matching only and never reported.
+    #[arg(long, value_name = "FILE")]
+    pub friends: Option<PathBuf>,
 }
 
 #[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]

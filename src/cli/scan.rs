@@ -4,6 +4,7 @@ use std::path::PathBuf;
 use std::process::ExitCode;
 
 use anyhow::{Context, Result};
+use telltale::evidence::Sources;
 use telltale::limits::Limits;
 use telltale::report::{TextOptions, write_json, write_markdown, write_text};
 use telltale::scan::{Scan, ScanInput, load_priors};
@@ -19,10 +20,16 @@ pub fn input(archive: PathBuf, src: &SourceArgs) -> Result<ScanInput> {
             .apply(setting)
             .map_err(|e| anyhow::anyhow!("--limit {setting}: {e}"))?;
     }
+    let sources = match &src.sources {
+        Some(list) => Sources::parse_list(list).map_err(|e| anyhow::anyhow!("--sources: {e}"))?,
+        None => Sources::all(),
+    };
     Ok(ScanInput {
         archive,
         mapping: src.mapping.clone(),
         limits,
+        sources,
+        friends_file: src.friends.clone(),
     })
 }
 

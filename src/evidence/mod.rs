@@ -2,20 +2,26 @@
 //! the likelihood ratios `L(v) = p(v)/π(v)` an observer would apply, with the item's
 //! homogeneity, its information in bits, the support behind it and where it comes from
 //! (the priors table, a lexicon, friends, the user's own marks). Every evidence source
-//! produces the same [`Evidence`] so inference treats them alike.
+//! produces the same [`Evidence`] so inference treats them alike; [`Sources`] says
+//! which run. Sources and their numbers are described in docs/evidence.md.
 
+mod beliefs;
+mod friends;
+mod gather;
+mod life_stage;
 mod model;
+mod places;
+mod sources;
 mod table;
 
-pub use model::{Evidence, EvidenceSet, Origin, Subject};
+pub use friends::{FRIEND_SMOOTHING, from_friends, relational_neighbour};
+pub use gather::gather;
+pub use life_stage::{
+    AgeBands, StageTime, age_bands, band_shares, newest_date, parse_age_range, year_of,
+};
+pub use model::{Evidence, EvidenceSet, FriendStats, Origin, SpecialFlag, Subject};
+pub use places::{
+    LOCALITY_SHARE, LocationValues, PlaceCode, location_attributes, place_likelihoods, value_code,
+};
+pub use sources::{SourceKind, Sources};
 pub use table::from_table;
-
-use crate::footprint::Footprint;
-use crate::priors::Priors;
-
-/// Gather the evidence every available source gives for a footprint.
-pub fn gather(footprint: &Footprint, priors: &Priors) -> EvidenceSet {
-    let mut set = EvidenceSet::new(footprint.items.len());
-    from_table(footprint, priors, &mut set);
-    set
-}

@@ -2,6 +2,7 @@
 
 use serde::Serialize;
 
+use crate::lexicon::SpecialCategory;
 use crate::priors::MatchedBy;
 use crate::stats::{homogeneity, kl_bits};
 
@@ -114,6 +115,28 @@ impl Evidence {
     }
 }
 
+/// An item whose name falls into special categories of personal data (GDPR Article
+/// 9(1)), whether or not it says anything about a protected attribute.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct SpecialFlag {
+    /// Index into the footprint's items.
+    pub item: usize,
+    pub categories: Vec<SpecialCategory>,
+    /// The words that put it there.
+    pub terms: Vec<String>,
+}
+
+/// How much is known about the friends: the share of them whose attributes the
+/// archive (or the user's friends file) gives, per priors attribute.
+#[derive(Debug, Clone, Default, PartialEq, Serialize)]
+pub struct FriendStats {
+    pub total: usize,
+    /// Friends with a readable value, per priors attribute (same order).
+    pub known: Vec<usize>,
+    /// Friends with a value that matches none of the attribute's values, per attribute.
+    pub unreadable: Vec<usize>,
+}
+
 /// All evidence for one footprint, indexed by subject.
 #[derive(Debug, Clone, Default)]
 pub struct EvidenceSet {
@@ -122,14 +145,21 @@ pub struct EvidenceSet {
     pub n_items: usize,
     /// Items that matched a reference item.
     pub matched_items: usize,
+    /// Items in special categories of personal data (from the vocabulary).
+    pub special: Vec<SpecialFlag>,
+    /// What is known about the friends, when the friends source ran.
+    pub friends: Option<FriendStats>,
+    /// The "now" ages were computed for (Unix seconds), when the life-stage source ran.
+    pub reference_time: Option<i64>,
+    /// The sources that ran.
+    pub sources: Vec<super::sources::SourceKind>,
 }
 
 impl EvidenceSet {
     pub fn new(n_items: usize) -> Self {
         EvidenceSet {
-            list: Vec::new(),
             n_items,
-            matched_items: 0,
+            ..EvidenceSet::default()
         }
     }
 

@@ -12,6 +12,10 @@ use crate::infer::Exposure;
 use crate::priors::Priors;
 use crate::reading::{attribute_sentence, level};
 
+use super::sources::{
+    FriendsReport, SourceReport, SpecialReport, friends_report, source_reports, special_report,
+};
+
 /// The report format version.
 pub const REPORT_FORMAT: u32 = 1;
 
@@ -24,9 +28,18 @@ pub struct ScanReport {
     pub attributes: Vec<AttributeReport>,
     /// Item × attribute rows, most revealing for this person first.
     pub items: Vec<ItemReport>,
-    /// Your items that carry no evidence (not in the reference statistics): telltale
+    /// Your items that carry no evidence (no source recognises them): telltale
     /// cannot judge them.
     pub unmatched: Vec<UnmatchedItem>,
+    /// The evidence sources that ran, with provenance and what each found.
+    pub sources: Vec<SourceReport>,
+    /// Items in special categories of personal data (GDPR Article 9(1)).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub special_categories: Option<SpecialReport>,
+    /// What is known about the friends (counts only, never names) and what making the
+    /// friend list private would change.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub friends: Option<FriendsReport>,
     pub warnings: Vec<String>,
     pub cautions: Vec<String>,
 }
@@ -277,6 +290,9 @@ pub fn build(
         attributes,
         items,
         unmatched,
+        sources: source_reports(&exposure.evidence().sources, footprint, priors, exposure),
+        special_categories: special_report(footprint, exposure),
+        friends: friends_report(priors, exposure),
         warnings,
         cautions: CAUTIONS.iter().map(|s| s.to_string()).collect(),
     }

@@ -101,9 +101,9 @@ pub fn write_markdown(r: &ScanReport, top: usize, out: &mut dyn Write) -> io::Re
     } else {
         writeln!(
             out,
-            "| # | Item | Kind | Points to | Bits | Homogeneity | Adds (bits) | If hidden |"
+            "| # | Item | Kind | Points to | Bits | Homogeneity | Adds (bits) | If hidden | Source |"
         )?;
-        writeln!(out, "|---:|---|---|---|---:|---:|---:|---:|")?;
+        writeln!(out, "|---:|---|---|---|---:|---:|---:|---:|---|")?;
         for (n, i) in shown.iter().enumerate() {
             let attr_label = r
                 .attributes
@@ -113,7 +113,7 @@ pub fn write_markdown(r: &ScanReport, top: usize, out: &mut dyn Write) -> io::Re
                 .unwrap_or(&i.attribute);
             writeln!(
                 out,
-                "| {} | {} | {} | {}: {} | {:.2} | {:.2} | {:+.2} | −{} |",
+                "| {} | {} | {} | {}: {} | {:.2} | {:.2} | {:+.2} | −{} | {} |",
                 n + 1,
                 esc(&i.name),
                 i.kind,
@@ -122,7 +122,8 @@ pub fn write_markdown(r: &ScanReport, top: usize, out: &mut dyn Write) -> io::Re
                 i.bits,
                 i.homogeneity,
                 i.contribution_bits,
-                percent(i.if_hidden_drop.max(0.0))
+                percent(i.if_hidden_drop.max(0.0)),
+                esc(&i.source_detail)
             )?;
         }
         writeln!(
@@ -137,10 +138,14 @@ pub fn write_markdown(r: &ScanReport, top: usize, out: &mut dyn Write) -> io::Re
     if !r.unmatched.is_empty() {
         writeln!(
             out,
-            "{} of your items are not in the reference statistics, so telltale cannot judge them.\n",
+            "{} of your items are recognised by any evidence source, so telltale cannot judge them.\n",
             r.unmatched.len()
         )?;
     }
+    write_sources(r, out)?;
+    write_special(r, out)?;
+    write_friends(r, out)?;
+
     if !r.warnings.is_empty() {
         writeln!(out, "## Warnings\n")?;
         for w in &r.warnings {
@@ -152,5 +157,122 @@ pub fn write_markdown(r: &ScanReport, top: usize, out: &mut dyn Write) -> io::Re
     for c in &r.cautions {
         writeln!(out, "- {}", esc(c))?;
     }
+    Ok(())
+}
+
+fn write_sources(r: &ScanReport, out: &mut dyn Write) -> io::Result<()> {
+    if r.sources.is_empty() {
+        return Ok(());
+    }
+    writeln!(out, "## Evidence sources\n")?;
+    writeln!(
+        out,
+        "| Source | Pieces | Items | Bits toward the guesses | Provenance |"
+    )?;
+    writeln!(out, "|---|---:|---:|---:|---|")?;
+    for s in &r.sources {
+        writeln!(
+            out,
+            "| {} | {} | {} | {:+.2} | {} |",
+            esc(&s.label),
+            s.pieces,
+            if s.id == "friends" {
+                "friend list".to_string()
+            } else {
+                s.subjects.to_string()
+            },
+            s.bits_toward_guesses,
+            esc(&s.provenance)
+        )?;
+    }
+    writeln!(out)?;
+    for s in &r.sources {
+        for n in &s.notes {
+            writeln!(out, "- **{}:** {}", esc(&s.label), esc(n))?;
+        }
+    }
+    writeln!(out)?;
+    Ok(())
+}
+
+fn write_special(r: &ScanReport, out: &mut dyn Write) -> io::Result<()> {
+    let Some(sp) = &r.special_categories else {
+        return Ok(());
+    };
+    writeln!(
+        out,
+        "## Special categories of personal data (GDPR Article 9)\n"
+    )?;
+    for c in &sp.counts {
+        writeln!(out, "- {}: {} item(s)", esc(&c.category), c.items)?;
+    }
+    writeln!(out, "\n| Item | Kind | Categories | Words |")?;
+    writeln!(out, "|---|---|---|---|")?;
+    for i in &sp.items {
+        writeln!(
+            out,
+            "| {} | {} | {} | {} |",
+            esc(&i.name),
+            i.kind,
+            esc(&i.categories.join(", ")),
+            esc(&i.terms.join(", "))
+        )?;
+    }
+    writeln!(
+        out,
+        "\nThese items touch data the law treats with special care, whether or not they change a guess above.\n"
+    )?;
+    Ok(())
+}
+
+fn write_friends(r: &ScanReport, out: &mut dyn Write) -> io::Result<()> {
+    let Some(f) = &r.friends else {
+        return Ok(());
+    };
+    let label = |id: &str| {
+        r.attributes
+            .iter()
+            .find(|a| a.id == id)
+            .map(|a| a.label.clone())
+            .unwrap_or_else(|| id.to_string())
+    };
+    let value = |attr: &str, v: &str| {
+        r.attributes
+            .iter()
+            .find(|a| a.id == attr)
+            .and_then(|a| a.distribution.iter().find(|d| d.id == v))
+            .map(|d| d.label.clone())
+            .unwrap_or_else(|| v.to_string())
+    };
+    writeln!(out, "## Friends\n")?;
+    writeln!(
+        out,
+        "{} friends (names are never shown). {}\n",
+        f.total,
+        if f.hidden {
+            "The friend list is treated as private; the last columns show it visible again."
+        } else {
+            "The last columns show the guesses with the friend list private."
+        }
+    )?;
+    writeln!(
+        out,
+        "| Attribute | Friends known | Best guess now | If toggled |"
+    )?;
+    writeln!(out, "|---|---:|---|---|")?;
+    for a in &f.attributes {
+        writeln!(
+            out,
+            "| {} | {} ({}) | {} {} | {} {} |",
+            esc(&label(&a.attribute)),
+            a.known,
+            percent(a.share_known),
+            esc(&value(&a.attribute, &a.best_guess)),
+            percent(a.probability),
+            esc(&value(&a.attribute, &a.best_guess_if_toggled)),
+            percent(a.probability_if_toggled)
+        )?;
+    }
+    writeln!(out)?;
     Ok(())
 }

@@ -5,6 +5,7 @@
 
 mod build;
 mod markdown;
+mod sources;
 mod text;
 
 pub use build::{
@@ -12,6 +13,10 @@ pub use build::{
     ValueShare, build,
 };
 pub use markdown::write_markdown;
+pub use sources::{
+    FriendAttributeReport, FriendsReport, SourceReport, SpecialCategoryCount, SpecialItemReport,
+    SpecialReport,
+};
 pub use text::{TextOptions, write_text};
 
 /// Write the JSON document (pretty-printed, newline-terminated).

@@ -218,19 +218,29 @@ pub fn write_text(r: &ScanReport, opts: TextOptions, out: &mut dyn Write) -> io:
                 i.homogeneity,
                 i.contribution_bits
             )?;
+            if i.source != "priors" {
+                writeln!(
+                    out,
+                    "{}",
+                    p.dim(&format!(
+                        "      ↳ {}",
+                        truncate_to_width(&i.source_detail, 72)
+                    ))
+                )?;
+            }
         }
         writeln!(
             out,
             "{}",
             p.dim(
-                "  Bits: how far the item's members differ from everyone (KL divergence).\n  Homog.: 0 = members as mixed as the population, 1 = all alike.\n  Adds: bits this item adds to the observer's best guess about you."
+                "  Bits: how far the item's members differ from everyone (KL divergence).\n  Homog.: 0 = members as mixed as the population, 1 = all alike.\n  Adds: bits this item adds to the observer's best guess about you.\n  ↳ evidence from a word list or from friends rather than the reference table."
             )
         )?;
     }
     if !r.unmatched.is_empty() {
         writeln!(
             out,
-            "  {} of your items are not in the reference statistics, so telltale cannot judge them{}.",
+            "  {} of your items are recognised by any evidence source, so telltale cannot judge them{}.",
             r.unmatched.len(),
             if r.unmatched.len() <= 3 {
                 format!(
@@ -247,6 +257,10 @@ pub fn write_text(r: &ScanReport, opts: TextOptions, out: &mut dyn Write) -> io:
         )?;
     }
     writeln!(out)?;
+
+    write_sources(r, &p, out)?;
+    write_special(r, &p, opts.top, out)?;
+    write_friends(r, &p, out)?;
 
     if !r.warnings.is_empty() {
         writeln!(
@@ -271,6 +285,147 @@ pub fn write_text(r: &ScanReport, opts: TextOptions, out: &mut dyn Write) -> io:
     for c in &r.cautions {
         writeln!(out, "{}", wrap_words(c, 76, "  "))?;
     }
+    Ok(())
+}
+
+fn write_sources(r: &ScanReport, p: &Paint, out: &mut dyn Write) -> io::Result<()> {
+    if r.sources.is_empty() {
+        return Ok(());
+    }
+    writeln!(out, "{}", p.bold("EVIDENCE SOURCES"))?;
+    for s in &r.sources {
+        let on = if s.id == "friends" {
+            "the friend list".to_string()
+        } else {
+            format!("{} item(s)", s.subjects)
+        };
+        writeln!(
+            out,
+            "  {} {:>4} piece(s) on {}, {:+.1} bits toward the guesses",
+            pad_to_width(&s.label, 22),
+            s.pieces,
+            on,
+            s.bits_toward_guesses
+        )?;
+        writeln!(out, "{}", p.dim(&wrap_words(&s.provenance, 72, "    ")))?;
+        for n in &s.notes {
+            writeln!(out, "{}", wrap_words(&format!("- {n}"), 72, "    "))?;
+        }
+    }
+    writeln!(out)?;
+    Ok(())
+}
+
+fn write_special(r: &ScanReport, p: &Paint, top: usize, out: &mut dyn Write) -> io::Result<()> {
+    let Some(sp) = &r.special_categories else {
+        return Ok(());
+    };
+    writeln!(
+        out,
+        "{}",
+        p.bold("SPECIAL CATEGORIES OF PERSONAL DATA (GDPR ARTICLE 9)")
+    )?;
+    let counts: Vec<String> = sp
+        .counts
+        .iter()
+        .map(|c| format!("{} {}", c.category, c.items))
+        .collect();
+    writeln!(out, "{}", wrap_words(&counts.join(" · "), 74, "  "))?;
+    for i in sp.items.iter().take(top) {
+        writeln!(out, "  - {} ({})", truncate_to_width(&i.name, 60), i.kind)?;
+        writeln!(
+            out,
+            "{}",
+            p.dim(&format!(
+                "      {}",
+                truncate_to_width(
+                    &format!("{}: {}", i.categories.join(", "), i.terms.join(", ")),
+                    70
+                )
+            ))
+        )?;
+    }
+    if sp.items.len() > top {
+        writeln!(
+            out,
+            "  … {} more (use --format json for all)",
+            sp.items.len() - top
+        )?;
+    }
+    writeln!(
+        out,
+        "{}",
+        p.dim(&wrap_words(
+            "These items touch data the law treats with special care, whether or not they change a guess above.",
+            74,
+            "  "
+        ))
+    )?;
+    writeln!(out)?;
+    Ok(())
+}
+
+fn write_friends(r: &ScanReport, p: &Paint, out: &mut dyn Write) -> io::Result<()> {
+    let Some(f) = &r.friends else {
+        return Ok(());
+    };
+    writeln!(out, "{}", p.bold("FRIENDS"))?;
+    let label = |id: &str| -> (String, Option<&super::build::AttributeReport>) {
+        let a = r.attributes.iter().find(|a| a.id == id);
+        (a.map(|a| a.label.clone()).unwrap_or_else(|| id.into()), a)
+    };
+    let value = |a: Option<&super::build::AttributeReport>, v: &str| -> String {
+        a.and_then(|a| a.distribution.iter().find(|d| d.id == v))
+            .map(|d| d.label.clone())
+            .unwrap_or_else(|| v.into())
+    };
+    let known: Vec<String> = f
+        .attributes
+        .iter()
+        .map(|a| {
+            format!(
+                "{} {} ({})",
+                label(&a.attribute).0.to_lowercase(),
+                a.known,
+                percent(a.share_known)
+            )
+        })
+        .collect();
+    writeln!(
+        out,
+        "{}",
+        wrap_words(
+            &format!(
+                "{} friends; attributes known: {}.",
+                f.total,
+                known.join(", ")
+            ),
+            74,
+            "  "
+        )
+    )?;
+    writeln!(
+        out,
+        "  {}",
+        if f.hidden {
+            "Your friend list is treated as private. If you showed it again:"
+        } else {
+            "If you made your friend list private:"
+        }
+    )?;
+    for a in &f.attributes {
+        let (name, attr) = label(&a.attribute);
+        writeln!(
+            out,
+            "    {} {} {} → {} {}",
+            pad_to_width(&name, 18),
+            pad_to_width(&value(attr, &a.best_guess), 16),
+            percent(a.probability),
+            value(attr, &a.best_guess_if_toggled),
+            percent(a.probability_if_toggled)
+        )?;
+    }
+    writeln!(out)?;
     Ok(())
 }
 

@@ -83,7 +83,7 @@ fn held_out_sums(
 ) -> Vec<Vec<Vec<f64>>> {
     let all: Vec<u32> = (0..catalogue.len() as u32).collect();
     let fp = member_footprint(catalogue, &all);
-    let ev = evidence::gather(&fp, priors);
+    let ev = evidence::gather(&fp, priors, &evidence::Sources::table_only());
     let n_attr = priors.attributes.len();
     let mut per_item: Vec<Vec<Option<&[f64]>>> = vec![vec![None; n_attr]; catalogue.len()];
     for e in &ev.list {

@@ -1,0 +1,24 @@
+//! Lexicons: the reference word lists evidence sources read item names with. A
+//! gazetteer of places (GeoNames, CC BY 4.0), life-stage rules (ages at graduation,
+//! parenthood, retirement …) and belief and special-category vocabulary, all data
+//! files in reference-priors/lexicons/ compiled into the binary and documented in
+//! docs/evidence.md, plus the phrase matcher they share.
+
+mod bundled;
+mod error;
+mod gazetteer;
+mod life_stages;
+mod phrase;
+mod special;
+mod vocabulary;
+
+pub use bundled::{
+    gazetteer as bundled_gazetteer, life_stages as bundled_life_stages,
+    vocabulary as bundled_vocabulary,
+};
+pub use error::{Error, Result};
+pub use gazetteer::{Candidate, City, Country, Gazetteer, Mention, PlaceRef, Region};
+pub use life_stages::{LifeStages, Rule, Stage, StageMatch};
+pub use phrase::{Hit, Pattern, PhraseIndex, YearToken, is_unspaced, tokens};
+pub use special::SpecialCategory;
+pub use vocabulary::{Term, TermMatch, Vocabulary};

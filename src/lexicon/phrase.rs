@@ -1,0 +1,402 @@
+//! Phrase matching over item names. Names and patterns are both reduced to the tokens
+//! of their name key ([`crate::text::name_key`]: case, diacritics, punctuation and
+//! compatibility forms folded), so "Café-Society" and "cafe society" are the same two
+//! tokens. A pattern is a run of tokens; its last token may end in `*` (a prefix:
+//! `atheis*` matches "atheist", "atheists", "atheism"), and a `{year}` token matches a
+//! year written with four digits (or two, as in "class of 04"). Words in scripts
+//! written without spaces (Chinese, Japanese, Thai …) are also looked for inside a
+//! token. Among overlapping matches the longest wins, so "new york city" is not also
+//! read as "york".
+
+use std::collections::HashMap;
+
+use crate::text::name_key;
+
+/// The tokens of a name key.
+pub fn tokens(s: &str) -> Vec<String> {
+    name_key(s)
+        .split(' ')
+        .filter(|t| !t.is_empty())
+        .map(str::to_string)
+        .collect()
+}
+
+/// Characters of scripts usually written without spaces between words.
+pub fn is_unspaced(c: char) -> bool {
+    matches!(c as u32,
+        0x0E00..=0x0EFF      // Thai, Lao
+        | 0x1000..=0x109F    // Myanmar
+        | 0x1780..=0x17FF    // Khmer
+        | 0x3040..=0x30FF    // Hiragana, Katakana
+        | 0x3400..=0x4DBF    // CJK extension A
+        | 0x4E00..=0x9FFF    // CJK unified ideographs
+        | 0xF900..=0xFAFF    // CJK compatibility ideographs
+        | 0x20000..=0x2FFFF) // CJK extensions B–F
+}
+
+/// A year found by a `{year}` slot: its value as written and how many digits it had.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub struct YearToken {
+    pub value: i32,
+    pub digits: u8,
+}
+
+#[derive(Debug, Clone, PartialEq, Eq)]
+enum Part {
+    Word(String),
+    Prefix(String),
+    Year,
+}
+
+/// One pattern, parsed.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct Pattern {
+    parts: Vec<Part>,
+    /// The pattern as written, for messages and reports.
+    pub text: String,
+}
+
+impl Pattern {
+    /// Parse a pattern; `None` when it has no tokens.
+    pub fn parse(text: &str) -> Option<Pattern> {
+        let mut parts = Vec::new();
+        for raw in text.split_whitespace() {
+            if raw == "{year}" {
+                parts.push(Part::Year);
+                continue;
+            }
+            let prefix = raw.ends_with('*');
+            let toks = tokens(raw.trim_end_matches('*'));
+            let n = toks.len();
+            for (i, t) in toks.into_iter().enumerate() {
+                if prefix && i + 1 == n {
+                    parts.push(Part::Prefix(t));
+                } else {
+                    parts.push(Part::Word(t));
+                }
+            }
+        }
+        if parts.is_empty() {
+            return None;
+        }
+        Some(Pattern {
+            parts,
+            text: text.trim().to_string(),
+        })
+    }
+
+    fn is_plain(&self) -> bool {
+        self.parts.iter().all(|p| matches!(p, Part::Word(_)))
+    }
+
+    fn key(&self) -> String {
+        self.parts
+            .iter()
+            .filter_map(|p| match p {
+                Part::Word(w) => Some(w.as_str()),
+                _ => None,
+            })
+            .collect::<Vec<_>>()
+            .join(" ")
+    }
+
+    fn len(&self) -> usize {
+        self.parts.len()
+    }
+
+    /// Match at token `start`: the year, if the pattern has a slot.
+    fn match_at(&self, toks: &[String], start: usize) -> Option<Option<YearToken>> {
+        if start + self.parts.len() > toks.len() {
+            return None;
+        }
+        let mut year = None;
+        for (part, tok) in self.parts.iter().zip(&toks[start..]) {
+            match part {
+                Part::Word(w) if w == tok => {}
+                Part::Prefix(p) if tok.starts_with(p.as_str()) => {}
+                Part::Year => year = Some(parse_year(tok)?),
+                _ => return None,
+            }
+        }
+        Some(year)
+    }
+}
+
+fn parse_year(tok: &str) -> Option<YearToken> {
+    if !(tok.len() == 4 || tok.len() == 2) || !tok.bytes().all(|b| b.is_ascii_digit()) {
+        return None;
+    }
+    let value: i32 = tok.parse().ok()?;
+    if tok.len() == 4 && !(1900..=2100).contains(&value) {
+        return None;
+    }
+    Some(YearToken {
+        value,
+        digits: tok.len() as u8,
+    })
+}
+
+/// A match in a name: tokens `start..end`, the values the pattern carries, and the
+/// year its slot read.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Hit<'a, T> {
+    pub start: usize,
+    pub end: usize,
+    /// Character offset inside the token, for matches inside unspaced script.
+    pub offset: usize,
+    /// The matched text (tokens of the name key, joined by spaces).
+    pub text: String,
+    pub values: &'a [T],
+    pub year: Option<YearToken>,
+}
+
+/// Patterns with values attached, indexed for matching names.
+#[derive(Debug, Clone)]
+pub struct PhraseIndex<T> {
+    exact: HashMap<String, Vec<T>>,
+    other: Vec<(Pattern, Vec<T>)>,
+    max_tokens: usize,
+    /// Longest key (in characters) among keys made of unspaced script.
+    max_unspaced_chars: usize,
+}
+
+impl<T> Default for PhraseIndex<T> {
+    fn default() -> Self {
+        PhraseIndex {
+            exact: HashMap::new(),
+            other: Vec::new(),
+            max_tokens: 0,
+            max_unspaced_chars: 0,
+        }
+    }
+}
+
+impl<T> PhraseIndex<T> {
+    pub fn new() -> Self {
+        Self::default()
+    }
+
+    /// Number of distinct keys and patterns.
+    pub fn len(&self) -> usize {
+        self.exact.len() + self.other.len()
+    }
+
+    pub fn is_empty(&self) -> bool {
+        self.len() == 0
+    }
+
+    /// Add a pattern with a value.
+    pub fn insert(&mut self, pattern: &Pattern, value: T) {
+        self.max_tokens = self.max_tokens.max(pattern.len());
+        if pattern.is_plain() {
+            let key = pattern.key();
+            if key.chars().any(is_unspaced) {
+                self.max_unspaced_chars = self.max_unspaced_chars.max(key.chars().count());
+            }
+            self.exact.entry(key).or_default().push(value);
+        } else if let Some((_, values)) = self.other.iter_mut().find(|(p, _)| p == pattern) {
+            values.push(value);
+        } else {
+            self.other.push((pattern.clone(), vec![value]));
+        }
+    }
+
+    /// Add a plain phrase given as its key (tokens joined by single spaces), the fast
+    /// path for large lists such as the gazetteer.
+    pub fn insert_key(&mut self, key: String, value: T) {
+        if key.is_empty() {
+            return;
+        }
+        self.max_tokens = self.max_tokens.max(key.split(' ').count());
+        if key.chars().any(is_unspaced) {
+            self.max_unspaced_chars = self.max_unspaced_chars.max(key.chars().count());
+        }
+        self.exact.entry(key).or_default().push(value);
+    }
+
+    /// Values stored under an exact key (tokens joined by single spaces).
+    pub fn get(&self, key: &str) -> &[T] {
+        self.exact.get(key).map(Vec::as_slice).unwrap_or(&[])
+    }
+
+    /// Every non-overlapping match in a name, longest first, then leftmost; returned in
+    /// reading order.
+    pub fn find(&self, name: &str) -> Vec<Hit<'_, T>> {
+        self.find_tokens(&tokens(name))
+    }
+
+    /// As [`PhraseIndex::find`], on tokens already made.
+    pub fn find_tokens(&self, toks: &[String]) -> Vec<Hit<'_, T>> {
+        let mut hits: Vec<Hit<'_, T>> = Vec::new();
+        for start in 0..toks.len() {
+            let longest = self.max_tokens.min(toks.len() - start);
+            for n in (1..=longest).rev() {
+                let key = toks[start..start + n].join(" ");
+                if let Some(values) = self.exact.get(&key) {
+                    hits.push(Hit {
+                        start,
+                        end: start + n,
+                        offset: 0,
+                        text: key,
+                        values,
+                        year: None,
+                    });
+                }
+            }
+            for (pattern, values) in &self.other {
+                if let Some(year) = pattern.match_at(toks, start) {
+                    let end = start + pattern.len();
+                    hits.push(Hit {
+                        start,
+                        end,
+                        offset: 0,
+                        text: toks[start..end].join(" "),
+                        values,
+                        year,
+                    });
+                }
+            }
+        }
+        if self.max_unspaced_chars > 0 {
+            for (i, tok) in toks.iter().enumerate() {
+                if tok.chars().any(is_unspaced) {
+                    self.find_inside(tok, i, &mut hits);
+                }
+            }
+        }
+        select_longest(hits)
+    }
+
+    /// Look for keys of unspaced script inside one token (every substring of up to
+    /// the longest key's length that is not the whole token, which was looked up
+    /// already).
+    fn find_inside<'a>(&'a self, tok: &str, index: usize, hits: &mut Vec<Hit<'a, T>>) {
+        let chars: Vec<char> = tok.chars().collect();
+        let mut from = 0;
+        while from < chars.len() {
+            let longest = self.max_unspaced_chars.min(chars.len() - from);
+            let mut step = 1;
+            for n in (2..=longest).rev() {
+                if n == chars.len() {
+                    continue;
+                }
+                let sub: String = chars[from..from + n].iter().collect();
+                if !sub.chars().any(is_unspaced) {
+                    continue;
+                }
+                if let Some(values) = self.exact.get(&sub) {
+                    hits.push(Hit {
+                        start: index,
+                        end: index + 1,
+                        offset: from,
+                        text: sub,
+                        values,
+                        year: None,
+                    });
+                    step = n;
+                    break;
+                }
+            }
+            from += step;
+        }
+    }
+}
+
+/// Keep the longest of overlapping hits (then the leftmost); hits inside one token of
+/// unspaced script may sit side by side.
+fn select_longest<T>(mut hits: Vec<Hit<'_, T>>) -> Vec<Hit<'_, T>> {
+    hits.sort_by(|a, b| {
+        (b.end - b.start)
+            .cmp(&(a.end - a.start))
+            .then(b.text.chars().count().cmp(&a.text.chars().count()))
+            .then(a.start.cmp(&b.start))
+    });
+    let mut kept: Vec<Hit<'_, T>> = Vec::new();
+    for h in hits {
+        let overlaps = kept.iter().any(|k| {
+            let same_token_inside = k.end - k.start == 1
+                && h.end - h.start == 1
+                && k.start == h.start
+                && !k.text.contains(&h.text)
+                && !h.text.contains(&k.text);
+            h.start < k.end && k.start < h.end && !same_token_inside
+        });
+        if !overlaps {
+            kept.push(h);
+        }
+    }
+    kept.sort_by_key(|h| (h.start, h.offset));
+    kept
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn index(patterns: &[(&str, u32)]) -> PhraseIndex<u32> {
+        let mut ix = PhraseIndex::new();
+        for (p, v) in patterns {
+            ix.insert(&Pattern::parse(p).unwrap(), *v);
+        }
+        ix
+    }
+
+    #[test]
+    fn longest_match_wins_and_keys_fold() {
+        let ix = index(&[
+            ("new york", 1),
+            ("new york city", 2),
+            ("york", 3),
+            ("café", 4),
+        ]);
+        let hits = ix.find("NEW-YORK City Cafe Lovers");
+        let found: Vec<(&str, u32)> = hits
+            .iter()
+            .map(|h| (h.text.as_str(), h.values[0]))
+            .collect();
+        assert_eq!(found, vec![("new york city", 2), ("cafe", 4)]);
+        let hits = ix.find("Old York and New York");
+        let found: Vec<u32> = hits.iter().map(|h| h.values[0]).collect();
+        assert_eq!(found, vec![3, 1]);
+    }
+
+    #[test]
+    fn prefixes_and_years() {
+        let ix = index(&[
+            ("atheis*", 1),
+            ("class of {year}", 2),
+            ("{year} reunion", 3),
+        ]);
+        let hits = ix.find("Atheists United");
+        assert_eq!(hits.len(), 1);
+        assert_eq!(hits[0].text, "atheists");
+        let hits = ix.find("Class of 2004 Reunion");
+        assert_eq!(hits.len(), 1, "{hits:?}");
+        assert_eq!(hits[0].values[0], 2);
+        assert_eq!(
+            hits[0].year,
+            Some(YearToken {
+                value: 2004,
+                digits: 4
+            })
+        );
+        // "Class of '04": the apostrophe folds away, two digits remain.
+        let hits = ix.find("Class of '04");
+        assert_eq!(hits[0].year.unwrap().digits, 2);
+        assert!(ix.find("Class of 1850").is_empty());
+        assert!(ix.find("Class of 20045").is_empty());
+    }
+
+    #[test]
+    fn unspaced_scripts_are_searched_inside_tokens() {
+        let ix = index(&[("東京", 1), ("清真寺", 2)]);
+        let hits = ix.find("東京ラーメン部");
+        assert_eq!(hits.len(), 1);
+        assert_eq!(hits[0].values[0], 1);
+        let hits = ix.find("東京清真寺");
+        let found: Vec<u32> = hits.iter().map(|h| h.values[0]).collect();
+        assert_eq!(found, vec![1, 2]);
+        // Whole-token matches still work.
+        assert_eq!(ix.find("東京 Ramen Walks")[0].values[0], 1);
+    }
+}
