@@ -11,6 +11,7 @@ pub mod archive;
 pub mod calibration;
 pub mod cautions;
 pub mod cohort;
+pub mod eval;
 pub mod evidence;
 pub mod footprint;
 #[doc(hidden)]

@@ -2,7 +2,10 @@
 //! its own file and calls the library; nothing here computes.
 
 mod args;
+mod cohort;
+mod eval;
 mod output;
+mod priors;
 mod scan;
 mod synth;
 
@@ -20,6 +23,8 @@ pub fn main() -> ExitCode {
     let result = match cli.command {
         Some(Command::Scan(args)) => scan::run(&args),
         Some(Command::Synth(cmd)) => synth::run(cmd),
+        Some(Command::Priors(cmd)) => priors::run(cmd),
+        Some(Command::Eval(args)) => eval::run(&args),
         None => match cli.archive {
             Some(archive) => scan::run_default(archive, cli.input),
             None => {

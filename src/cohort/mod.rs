@@ -15,5 +15,5 @@ mod release;
 
 pub use counts::{Counts, bound_contributions, count};
 pub use error::{Error, Result};
-pub use load::{Cohort, Member, Schema, load_cohort};
+pub use load::{Cohort, Member, Schema, list_archives, load_cohort, read_member};
 pub use release::{BuildParams, Built, Table, build_file, exact_table, noisy_table};
