@@ -113,7 +113,7 @@ fn train(
             .map(AttrModel::from_attribute)
             .collect(),
         naive: with_lambda(&priors, |_| 1.0),
-        temperature: with_lambda(&priors, |c| crate::calibration::lambda(c)),
+        temperature: with_lambda(&priors, crate::calibration::lambda),
         majority: priors
             .attributes
             .iter()
@@ -366,7 +366,7 @@ pub fn parse_shares(spec: &str) -> std::result::Result<Vec<f64>, String> {
             None => (rest, 0.1),
         };
         let (from, to) = (num(from)?, num(to)?);
-        if !(step > 0.0) || to < from {
+        if step.is_nan() || step <= 0.0 || to < from {
             return Err(format!(
                 "'{spec}' is not an increasing range with a positive step"
             ));
@@ -377,4 +377,24 @@ pub fn parse_shares(spec: &str) -> std::result::Result<Vec<f64>, String> {
             .collect());
     }
     spec.split(',').map(num).collect()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::parse_shares;
+
+    #[test]
+    fn shares_parse() {
+        assert_eq!(parse_shares("0.5").unwrap(), vec![0.5]);
+        assert_eq!(parse_shares("0.1,0.9").unwrap(), vec![0.1, 0.9]);
+        assert_eq!(
+            parse_shares("0.1..0.5").unwrap(),
+            vec![0.1, 0.2, 0.3, 0.4, 0.5]
+        );
+        assert_eq!(parse_shares("0.1..0.9:0.4").unwrap(), vec![0.1, 0.5, 0.9]);
+        assert!(parse_shares("0..0.5").is_err());
+        assert!(parse_shares("0.5..0.1").is_err());
+        assert!(parse_shares("x").is_err());
+        assert!(parse_shares("1.5").is_err());
+    }
 }
