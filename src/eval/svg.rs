@@ -188,10 +188,10 @@ pub fn share_lines(r: &EvalReport) -> String {
 pub fn reliability(a: &AttrEval) -> String {
     let f = Frame {
         w: 320.0,
-        h: 300.0,
+        h: 316.0,
         left: 48.0,
         right: 12.0,
-        top: 30.0,
+        top: 46.0,
         bottom: 40.0,
     };
     let mut out = String::new();
@@ -203,7 +203,13 @@ pub fn reliability(a: &AttrEval) -> String {
             a.label
         ),
     );
-    legend(&mut out, &f, &["before", "after"]);
+    legend(&mut out, &f, &["before calibration", "after"]);
+    let _ = write!(
+        out,
+        r#"<text x="{x:.1}" y="36" font-weight="bold">{l}</text>"#,
+        x = f.left,
+        l = escape(&a.label)
+    );
     let _ = write!(
         out,
         r##"<line x1="{:.1}" y1="{:.1}" x2="{:.1}" y2="{:.1}" stroke="#999999" stroke-dasharray="4 3"/>"##,
