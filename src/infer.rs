@@ -1,6 +1,7 @@
 //! Inference: what an observer would conclude from the visible evidence. For each
 //! attribute, `log P(v|S) = log π(v) + λ·Σ_{i∈S} log L_i(v) − log Z` (naive Bayes with
-//! a calibration temperature λ from the priors file). [`Exposure`] keeps the per-value
+//! a calibration temperature λ from the priors file), optionally followed by a fitted
+//! logistic calibration of the best guess ([`crate::calibration`]). [`Exposure`] keeps the per-value
 //! sums of visible evidence, so hiding or showing one item updates every posterior in
 //! time proportional to that item's evidence, not to the footprint.
 
@@ -35,14 +36,7 @@ impl AttrModel {
 
     /// The posterior given the summed log-likelihood ratios of the visible evidence.
     pub fn posterior(&self, sum: &[f64]) -> Posterior {
-        let logits: Vec<f64> = match &self.calibration {
-            Calibration::Temperature { lambda } => self
-                .log_base
-                .iter()
-                .zip(sum)
-                .map(|(b, s)| b + lambda * s)
-                .collect(),
-        };
+        let logits = crate::calibration::logits(&self.calibration, &self.log_base, sum);
         let probs = softmax(&logits);
         let (best, probability) = argmax(&probs);
         Posterior {
@@ -54,9 +48,7 @@ impl AttrModel {
 
     /// The weight one unit of log-likelihood ratio gets (λ for the temperature model).
     pub fn weight(&self) -> f64 {
-        match &self.calibration {
-            Calibration::Temperature { lambda } => *lambda,
-        }
+        crate::calibration::lambda(&self.calibration)
     }
 }
 

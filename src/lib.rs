@@ -8,7 +8,10 @@
 //! [`priors`] and other sources) → [`infer`] → [`report`].
 
 pub mod archive;
+pub mod calibration;
 pub mod cautions;
+pub mod cohort;
+pub mod eval;
 pub mod evidence;
 pub mod footprint;
 #[doc(hidden)]

@@ -29,6 +29,11 @@ pub enum Command {
     /// Generate fictional data: the demo priors and persona archives.
     #[command(subcommand)]
     Synth(SynthCommand),
+    /// Build reference priors from a consenting group's archives.
+    #[command(subcommand)]
+    Priors(PriorsCommand),
+    /// Measure how well the observer model guesses a labelled cohort's attributes.
+    Eval(EvalArgs),
 }
 
 #[derive(Debug, Subcommand)]
@@ -36,6 +41,118 @@ pub enum SynthCommand {
     /// Regenerate the bundled demo: reference priors and persona archives of the
     /// fictional Lanternwick network (reproducible from the seed).
     Demo(SynthDemoArgs),
+    /// Write a cohort of invented members' archives (layout A, with their declared
+    /// attributes) and the mapping beside them, for `priors build` and `eval`.
+    Cohort(SynthCohortArgs),
+}
+
+#[derive(Debug, Args)]
+pub struct SynthCohortArgs {
+    /// How many members (archives).
+    #[arg(long, default_value_t = 500)]
+    pub members: usize,
+    /// Folder to write the archives and mapping into.
+    #[arg(long, value_name = "DIR")]
+    pub out: PathBuf,
+    /// Random seed; 7 with 1,600 items gives the demo network, whose items the bundled
+    /// demo priors list.
+    #[arg(long, default_value_t = 7)]
+    pub seed: u64,
+    /// Items in the fictional network.
+    #[arg(long, default_value_t = 1_600)]
+    pub items: usize,
+}
+
+#[derive(Debug, Subcommand)]
+pub enum PriorsCommand {
+    /// Count a cohort's memberships and write a priors file, released with the
+    /// Laplace mechanism (differential privacy).
+    Build(PriorsBuildArgs),
+}
+
+/// What a cohort is read with.
+#[derive(Debug, Args, Clone)]
+pub struct CohortArgs {
+    /// Folder holding the archives (unpacked folders or zip files), each with its
+    /// mapping inside or beside it and a `self` source for the declared attributes.
+    pub cohort: PathBuf,
+    /// Priors file giving the attributes (ids, values, labels, thresholds) and the
+    /// candidate items to count (default: the bundled demo priors).
+    #[arg(long, value_name = "FILE")]
+    pub schema: Option<PathBuf>,
+    /// Items counted per contributor at most (bounds one person's influence).
+    #[arg(long, value_name = "M", default_value_t = 50)]
+    pub max_items: usize,
+    /// Items with fewer (noisy) members than this are left out.
+    #[arg(long, value_name = "K", default_value_t = 10.0)]
+    pub min_members: f64,
+    /// Raise or lower a reading limit for every archive, e.g. --limit entries=20000.
+    #[arg(long = "limit", value_name = "NAME=VALUE")]
+    pub limits: Vec<String>,
+}
+
+#[derive(Debug, Args)]
+pub struct PriorsBuildArgs {
+    #[command(flatten)]
+    pub cohort: CohortArgs,
+    /// Privacy budget ε per contributor (smaller is more private and noisier).
+    #[arg(long)]
+    pub epsilon: f64,
+    /// Where to write the priors file (created readable by you only).
+    #[arg(long, short, value_name = "FILE", default_value = "cohort-priors.json")]
+    pub output: PathBuf,
+    /// Seed the noise, making the file reproducible. Anyone who knows the seed can
+    /// remove the noise: use only for tests and demonstrations.
+    #[arg(long)]
+    pub seed: Option<u64>,
+    /// Also fit smoothing and the logistic calibration on the cohort's declared
+    /// attributes. Those fitted numbers are not covered by ε.
+    #[arg(long)]
+    pub calibrate: bool,
+    /// Who produced the statistics (provenance).
+    #[arg(long, default_value = "telltale priors build: a consenting cohort")]
+    pub source: String,
+    /// Licence of the statistics (provenance).
+    #[arg(long, default_value = "CC-BY-4.0")]
+    pub licence: String,
+    /// Date recorded in the provenance, YYYY-MM-DD (default: today).
+    #[arg(long, value_name = "DATE")]
+    pub created: Option<String>,
+}
+
+#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub enum EvalFormat {
+    Text,
+    Json,
+    Markdown,
+    Html,
+}
+
+#[derive(Debug, Args)]
+pub struct EvalArgs {
+    #[command(flatten)]
+    pub cohort: CohortArgs,
+    /// Shares of members whose attributes are public (and feed the statistics): one
+    /// value, a list (0.1,0.5), or a range FROM..TO[:STEP] (step 0.1 by default).
+    #[arg(long, value_name = "SHARES", default_value = "0.1..0.9:0.2")]
+    pub public_share: String,
+    /// Cross-validation folds.
+    #[arg(long, default_value_t = 5)]
+    pub folds: usize,
+    /// Release each fold's statistics with the Laplace mechanism at this ε, as
+    /// `priors build` would (default: exact statistics, as an observer with full data
+    /// has).
+    #[arg(long)]
+    pub epsilon: Option<f64>,
+    /// Seed for the folds, the item choice and any noise.
+    #[arg(long, default_value_t = 1)]
+    pub seed: u64,
+    /// Report format.
+    #[arg(long, value_enum, default_value_t = EvalFormat::Text)]
+    pub format: EvalFormat,
+    /// Write the report to FILE (created readable by you only).
+    #[arg(long, short, value_name = "FILE")]
+    pub output: Option<PathBuf>,
 }
 
 #[derive(Debug, Args)]

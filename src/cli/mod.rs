@@ -2,8 +2,11 @@
 //! its own file and calls the library; nothing here computes.
 
 mod args;
+mod cohort;
+mod eval;
 mod output;
 mod plan;
+mod priors;
 mod scan;
 mod synth;
 
@@ -22,6 +25,8 @@ pub fn main() -> ExitCode {
         Some(Command::Scan(args)) => scan::run(&args),
         Some(Command::Plan(args)) => plan::run(&args),
         Some(Command::Synth(cmd)) => synth::run(cmd),
+        Some(Command::Priors(cmd)) => priors::run(cmd),
+        Some(Command::Eval(args)) => eval::run(&args),
         None => match cli.archive {
             Some(archive) => scan::run_default(archive, cli.input),
             None => {

@@ -4,12 +4,29 @@ use std::process::ExitCode;
 
 use anyhow::{Context, Result};
 use telltale::reading::percent;
+use telltale::synth::cohort::{CohortConfig, generate_cohort};
 use telltale::synth::{DemoConfig, generate_demo};
 
 use super::args::SynthCommand;
 
 pub fn run(cmd: SynthCommand) -> Result<ExitCode> {
     match cmd {
+        SynthCommand::Cohort(args) => {
+            let cfg = CohortConfig {
+                seed: args.seed,
+                members: args.members,
+                items: args.items,
+                ..CohortConfig::default()
+            };
+            let written = generate_cohort(&cfg, &args.out)
+                .with_context(|| format!("cannot write the cohort in {}", args.out.display()))?;
+            println!(
+                "Wrote {} invented member archive(s) (layout A, with declared attributes) and telltale-mapping.toml in {}.",
+                written.len(),
+                args.out.display()
+            );
+            Ok(ExitCode::SUCCESS)
+        }
         SynthCommand::Demo(args) => {
             let cfg = DemoConfig {
                 seed: args.seed,

@@ -103,6 +103,19 @@ pub enum Calibration {
     /// Naive Bayes with a temperature: `log P(v) = log π(v) + λ·Σ log L(v) − log Z`.
     /// λ < 1 tempers the overconfidence that correlated items cause.
     Temperature { lambda: f64 },
+    /// Top-label logistic calibration fitted on a labelled cohort (see
+    /// [`crate::calibration`]): the best guess's probability is
+    /// `σ(intercept + log_odds·x₁ + log_base_rate·x₂ + evidence_spread·x₃)` over the
+    /// tempered naive-Bayes log-odds x₁, the guess's log base rate x₂ and
+    /// `ln(1 + max S − min S)` x₃; other values keep their naive-Bayes proportions.
+    Logistic {
+        /// Temperature applied to summed evidence before the features are taken.
+        lambda: f64,
+        intercept: f64,
+        log_odds: f64,
+        log_base_rate: f64,
+        evidence_spread: f64,
+    },
 }
 
 impl Default for Calibration {

@@ -200,9 +200,24 @@ impl Priors {
                 ));
             }
             let calibration = spec.calibration.clone().unwrap_or_default();
-            let Calibration::Temperature { lambda } = calibration;
+            let lambda = crate::calibration::lambda(&calibration);
             if !(lambda.is_finite() && lambda > 0.0) {
                 problems.push(format!("{at}: calibration lambda must be above 0"));
+            }
+            if let Calibration::Logistic {
+                intercept,
+                log_odds,
+                log_base_rate,
+                evidence_spread,
+                ..
+            } = calibration
+                && ![intercept, log_odds, log_base_rate, evidence_spread]
+                    .iter()
+                    .all(|w| w.is_finite())
+            {
+                problems.push(format!(
+                    "{at}: logistic calibration weights must be finite numbers"
+                ));
             }
             let mut member_rates = Vec::with_capacity(spec.values.len());
             let given = spec

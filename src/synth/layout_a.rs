@@ -125,18 +125,26 @@ pub fn media_bytes(n: usize, len: usize) -> Vec<u8> {
 
 /// Write a persona's archive in layout A.
 pub fn write(p: &PersonaArchive, sink: &mut dyn ArchiveSink) -> io::Result<()> {
+    write_as(p, p.spec.name, p.spec.role, sink)
+}
+
+/// Write an archive in layout A under another display name and role (cohort members
+/// share one placeholder spec and get their own invented names).
+pub fn write_as(
+    p: &PersonaArchive,
+    name: &str,
+    role: &str,
+    sink: &mut dyn ArchiveSink,
+) -> io::Result<()> {
     sink.file(
         "README.txt",
-        format!(
-            "Lanternwick account export (layout A)\n\n{}\n\nPersona: {}, {}.\n",
-            NOTE, p.spec.name, p.spec.role
-        )
-        .as_bytes(),
+        format!("Lanternwick account export (layout A)\n\n{NOTE}\n\nPersona: {name}, {role}.\n")
+            .as_bytes(),
     )?;
     sink.file(
         "account/profile.json",
         &json(&Profile {
-            display_name: p.spec.name,
+            display_name: name,
             member_since: rfc3339(p.joined),
             network: "Lanternwick",
             note: NOTE,

@@ -2,11 +2,12 @@
 //! with members carrying latent attributes, items with homophilous membership and a
 //! spread of homogeneity, and homophilous friendships. From it come the bundled demo
 //! priors (marked synthetic), the demo persona archives in two invented layouts, and
-//! (for benchmarks and workshops) larger archives and cohorts. Nothing here describes
+//! (for benchmarks and workshops) larger archives and cohorts of labelled archives. Nothing here describes
 //! real people or a real platform.
 
 pub mod calibrate;
 pub mod catalogue;
+pub mod cohort;
 mod demo;
 pub mod layout_a;
 pub mod layout_b;

@@ -1,0 +1,74 @@
+//! Shared by `priors build` and `eval`: the schema, reading limits, and reading the
+//! cohort with a progress bar (on a terminal only; silent in scripts).
+
+use std::io::IsTerminal;
+
+use anyhow::{Context, Result};
+use indicatif::{ProgressBar, ProgressStyle};
+use telltale::cohort::{Cohort, Schema, load_cohort};
+use telltale::limits::Limits;
+use telltale::priors::PriorsFile;
+use telltale::scan::{DEMO_PRIORS_JSON, DEMO_PRIORS_NAME};
+
+use super::args::CohortArgs;
+
+/// A progress bar on standard error when it is a terminal; hidden otherwise.
+pub fn bar(total: usize, what: &str) -> ProgressBar {
+    if !std::io::stderr().is_terminal() {
+        return ProgressBar::hidden();
+    }
+    let pb = ProgressBar::new(total as u64);
+    if let Ok(style) = ProgressStyle::with_template("{msg:>18} [{bar:40}] {pos}/{len} ({eta} left)")
+    {
+        pb.set_style(style.progress_chars("=> "));
+    }
+    pb.set_message(what.to_string());
+    pb
+}
+
+pub fn schema(args: &CohortArgs) -> Result<Schema> {
+    let (text, origin) = match &args.schema {
+        Some(p) => (
+            std::fs::read_to_string(p).with_context(|| format!("cannot read {}", p.display()))?,
+            p.display().to_string(),
+        ),
+        None => (DEMO_PRIORS_JSON.to_string(), DEMO_PRIORS_NAME.to_string()),
+    };
+    // Check it as priors first (version and field messages), then keep the raw form.
+    telltale::priors::Priors::parse(&text, &origin).context("cannot use the schema")?;
+    let file: PriorsFile =
+        serde_json::from_str(&text).with_context(|| format!("cannot read {origin}"))?;
+    Schema::new(file, &origin).context("cannot use the schema")
+}
+
+pub fn read(args: &CohortArgs, schema: &Schema) -> Result<Cohort> {
+    let mut limits = Limits::default();
+    for setting in &args.limits {
+        limits
+            .apply(setting)
+            .map_err(|e| anyhow::anyhow!("--limit {setting}: {e}"))?;
+    }
+    if args.max_items == 0 {
+        anyhow::bail!("--max-items must be at least 1");
+    }
+    let total = telltale::cohort::list_archives(&args.cohort)?.len();
+    let pb = bar(total, "reading archives");
+    let cohort = load_cohort(&args.cohort, schema, &limits, &mut |done, _| {
+        pb.set_position(done as u64)
+    });
+    pb.finish_and_clear();
+    let cohort = cohort?;
+    for w in cohort.warnings.iter().take(20) {
+        eprintln!("warning: {w}");
+    }
+    if cohort.warnings.len() > 20 {
+        eprintln!("warning: … and {} more", cohort.warnings.len() - 20);
+    }
+    eprintln!(
+        "Read {} labelled member(s) from {} archive(s) in {}.",
+        cohort.members.len(),
+        cohort.archives,
+        args.cohort.display()
+    );
+    Ok(cohort)
+}

@@ -1,0 +1,268 @@
+//! From counts to a priors file: exact tables (for evaluation and tests) or tables
+//! released with the Laplace mechanism ([`super::privacy`]), then post-processed —
+//! items with fewer than K (noisy) members dropped, negative counts set to 0, counts
+//! rounded — and written with the schema's attributes, the cohort's base and
+//! membership rates and a provenance that records the privacy parameters.
+
+use std::collections::BTreeMap;
+
+use rand::Rng;
+
+use super::counts::Counts;
+use super::load::Schema;
+use super::privacy::{Budget, laplace};
+use crate::priors::{
+    AttributeSpec, Calibration, FORMAT, ItemSpec, MemberSpec, PriorsFile, PrivacySpec, Provenance,
+};
+
+/// Statistics ready to be written.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Table {
+    /// `items[i][a][v]`, non-negative.
+    pub items: Vec<Vec<Vec<f64>>>,
+    /// Whether item `i` has at least the member threshold and is written.
+    pub keep: Vec<bool>,
+    /// `people[a][v]`, non-negative.
+    pub people: Vec<Vec<f64>>,
+    /// `memberships[a][v]`: memberships per value over all candidate items, ≥ 0.
+    pub memberships: Vec<Vec<f64>>,
+    /// Contributors (noisy when released with noise), ≥ 0.
+    pub contributors: f64,
+}
+
+impl Table {
+    /// Rates `(x + ½)/(Σx + ½K)`: never zero (a value no one declared stays possible).
+    pub fn rates(x: &[f64]) -> Vec<f64> {
+        let total: f64 = x.iter().sum::<f64>() + 0.5 * x.len() as f64;
+        x.iter().map(|c| (c + 0.5) / total).collect()
+    }
+
+    pub fn kept(&self) -> usize {
+        self.keep.iter().filter(|&&k| k).count()
+    }
+}
+
+fn finish(
+    raw_items: Vec<Vec<Vec<f64>>>,
+    raw_people: Vec<Vec<f64>>,
+    contributors: f64,
+    min_members: f64,
+    round: bool,
+) -> Table {
+    let n_attr = raw_people.len();
+    // Size of an item: its members averaged over attributes (before clamping, so
+    // noise averages out rather than piling up).
+    let keep: Vec<bool> = raw_items
+        .iter()
+        .map(|per_attr| {
+            let n: f64 =
+                per_attr.iter().map(|c| c.iter().sum::<f64>()).sum::<f64>() / n_attr.max(1) as f64;
+            n >= min_members
+        })
+        .collect();
+    let memberships: Vec<Vec<f64>> = (0..n_attr)
+        .map(|a| {
+            let k = raw_people[a].len();
+            (0..k)
+                .map(|v| {
+                    raw_items
+                        .iter()
+                        .map(|per_attr| per_attr[a][v])
+                        .sum::<f64>()
+                        .max(0.0)
+                })
+                .collect()
+        })
+        .collect();
+    let clean = |x: f64| {
+        let x = x.max(0.0);
+        if round { x.round() } else { x }
+    };
+    Table {
+        items: raw_items
+            .into_iter()
+            .map(|per_attr| {
+                per_attr
+                    .into_iter()
+                    .map(|c| c.into_iter().map(clean).collect())
+                    .collect()
+            })
+            .collect(),
+        keep,
+        people: raw_people
+            .into_iter()
+            .map(|c| c.into_iter().map(clean).collect())
+            .collect(),
+        memberships,
+        contributors: clean(contributors),
+    }
+}
+
+/// The exact table (no noise): for evaluation, tests, and cohorts whose statistics
+/// never leave the room.
+pub fn exact_table(counts: &Counts, min_members: f64) -> Table {
+    finish(
+        counts.items.clone(),
+        counts.people.clone(),
+        counts.contributors,
+        min_members,
+        false,
+    )
+}
+
+/// The table released with the Laplace mechanism: noise on every count of every
+/// candidate item (zero counts too), on the population histograms and on the number
+/// of contributors, with the scales `budget` gives.
+pub fn noisy_table(
+    counts: &Counts,
+    budget: &Budget,
+    min_members: f64,
+    rng: &mut impl Rng,
+) -> Table {
+    let bi = budget.items_scale();
+    let bp = budget.people_scale();
+    let items = counts
+        .items
+        .iter()
+        .map(|per_attr| {
+            per_attr
+                .iter()
+                .map(|c| c.iter().map(|x| x + laplace(rng, bi)).collect())
+                .collect()
+        })
+        .collect();
+    let people = counts
+        .people
+        .iter()
+        .map(|c| c.iter().map(|x| x + laplace(rng, bp)).collect())
+        .collect();
+    let contributors = counts.contributors + laplace(rng, bp);
+    finish(items, people, contributors, min_members, true)
+}
+
+/// What goes into the file besides the table.
+#[derive(Debug, Clone, PartialEq)]
+pub struct BuildParams {
+    /// The budget, when the table was released with noise.
+    pub budget: Option<Budget>,
+    pub min_members: f64,
+    pub source: String,
+    pub licence: String,
+    /// `YYYY-MM-DD`.
+    pub created: String,
+    /// Per attribute: smoothing α, pseudo-count k, calibration; `None` keeps the
+    /// schema's.
+    pub settings: Option<Vec<(f64, f64, Calibration)>>,
+    /// Extra words for the provenance's method (e.g. how calibration was fitted).
+    pub method_note: String,
+    /// True when the cohort is invented (e.g. `telltale synth cohort`).
+    pub synthetic: bool,
+}
+
+/// A built priors file and what was dropped.
+#[derive(Debug, Clone)]
+pub struct Built {
+    pub file: PriorsFile,
+    pub kept_items: usize,
+    pub dropped_items: usize,
+}
+
+/// Write the table as a priors file with the schema's attributes and candidate items.
+/// Only the schema's names appear: nothing from any contributor's archive.
+pub fn build_file(schema: &Schema, table: &Table, params: &BuildParams) -> Built {
+    let attributes: Vec<AttributeSpec> = schema
+        .file
+        .attributes
+        .iter()
+        .enumerate()
+        .map(|(a, spec)| {
+            let mut spec = spec.clone();
+            let base = Table::rates(&table.people[a]);
+            let member = Table::rates(&table.memberships[a]);
+            for ((v, b), m) in spec.values.iter_mut().zip(base).zip(member) {
+                v.base_rate = round6(b);
+                v.member_rate = Some(round6(m));
+            }
+            if let Some(settings) = &params.settings
+                && let Some((alpha, k, cal)) = settings.get(a)
+            {
+                spec.smoothing = Some(*alpha);
+                spec.pseudocount = Some(*k);
+                spec.calibration = Some(cal.clone());
+            }
+            spec
+        })
+        .collect();
+    let mut items = Vec::new();
+    for (i, item) in schema.priors.items.iter().enumerate() {
+        if !table.keep[i] {
+            continue;
+        }
+        let mut members = BTreeMap::new();
+        for (a, spec) in attributes.iter().enumerate() {
+            members.insert(
+                spec.id.clone(),
+                MemberSpec::Counts(table.items[i][a].clone()),
+            );
+        }
+        items.push(ItemSpec {
+            id: item.id.clone(),
+            name: item.name.clone(),
+            kind: item.kind,
+            aliases: Vec::new(),
+            members,
+        });
+    }
+    let contributors = table.contributors.round() as u64;
+    let kept = items.len();
+    let dropped = schema.priors.items.len() - kept;
+    let (privacy, how) = match &params.budget {
+        Some(b) => (
+            Some(PrivacySpec {
+                mechanism: "laplace".into(),
+                epsilon: b.epsilon,
+                sensitivity: b.items_sensitivity(),
+                min_members: params.min_members,
+                budget_split: b.describe(),
+            }),
+            format!(
+                "Member counts from about {contributors} consenting contributors' archives (a noisy count), released with the Laplace mechanism (ε = {}); ",
+                b.epsilon
+            ),
+        ),
+        None => (
+            None,
+            format!(
+                "Exact member counts from {contributors} contributors' archives, without noise; "
+            ),
+        ),
+    };
+    let method = format!(
+        "{how}{kept} of {} candidate items kept (at least {} members); base and membership rates from the same release.{}",
+        schema.priors.items.len(),
+        params.min_members,
+        params.method_note
+    );
+    Built {
+        file: PriorsFile {
+            format: FORMAT,
+            provenance: Provenance {
+                source: params.source.clone(),
+                licence: params.licence.clone(),
+                created: params.created.clone(),
+                method,
+                synthetic: params.synthetic,
+                contributors: Some(contributors),
+                privacy,
+            },
+            attributes,
+            items,
+        },
+        kept_items: kept,
+        dropped_items: dropped,
+    }
+}
+
+fn round6(x: f64) -> f64 {
+    (x * 1e6).round() / 1e6
+}

@@ -1,0 +1,85 @@
+//! The evaluation as plain text, for a terminal or a script's log.
+
+use std::io::{self, Write};
+
+use super::report::EvalReport;
+use crate::reading::percent;
+
+/// One-paragraph description of what was evaluated.
+pub fn summary(r: &EvalReport) -> String {
+    let noise = match r.epsilon {
+        Some(e) => format!(
+            ", statistics released with the Laplace mechanism (ε = {e}) as `priors build` would"
+        ),
+        None => ", exact statistics (no noise)".into(),
+    };
+    format!(
+        "{}-fold cross-validation over {} labelled members ({} archives, {} candidate items{}; at most {} items counted per member, items with fewer than {} members dropped; seed {}).{}",
+        r.folds,
+        r.members,
+        r.archives,
+        r.candidate_items,
+        noise,
+        r.max_items,
+        r.min_members,
+        r.seed,
+        if r.synthetic {
+            " The cohort is invented: these figures describe the generator, not real people."
+        } else {
+            ""
+        }
+    )
+}
+
+pub fn write_text(r: &EvalReport, out: &mut dyn Write) -> io::Result<()> {
+    writeln!(out, "Evaluation of the observer model")?;
+    writeln!(out, "{}", summary(r))?;
+    writeln!(out)?;
+    writeln!(
+        out,
+        "  {:<20} {:>7} {:>9} {:>9} {:>9} {:>9} {:>9} {:>9}",
+        "attribute", "members", "accuracy", "majority", "uniform", "ECE NB", "ECE temp", "ECE cal"
+    )?;
+    for a in &r.attributes {
+        writeln!(
+            out,
+            "  {:<20} {:>7} {:>9} {:>9} {:>9} {:>9.3} {:>9.3} {:>9.3}",
+            a.label,
+            a.members,
+            percent(a.accuracy),
+            percent(a.majority_rate),
+            percent(a.uniform_rate),
+            a.ece_naive,
+            a.ece_temperature,
+            a.ece_calibrated
+        )?;
+    }
+    if !r.public_share.is_empty() {
+        writeln!(out)?;
+        writeln!(
+            out,
+            "Accuracy by share of members whose attributes are public:"
+        )?;
+        write!(out, "  {:<8}", "share")?;
+        for a in &r.attributes {
+            write!(out, " {:>12}", truncate(&a.label, 12))?;
+        }
+        writeln!(out)?;
+        for row in &r.public_share {
+            write!(out, "  {:<8}", percent(row.share))?;
+            for acc in &row.accuracy {
+                write!(out, " {:>12}", percent(*acc))?;
+            }
+            writeln!(out)?;
+        }
+    }
+    writeln!(out)?;
+    writeln!(
+        out,
+        "ECE: expected calibration error of the best guess (10 bins; 0 is perfectly calibrated). NB: naive Bayes; temp: with the fitted temperature; cal: with the logistic calibration."
+    )
+}
+
+fn truncate(s: &str, n: usize) -> String {
+    s.chars().take(n).collect()
+}
