@@ -9,6 +9,7 @@
 
 pub mod archive;
 pub mod cautions;
+pub mod decisions;
 pub mod evidence;
 pub mod footprint;
 #[doc(hidden)]
@@ -21,6 +22,7 @@ pub mod priors;
 pub mod reading;
 pub mod records;
 pub mod report;
+pub mod safe_write;
 pub mod scan;
 pub mod stats;
 pub mod synth;
