@@ -27,3 +27,4 @@ pub mod scan;
 pub mod stats;
 pub mod synth;
 pub mod text;
+pub mod whatif;
