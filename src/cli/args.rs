@@ -83,6 +83,8 @@ pub enum ReportFormat {
     Text,
     Json,
     Markdown,
+    /// A self-contained web page (inline styles and SVG charts, no scripts).
+    Html,
 }
 
 #[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
