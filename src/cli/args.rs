@@ -23,6 +23,8 @@ pub struct Cli {
 pub enum Command {
     /// Report what an observer could infer from an archive.
     Scan(ScanArgs),
+    /// Open the explorer: see what gives you away, try hiding it, save your decisions.
+    Explore(ExploreArgs),
     /// Generate fictional data: the demo priors and persona archives.
     #[command(subcommand)]
     Synth(SynthCommand),
@@ -125,4 +127,13 @@ pub struct ScanArgs {
     /// How many items to list in text and Markdown reports.
     #[arg(long, default_value_t = 15)]
     pub top: usize,
+}
+
+#[derive(Debug, Args)]
+pub struct ExploreArgs {
+    /// Archive: a zip file or an unpacked folder.
+    pub archive: PathBuf,
+
+    #[command(flatten)]
+    pub input: SourceArgs,
 }

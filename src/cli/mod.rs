@@ -2,6 +2,7 @@
 //! its own file and calls the library; nothing here computes.
 
 mod args;
+mod explore;
 mod output;
 mod scan;
 mod synth;
@@ -19,9 +20,10 @@ pub fn main() -> ExitCode {
     let cli = Cli::parse();
     let result = match cli.command {
         Some(Command::Scan(args)) => scan::run(&args),
+        Some(Command::Explore(args)) => explore::run(args.archive, args.input),
         Some(Command::Synth(cmd)) => synth::run(cmd),
         None => match cli.archive {
-            Some(archive) => scan::run_default(archive, cli.input),
+            Some(archive) => explore::run(archive, cli.input),
             None => {
                 use clap::CommandFactory;
                 let _ = Cli::command().print_help();
