@@ -124,8 +124,7 @@ fn search_filters_as_you_type_and_esc_clears() {
     let mut app = app();
     press(&mut app, "2");
     let all = app.rows.len();
-    let word: String = app.rows[0]
-        .name
+    let word: String = telltale::whatif::subject_name(app.session.footprint(), app.rows[0].subject)
         .split_whitespace()
         .next()
         .unwrap()

@@ -96,11 +96,10 @@ pub struct RowQuery {
     pub sort: SortBy,
 }
 
-/// One line of the item list.
+/// One line of the item list (the name is [`subject_name`] of the subject).
 #[derive(Debug, Clone, PartialEq)]
 pub struct ItemRow {
     pub subject: Subject,
-    pub name: String,
     /// like, group, follow, event or friends.
     pub kind: &'static str,
     /// The attribute shown (the filtered one, or the one it adds most to); `None`
@@ -124,7 +123,7 @@ pub fn item_rows(s: &Session, q: &RowQuery) -> Vec<ItemRow> {
     let weights: Vec<f64> = x.models().iter().map(|m| m.weight()).collect();
     let needle = name_key(&q.search);
     let fp = s.footprint();
-    let mut rows = Vec::new();
+    let mut rows = Vec::with_capacity(fp.items.len() + 1);
     for subject in s.subjects() {
         let (kind, date) = match subject {
             Subject::Item(i) => (fp.items[i].kind.as_str(), fp.items[i].date),
@@ -162,7 +161,6 @@ pub fn item_rows(s: &Session, q: &RowQuery) -> Vec<ItemRow> {
                 let e = &x.evidence().list[ei];
                 ItemRow {
                     subject,
-                    name: name.to_string(),
                     kind,
                     attribute: Some(e.attribute),
                     reveals: Some(e.leaning()),
@@ -175,7 +173,6 @@ pub fn item_rows(s: &Session, q: &RowQuery) -> Vec<ItemRow> {
             }
             None => ItemRow {
                 subject,
-                name: name.to_string(),
                 kind,
                 attribute: None,
                 reveals: None,
@@ -188,26 +185,35 @@ pub fn item_rows(s: &Session, q: &RowQuery) -> Vec<ItemRow> {
         };
         rows.push(row);
     }
-    let known_first = |r: &ItemRow| r.attribute.is_none();
+    // Items nothing is known about go last; ties break by archive order, so the
+    // order is total and the same every time.
+    let unknown = |r: &ItemRow| r.attribute.is_none();
     match q.sort {
-        SortBy::Revealing => rows.sort_by(|a, b| {
-            known_first(a)
-                .cmp(&known_first(b))
+        SortBy::Revealing => rows.sort_unstable_by(|a, b| {
+            unknown(a)
+                .cmp(&unknown(b))
                 .then(b.contribution_bits.total_cmp(&a.contribution_bits))
                 .then(b.bits.total_cmp(&a.bits))
+                .then(a.subject.cmp(&b.subject))
         }),
-        SortBy::Information => rows.sort_by(|a, b| {
-            known_first(a)
-                .cmp(&known_first(b))
+        SortBy::Information => rows.sort_unstable_by(|a, b| {
+            unknown(a)
+                .cmp(&unknown(b))
                 .then(b.bits.total_cmp(&a.bits))
+                .then(a.subject.cmp(&b.subject))
         }),
-        SortBy::Homogeneity => rows.sort_by(|a, b| {
-            known_first(a)
-                .cmp(&known_first(b))
+        SortBy::Homogeneity => rows.sort_unstable_by(|a, b| {
+            unknown(a)
+                .cmp(&unknown(b))
                 .then(b.homogeneity.total_cmp(&a.homogeneity))
+                .then(a.subject.cmp(&b.subject))
         }),
-        SortBy::Date => rows.sort_by_key(|r| std::cmp::Reverse(r.date)),
-        SortBy::Name => rows.sort_by_cached_key(|r| name_key(&r.name)),
+        SortBy::Date => {
+            rows.sort_unstable_by(|a, b| b.date.cmp(&a.date).then(a.subject.cmp(&b.subject)))
+        }
+        SortBy::Name => {
+            rows.sort_by_cached_key(|r| (name_key(subject_name(fp, r.subject)), r.subject))
+        }
     }
     rows
 }
@@ -250,8 +256,8 @@ mod tests {
         );
         assert_eq!(groups.len(), s.footprint().count(ItemKind::Group));
         assert!(groups.iter().all(|r| r.kind == "group"));
-        let word = all[0]
-            .name
+        let name_of = |r: &ItemRow| subject_name(s.footprint(), r.subject).to_string();
+        let word = name_of(&all[0])
             .split_whitespace()
             .next()
             .unwrap()
@@ -267,7 +273,7 @@ mod tests {
         assert!(
             found
                 .iter()
-                .all(|r| name_key(&r.name).contains(&name_key(&word)))
+                .all(|r| name_key(&name_of(r)).contains(&name_key(&word)))
         );
         let by_name = item_rows(
             &s,
@@ -277,7 +283,7 @@ mod tests {
             },
         );
         for w in by_name.windows(2) {
-            assert!(name_key(&w[0].name) <= name_key(&w[1].name));
+            assert!(name_key(&name_of(&w[0])) <= name_key(&name_of(&w[1])));
         }
     }
 }

@@ -143,7 +143,11 @@ pub fn render(app: &App, frame: &mut Frame, area: Rect, theme: Theme) {
             Span::raw(" "),
             cell(r.kind, kind_w, theme.dim()),
             Span::raw(" "),
-            cell(&r.name, name_w, name_style),
+            cell(
+                telltale::whatif::subject_name(s.footprint(), r.subject),
+                name_w,
+                name_style,
+            ),
             Span::raw(" "),
             cell(&away, away_w, ratatui::style::Style::default()),
             Span::raw(" "),
