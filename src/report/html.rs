@@ -173,7 +173,10 @@ fn write_attribute(a: &AttributeReport, out: &mut dyn Write) -> io::Result<()> {
         percent(a.threshold),
         a.special_category
             .as_deref()
-            .map(|s| format!(" {}.", escape(s)))
+            .map(|s| format!(
+                " Special category of personal data (GDPR Art. 9): {}.",
+                escape(s)
+            ))
             .unwrap_or_default()
     )?;
     writeln!(out, "</section>")
