@@ -72,12 +72,14 @@ pub fn lines(app: &App, subject: Subject, width: u16, theme: Theme) -> Vec<Line<
         },
         theme.title(),
     ));
+    let mut hardly = false;
     for c in &d.changes {
         let then = if c.then_guess == c.now_guess
             && percent(c.then_probability) == percent(c.now_probability)
         {
+            hardly = true;
             format!(
-                "{} {} (hardly changes: other items say the same)",
+                "{} {} (hardly moves)",
                 c.then_guess,
                 percent(c.then_probability)
             )
@@ -105,6 +107,14 @@ pub fn lines(app: &App, subject: Subject, width: u16, theme: Theme) -> Vec<Line<
             ));
         }
         out.push(fit(Line::raw(format!("    {text}")), w));
+    }
+    if hardly {
+        for l in wrap(
+            "Hardly moves: other visible items say the same, so this one alone barely changes the guess.",
+            w.saturating_sub(6),
+        ) {
+            out.push(Line::styled(format!("    {l}"), theme.dim()));
+        }
     }
     let key_hide = crate::tui::keys::key_label(
         crate::tui::keys::Action::ToggleHide,

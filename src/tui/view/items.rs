@@ -75,14 +75,29 @@ pub fn render(app: &App, frame: &mut Frame, area: Rect, theme: Theme) {
     }
     lines.push(fit(Line::from(filt), w));
 
-    // Columns: mark, kind, name, gives away, bits, adds.
-    let (mark_w, kind_w, away_w, bits_w, adds_w) = if w >= 110 {
+    // Columns: mark, kind, name, gives away, [alike, date,] bits, adds.
+    let wide = w >= 110;
+    let (mark_w, kind_w, away_w, bits_w, adds_w) = if wide {
         (5, 7, 34, 6, 7)
     } else {
         (5, 6, 20, 5, 6)
     };
-    let name_w = w.saturating_sub(mark_w + kind_w + away_w + bits_w + adds_w + 5);
-    lines.push(Line::from(vec![
+    let (alike_w, date_w) = if wide { (6, 11) } else { (0, 0) };
+    let extra = if wide { alike_w + date_w + 2 } else { 0 };
+    let name_w = w.saturating_sub(mark_w + kind_w + away_w + bits_w + adds_w + 5 + extra);
+    let wide_cells = |alike: String, date: String, style| -> Vec<Span<'static>> {
+        if wide {
+            vec![
+                cell_right(&alike, alike_w, style),
+                Span::raw(" "),
+                cell_right(&date, date_w, style),
+                Span::raw(" "),
+            ]
+        } else {
+            Vec::new()
+        }
+    };
+    let mut head = vec![
         cell("", mark_w, theme.dim()),
         Span::raw(" "),
         cell("kind", kind_w, theme.dim()),
@@ -91,10 +106,14 @@ pub fn render(app: &App, frame: &mut Frame, area: Rect, theme: Theme) {
         Span::raw(" "),
         cell("gives away", away_w, theme.dim()),
         Span::raw(" "),
+    ];
+    head.extend(wide_cells("alike".into(), "date".into(), theme.dim()));
+    head.extend([
         cell_right("bits", bits_w, theme.dim()),
         Span::raw(" "),
         cell_right("adds", adds_w, theme.dim()),
-    ]));
+    ]);
+    lines.push(Line::from(head));
     let header_rows = lines.len();
     let room = (area.height as usize).saturating_sub(header_rows);
     if app.rows.is_empty() {
@@ -138,7 +157,15 @@ pub fn render(app: &App, frame: &mut Frame, area: Rect, theme: Theme) {
         } else {
             ratatui::style::Style::default()
         };
-        let line = Line::from(vec![
+        let (alike, when) = (
+            if r.attribute.is_some() {
+                format!("{:.2}", r.homogeneity)
+            } else {
+                String::new()
+            },
+            r.date.map(super::widgets::date).unwrap_or_default(),
+        );
+        let mut spans = vec![
             cell(mark, mark_w, mark_style),
             Span::raw(" "),
             cell(r.kind, kind_w, theme.dim()),
@@ -151,10 +178,14 @@ pub fn render(app: &App, frame: &mut Frame, area: Rect, theme: Theme) {
             Span::raw(" "),
             cell(&away, away_w, ratatui::style::Style::default()),
             Span::raw(" "),
+        ];
+        spans.extend(wide_cells(alike, when, theme.dim()));
+        spans.extend([
             cell_right(&bits, bits_w, ratatui::style::Style::default()),
             Span::raw(" "),
             cell_right(&adds, adds_w, theme.title()),
         ]);
+        let line = Line::from(spans);
         let line = if i == app.item_cursor {
             line.style(theme.selected())
         } else {
