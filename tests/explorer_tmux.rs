@@ -11,6 +11,8 @@ use std::time::{Duration, Instant};
 
 struct Tmux {
     socket: String,
+    /// The session being driven.
+    target: String,
 }
 
 impl Tmux {
@@ -24,11 +26,11 @@ impl Tmux {
     }
 
     fn screen(&self) -> String {
-        self.run(&["capture-pane", "-p", "-t", "tt"])
+        self.run(&["capture-pane", "-p", "-t", &self.target])
     }
 
     fn keys(&self, keys: &[&str]) {
-        let mut args = vec!["send-keys", "-t", "tt"];
+        let mut args = vec!["send-keys", "-t", self.target.as_str()];
         args.extend_from_slice(keys);
         self.run(&args);
     }
@@ -50,12 +52,15 @@ impl Tmux {
     }
 
     fn pane(&self, format: &str) -> String {
-        self.run(&["display-message", "-p", "-t", "tt", format])
+        self.run(&["display-message", "-p", "-t", &self.target, format])
             .trim()
             .to_string()
     }
 
-    fn start(&self, data_dir: &Path) {
+    /// Start the explorer in a new session (the server keeps earlier, dead ones, so
+    /// it never shuts down between runs).
+    fn start(&mut self, name: &str, data_dir: &Path) {
+        self.target = name.to_string();
         let bin = env!("CARGO_BIN_EXE_telltale");
         let archive = concat!(env!("CARGO_MANIFEST_DIR"), "/demo-exports/reporter");
         let cmd = format!(
@@ -66,14 +71,14 @@ impl Tmux {
             "new-session",
             "-d",
             "-s",
-            "tt",
+            name,
             "-x",
             "80",
             "-y",
             "24",
             &cmd,
         ]);
-        self.run(&["set-option", "-t", "tt", "remain-on-exit", "on"]);
+        self.run(&["set-option", "-t", name, "remain-on-exit", "on"]);
     }
 }
 
@@ -112,10 +117,11 @@ fn explorer_in_a_real_terminal() {
         return;
     }
     let data = tempfile::tempdir().unwrap();
-    let t = Tmux {
+    let mut t = Tmux {
         socket: format!("telltale-test-{}", std::process::id()),
+        target: String::new(),
     };
-    t.start(data.path());
+    t.start("first", data.path());
     // First run: the cautions come first.
     t.wait_for("the cautions", |s| s.contains("Before you act on this"));
     t.keys(&["Space"]);
@@ -154,8 +160,7 @@ fn explorer_in_a_real_terminal() {
     assert!(text.contains("\"hide\""), "{text}");
 
     // Reopen: decisions restored, no cautions; then SIGTERM.
-    t.run(&["kill-session", "-t", "tt"]);
-    t.start(data.path());
+    t.start("second", data.path());
     let s = t.wait_for("the restored session", |s| {
         s.contains("Restored your saved decisions")
     });
@@ -171,5 +176,11 @@ fn explorer_in_a_real_terminal() {
         "0",
         "SIGTERM left the alternate screen on"
     );
-    assert_eq!(t.pane("#{pane_dead_status}"), "0");
+    assert_eq!(
+        t.pane("#{pane_dead_status}"),
+        "0",
+        "exit after SIGTERM (signal {:?}); screen:\n{}",
+        t.pane("#{pane_dead_signal}"),
+        t.screen()
+    );
 }

@@ -87,8 +87,8 @@ pub fn run(opts: Options) -> Result<()> {
                 anyhow::bail!("the import stopped unexpectedly");
             }
         }
-        while event::poll(Duration::ZERO)? {
-            if let Event::Key(k) = event::read()?
+        while poll(Duration::ZERO)? {
+            if let Some(Event::Key(k)) = read()?
                 && k.kind == KeyEventKind::Press
                 && (k.code == KeyCode::Char('q')
                     || (k.code == KeyCode::Char('c')
@@ -163,12 +163,13 @@ pub fn run(opts: Options) -> Result<()> {
             plan_job = None;
             dirty = true;
         }
-        if !event::poll(Duration::from_millis(100))? {
+        if !poll(Duration::from_millis(100))? {
             continue;
         }
-        let effects = match event::read()? {
-            Event::Key(k) if k.kind == KeyEventKind::Press => app.handle_key(k),
-            Event::Resize(..) => Vec::new(),
+        let effects = match read()? {
+            None => continue,
+            Some(Event::Key(k)) if k.kind == KeyEventKind::Press => app.handle_key(k),
+            Some(Event::Resize(..)) => Vec::new(),
             _ => continue,
         };
         dirty = true;
@@ -223,6 +224,24 @@ pub fn run(opts: Options) -> Result<()> {
     }
     drop(guard);
     Ok(())
+}
+
+/// Wait for input; a signal interrupting the wait is not an error (the loop then sees
+/// the stop flag).
+fn poll(timeout: Duration) -> std::io::Result<bool> {
+    match event::poll(timeout) {
+        Err(e) if e.kind() == std::io::ErrorKind::Interrupted => Ok(false),
+        other => other,
+    }
+}
+
+/// Read one event; `None` when a signal interrupted the read.
+fn read() -> std::io::Result<Option<Event>> {
+    match event::read() {
+        Ok(e) => Ok(Some(e)),
+        Err(e) if e.kind() == std::io::ErrorKind::Interrupted => Ok(None),
+        Err(e) => Err(e),
+    }
 }
 
 /// Write the report of the current state; returns the message for the footer.
