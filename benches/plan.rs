@@ -128,7 +128,13 @@ fn benches(c: &mut Criterion) {
 
     for seed in [1u64, 2, 3] {
         let fp = member_footprint(&priors, seed, 60);
-        let scan = Scan::from_footprint("bench".into(), "bench".into(), fp, &priors, &Sources::table_only());
+        let scan = Scan::from_footprint(
+            "bench".into(),
+            "bench".into(),
+            fp,
+            &priors,
+            &Sources::table_only(),
+        );
         let o = exact(&priors, &scan.exposure);
         eprintln!(
             "member seed {seed}: {} candidates, status {:?}, plan {:?}, greedy {:?}, nodes {}",
@@ -151,7 +157,13 @@ fn benches(c: &mut Criterion) {
     };
     let mut fp = Scan::run(&input, &priors).expect("demo archive").footprint;
     fp.items.truncate(60);
-    let scan = Scan::from_footprint("bench".into(), "bench".into(), fp, &priors, &Sources::table_only());
+    let scan = Scan::from_footprint(
+        "bench".into(),
+        "bench".into(),
+        fp,
+        &priors,
+        &Sources::table_only(),
+    );
     g.bench_function("exact_60x4_reporter_first60", |b| {
         b.iter(|| exact(&priors, black_box(&scan.exposure)))
     });

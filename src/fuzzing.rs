@@ -55,7 +55,12 @@ pub fn records(data: &[u8]) {
     let selector = String::from_utf8_lossy(head).replace(['\\', '"'], "");
     let limits = fuzz_limits();
     let (text, _) = decode_text(body);
-    for (format, records) in [("json", true), ("ndjson", true), ("json", false), ("csv", false)] {
+    for (format, records) in [
+        ("json", true),
+        ("ndjson", true),
+        ("json", false),
+        ("csv", false),
+    ] {
         let records_line = if records {
             format!("records = \"{selector}\"\n")
         } else {
@@ -70,8 +75,15 @@ pub fn records(data: &[u8]) {
             continue;
         };
         let source = &mapping.sources[0];
-        let fields: Vec<_> = [&source.name, &source.date].into_iter().flatten().cloned().collect();
-        let mut sink = Counting { fields: &fields, seen: 0 };
+        let fields: Vec<_> = [&source.name, &source.date]
+            .into_iter()
+            .flatten()
+            .cloned()
+            .collect();
+        let mut sink = Counting {
+            fields: &fields,
+            seen: 0,
+        };
         let _ = read_records(&text, "f", source, &limits, &mut sink);
     }
 }
@@ -80,7 +92,8 @@ pub fn records(data: &[u8]) {
 pub fn zip(data: &[u8]) {
     const MAPPING: &str = "format = 1\n[[source]]\nkind = \"like\"\nfiles = [\"**/*.json\"]\nname = \"$.name\"\n[[source]]\nkind = \"group\"\nfiles = [\"**/*.csv\"]\nname = \"name\"\n";
     let limits = fuzz_limits();
-    let Ok(mut archive) = Archive::zip_from_bytes(data.to_vec(), Path::new("fuzz.zip"), &limits) else {
+    let Ok(mut archive) = Archive::zip_from_bytes(data.to_vec(), Path::new("fuzz.zip"), &limits)
+    else {
         return;
     };
     let entries = archive.entries().to_vec();

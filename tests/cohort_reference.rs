@@ -241,7 +241,10 @@ fn davis_southern_women_leave_one_out_matches_the_published_split() {
                 .collect(),
             ..Footprint::default()
         };
-        let exposure = Exposure::new(&priors, evidence::gather(&footprint, &priors));
+        let exposure = Exposure::new(
+            &priors,
+            evidence::gather(&footprint, &priors, &evidence::Sources::table_only()),
+        );
         let post = exposure.posterior(0);
         let guess = post.best;
         eprintln!(

@@ -7,10 +7,15 @@ use std::path::Path;
 fn inputs(dirs: &[&str]) -> Vec<(String, Vec<u8>)> {
     let mut out = Vec::new();
     for dir in dirs {
-        let Ok(rd) = std::fs::read_dir(dir) else { continue };
+        let Ok(rd) = std::fs::read_dir(dir) else {
+            continue;
+        };
         for e in rd.filter_map(Result::ok) {
             if e.path().is_file() && e.file_name() != ".gitkeep" {
-                out.push((e.path().display().to_string(), std::fs::read(e.path()).expect("read")));
+                out.push((
+                    e.path().display().to_string(),
+                    std::fs::read(e.path()).expect("read"),
+                ));
             }
         }
     }
@@ -19,7 +24,10 @@ fn inputs(dirs: &[&str]) -> Vec<(String, Vec<u8>)> {
 }
 
 fn replay(target: &str, run: fn(&[u8])) {
-    let found = inputs(&[&format!("tests/fuzz-regressions/{target}"), &format!("fuzz/seeds/{target}")]);
+    let found = inputs(&[
+        &format!("tests/fuzz-regressions/{target}"),
+        &format!("fuzz/seeds/{target}"),
+    ]);
     assert!(
         Path::new(&format!("fuzz/seeds/{target}")).exists() && !found.is_empty(),
         "no inputs for {target}"
@@ -57,7 +65,12 @@ fn zip_inputs_never_panic() {
     replay("zip", telltale::fuzzing::zip);
     // A truncated copy of every seed, cut at several points.
     for (_, data) in inputs(&["fuzz/seeds/zip"]) {
-        for cut in [1, data.len() / 3, data.len() / 2, data.len().saturating_sub(1)] {
+        for cut in [
+            1,
+            data.len() / 3,
+            data.len() / 2,
+            data.len().saturating_sub(1),
+        ] {
             telltale::fuzzing::zip(&data[..cut.min(data.len())]);
         }
     }

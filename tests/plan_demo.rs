@@ -48,14 +48,13 @@ fn demo_plans_meet_every_threshold_when_rescored() {
             );
             let plan = out.plan.as_ref().unwrap();
             // Re-score from scratch: a fresh exposure from the same footprint.
-            let mut fresh =
-                Scan::from_footprint(
-                    "x".into(),
-                    "y".into(),
-                    scan.footprint.clone(),
-                    &priors,
-                    &input.sources,
-                );
+            let mut fresh = Scan::from_footprint(
+                "x".into(),
+                "y".into(),
+                scan.footprint.clone(),
+                &priors,
+                &input.sources,
+            );
             for s in plan.subjects() {
                 fresh.exposure.set_hidden(s, true);
             }

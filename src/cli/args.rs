@@ -26,6 +26,8 @@ pub enum Command {
     /// Find the smallest set of items to hide so no attribute is guessed above your
     /// alert levels, and compare it with the usual coarse advice.
     Plan(PlanArgs),
+    /// Open the explorer: see what gives you away, try hiding it, save your decisions.
+    Explore(ExploreArgs),
     /// Generate fictional data: the demo priors and persona archives.
     #[command(subcommand)]
     Synth(SynthCommand),
@@ -215,6 +217,8 @@ pub enum ReportFormat {
     Text,
     Json,
     Markdown,
+    /// A self-contained web page (inline styles and SVG charts, no scripts).
+    Html,
 }
 
 #[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
@@ -263,6 +267,15 @@ pub enum PlanMethod {
     Exact,
     /// Quick, no guarantee.
     Greedy,
+}
+
+#[derive(Debug, Args)]
+pub struct ExploreArgs {
+    /// Archive: a zip file or an unpacked folder.
+    pub archive: PathBuf,
+
+    #[command(flatten)]
+    pub input: SourceArgs,
 }
 
 #[derive(Debug, Args)]

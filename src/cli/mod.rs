@@ -4,6 +4,7 @@
 mod args;
 mod cohort;
 mod eval;
+mod explore;
 mod output;
 mod plan;
 mod priors;
@@ -24,11 +25,12 @@ pub fn main() -> ExitCode {
     let result = match cli.command {
         Some(Command::Scan(args)) => scan::run(&args),
         Some(Command::Plan(args)) => plan::run(&args),
+        Some(Command::Explore(args)) => explore::run(args.archive, args.input),
         Some(Command::Synth(cmd)) => synth::run(cmd),
         Some(Command::Priors(cmd)) => priors::run(cmd),
         Some(Command::Eval(args)) => eval::run(&args),
         None => match cli.archive {
-            Some(archive) => scan::run_default(archive, cli.input),
+            Some(archive) => explore::run(archive, cli.input),
             None => {
                 use clap::CommandFactory;
                 let _ = Cli::command().print_help();

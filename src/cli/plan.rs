@@ -102,6 +102,12 @@ fn request(args: &PlanArgs, priors: &Priors, footprint: &Footprint) -> Result<Pl
 }
 
 pub fn run(args: &PlanArgs) -> Result<ExitCode> {
+    if args.output.format == ReportFormat::Html {
+        bail!(
+            "telltale plan writes text, json or markdown; for an HTML page with the plan, \
+             open the archive in the explorer and export from its plan screen"
+        );
+    }
     let priors = load_priors(args.input.priors.as_deref()).context("cannot use the priors")?;
     let input = input(args.archive.clone(), &args.input)?;
     let scan = Scan::run(&input, &priors)?;
@@ -113,6 +119,7 @@ pub fn run(args: &PlanArgs) -> Result<ExitCode> {
             ReportFormat::Text => write_text(&report, out),
             ReportFormat::Json => write_json(&report, out),
             ReportFormat::Markdown => write_markdown(&report, out),
+            ReportFormat::Html => unreachable!("refused above"),
         }
     })?;
     Ok(ExitCode::SUCCESS)

@@ -6,7 +6,7 @@ use std::process::ExitCode;
 use anyhow::{Context, Result};
 use telltale::evidence::Sources;
 use telltale::limits::Limits;
-use telltale::report::{TextOptions, write_json, write_markdown, write_text};
+use telltale::report::{TextOptions, write_html, write_json, write_markdown, write_text};
 use telltale::scan::{Scan, ScanInput, load_priors};
 
 use super::args::{ColourChoice, OutputArgs, ReportFormat, ScanArgs, SourceArgs};
@@ -46,6 +46,7 @@ pub fn run(args: &ScanArgs) -> Result<ExitCode> {
             ReportFormat::Text => write_text(&report, TextOptions { colour, top }, out),
             ReportFormat::Json => write_json(&report, out),
             ReportFormat::Markdown => write_markdown(&report, top, out),
+            ReportFormat::Html => write_html(&report, top, out),
         }
     })?;
     Ok(ExitCode::SUCCESS)

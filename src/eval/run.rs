@@ -158,7 +158,7 @@ fn item_lrs(schema: &Schema, priors: &Priors) -> Vec<Vec<Option<Vec<f64>>>> {
             .collect(),
         ..Footprint::default()
     };
-    let set = evidence::gather(&footprint, priors);
+    let set = evidence::gather(&footprint, priors, &evidence::Sources::table_only());
     let mut out = vec![vec![None; priors.attributes.len()]; schema.n_items()];
     for e in set.list {
         if let Subject::Item(i) = e.subject {

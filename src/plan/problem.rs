@@ -87,6 +87,11 @@ pub(crate) struct Problem {
     pub start: Vec<f64>,
     /// Visible, not kept, but carrying no evidence: hiding them changes nothing.
     pub pruned: Vec<Subject>,
+    /// Every watched attribute uses temperature calibration, for which the search's
+    /// bounds are proven. Under logistic calibration the search still only returns
+    /// plans that meet every threshold under the calibrated model, but a proof of
+    /// smallest or of impossibility does not follow.
+    pub bounds_proven: bool,
 }
 
 /// Check a request against an exposure.
@@ -174,11 +179,16 @@ impl Problem {
         let cost: Vec<f64> = subjects.iter().map(|&s| request.cost(s)).collect();
         let mut attrs = Vec::new();
         let mut start = Vec::new();
+        let mut bounds_proven = true;
         for t in &request.targets {
             let model = exposure.models()[t.attribute].clone();
             let k = model.log_base.len();
             let lambda = match &model.calibration {
                 Calibration::Temperature { lambda } => *lambda,
+                Calibration::Logistic { lambda, .. } => {
+                    bounds_proven = false;
+                    *lambda
+                }
             };
             let mut w = vec![0.0; n * k];
             let mut touching = Vec::new();
@@ -237,6 +247,7 @@ impl Problem {
             attrs,
             start,
             pruned,
+            bounds_proven,
         }
     }
 

@@ -52,13 +52,14 @@ pub fn solve_with_progress(
                 (g, c)
             });
             let s = search(&p, warm, &request.budget, progress);
+            let proven = p.bounds_proven;
             let status = match (&s.best, s.stopped) {
-                (Some(_), None) => Status::Optimal,
-                (Some(_), Some(_)) => Status::Feasible,
-                (None, None) => Status::Infeasible,
-                (None, Some(_)) => Status::Unknown,
+                (Some(_), None) if proven => Status::Optimal,
+                (Some(_), _) => Status::Feasible,
+                (None, None) if proven => Status::Infeasible,
+                (None, _) => Status::Unknown,
             };
-            let lb = s.lower_bound.is_finite().then_some(s.lower_bound);
+            let lb = (proven && s.lower_bound.is_finite()).then_some(s.lower_bound);
             (s.best.map(|b| b.0), status, lb, s.stopped, s.nodes)
         }
     };

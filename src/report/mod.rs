@@ -1,9 +1,11 @@
 //! Reports of one scan: a stable, versioned data structure (the JSON document, format
-//! version one) and renderers for text (with or without colour) and Markdown.
+//! version one) and renderers for text (with or without colour), Markdown and a
+//! self-contained HTML page.
 //! Renderers write to any `io::Write`, so they are tested in memory. Friends' names
 //! never appear unless the caller asks for them.
 
 mod build;
+mod html;
 mod markdown;
 mod sources;
 mod text;
@@ -12,6 +14,7 @@ pub use build::{
     ArchiveInfo, AttributeReport, ItemReport, PriorsInfo, REPORT_FORMAT, ScanReport, UnmatchedItem,
     ValueShare, build,
 };
+pub use html::{CONTENT_SECURITY_POLICY, write_html};
 pub use markdown::write_markdown;
 pub use sources::{
     FriendAttributeReport, FriendsReport, SourceReport, SpecialCategoryCount, SpecialItemReport,

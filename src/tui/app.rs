@@ -1,0 +1,699 @@
+//! The explorer's state and what keys do to it. No I/O happens here: handling a key
+//! changes the state and returns [`Effect`]s (save, export, start a plan …) for the
+//! event loop to carry out, so every transition is tested by sending keys.
+
+use std::path::PathBuf;
+use std::time::Instant;
+
+use crossterm::event::{KeyCode, KeyEvent, KeyModifiers};
+use telltale::evidence::Subject;
+use telltale::whatif::{ItemRow, RowQuery, Session, item_rows};
+
+use super::keys::{Action, Place, action_for};
+use super::plan_adapter::{PlanAsk, PlanSuggestion};
+
+/// The screens.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Screen {
+    Overview,
+    Items,
+    Detail(Subject),
+    Plan,
+    Values,
+}
+
+impl Screen {
+    pub fn place(self) -> Place {
+        match self {
+            Screen::Overview => Place::Overview,
+            Screen::Items => Place::Items,
+            Screen::Detail(_) => Place::Detail,
+            Screen::Plan => Place::Plan,
+            Screen::Values => Place::Values,
+        }
+    }
+
+    /// The tab a screen belongs to (0–3).
+    pub fn tab(self) -> usize {
+        match self {
+            Screen::Overview => 0,
+            Screen::Items | Screen::Detail(_) => 1,
+            Screen::Plan => 2,
+            Screen::Values => 3,
+        }
+    }
+
+    pub const TABS: [(Screen, &'static str); 4] = [
+        (Screen::Overview, "Overview"),
+        (Screen::Items, "Items"),
+        (Screen::Plan, "Hiding plan"),
+        (Screen::Values, "Your values"),
+    ];
+}
+
+/// Report formats the explorer can export.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum ExportFormat {
+    Html,
+    Markdown,
+}
+
+impl ExportFormat {
+    pub fn extension(self) -> &'static str {
+        match self {
+            ExportFormat::Html => "html",
+            ExportFormat::Markdown => "md",
+        }
+    }
+    pub fn label(self) -> &'static str {
+        match self {
+            ExportFormat::Html => "HTML (a web page)",
+            ExportFormat::Markdown => "Markdown (plain text)",
+        }
+    }
+}
+
+/// A window over the current screen.
+#[derive(Debug, Clone, PartialEq)]
+pub enum Overlay {
+    Help {
+        scroll: u16,
+    },
+    Cautions {
+        first_run: bool,
+    },
+    Export {
+        format: ExportFormat,
+        path: String,
+    },
+    /// Choosing a real value: row 0 is "not stated", row v+1 is value v.
+    PickValue {
+        attribute: usize,
+        cursor: usize,
+    },
+}
+
+/// What the plan screen aims for.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
+pub enum Goal {
+    /// No best guess above the alert level.
+    #[default]
+    BestGuess,
+    /// The person's stated real values not above the alert level (attributes without
+    /// a stated value fall back to the best guess).
+    RealValue,
+}
+
+/// The plan's state.
+#[derive(Debug, Clone, PartialEq, Default)]
+pub enum PlanState {
+    /// Not asked for, or out of date.
+    #[default]
+    Stale,
+    Running {
+        started: Instant,
+        ask: PlanAsk,
+    },
+    Ready {
+        ask: PlanAsk,
+        suggestion: PlanSuggestion,
+    },
+}
+
+/// Something the event loop must do.
+#[derive(Debug, Clone, PartialEq)]
+pub enum Effect {
+    SaveDecisions,
+    MarkCautionsSeen,
+    Export { format: ExportFormat, path: PathBuf },
+    StartPlan(PlanAsk),
+    CancelPlan,
+}
+
+/// The explorer's whole state.
+pub struct App {
+    pub session: Session,
+    pub screen: Screen,
+    /// Where Esc goes from the detail.
+    pub detail_return: Screen,
+    pub overlay: Option<Overlay>,
+    pub query: RowQuery,
+    /// Typing into the search field.
+    pub searching: bool,
+    pub rows: Vec<ItemRow>,
+    pub item_cursor: usize,
+    pub overview_cursor: usize,
+    pub values_cursor: usize,
+    pub plan_cursor: usize,
+    pub detail_scroll: u16,
+    pub goal: Goal,
+    pub plan: PlanState,
+    /// A one-line message for the footer, until the next key.
+    pub status: Option<String>,
+    pub quit: bool,
+    /// Rows a page holds (set by the renderer from the last frame).
+    pub page: usize,
+}
+
+impl App {
+    pub fn new(session: Session) -> App {
+        let mut app = App {
+            session,
+            screen: Screen::Overview,
+            detail_return: Screen::Items,
+            overlay: None,
+            query: RowQuery::default(),
+            searching: false,
+            rows: Vec::new(),
+            item_cursor: 0,
+            overview_cursor: 0,
+            values_cursor: 0,
+            plan_cursor: 0,
+            detail_scroll: 0,
+            goal: Goal::default(),
+            plan: PlanState::Stale,
+            status: None,
+            quit: false,
+            page: 10,
+        };
+        app.refresh_rows();
+        app
+    }
+
+    /// Show the cautions as the first thing (first run on this computer).
+    pub fn show_cautions_first(&mut self) {
+        self.overlay = Some(Overlay::Cautions { first_run: true });
+    }
+
+    pub fn refresh_rows(&mut self) {
+        let keep = self.rows.get(self.item_cursor).map(|r| r.subject);
+        self.rows = item_rows(&self.session, &self.query);
+        self.item_cursor = keep
+            .and_then(|s| self.rows.iter().position(|r| r.subject == s))
+            .unwrap_or(self.item_cursor)
+            .min(self.rows.len().saturating_sub(1));
+    }
+
+    /// The subject under the cursor (items list or detail).
+    pub fn current_subject(&self) -> Option<Subject> {
+        match self.screen {
+            Screen::Detail(s) => Some(s),
+            Screen::Items => self.rows.get(self.item_cursor).map(|r| r.subject),
+            _ => None,
+        }
+    }
+
+    /// What the plan is asked to achieve now.
+    pub fn plan_ask(&self) -> PlanAsk {
+        let s = &self.session;
+        let subjects: Vec<Subject> = s.subjects().collect();
+        PlanAsk {
+            targets: s.targets().to_vec(),
+            protect: match self.goal {
+                Goal::BestGuess => vec![None; s.n_attributes()],
+                Goal::RealValue => s.real_values().to_vec(),
+            },
+            keep: subjects.iter().copied().filter(|&x| s.is_kept(x)).collect(),
+            hidden: subjects.into_iter().filter(|&x| s.is_hidden(x)).collect(),
+        }
+    }
+
+    /// Ask for a fresh plan if the plan screen shows and the current one is stale.
+    fn plan_effects(&mut self) -> Vec<Effect> {
+        if self.screen != Screen::Plan {
+            return Vec::new();
+        }
+        let ask = self.plan_ask();
+        match &self.plan {
+            PlanState::Ready { ask: a, .. } | PlanState::Running { ask: a, .. } if *a == ask => {
+                Vec::new()
+            }
+            PlanState::Running { .. } => {
+                self.plan = PlanState::Running {
+                    started: Instant::now(),
+                    ask: ask.clone(),
+                };
+                vec![Effect::CancelPlan, Effect::StartPlan(ask)]
+            }
+            _ => {
+                self.plan = PlanState::Running {
+                    started: Instant::now(),
+                    ask: ask.clone(),
+                };
+                vec![Effect::StartPlan(ask)]
+            }
+        }
+    }
+
+    /// A worker finished a plan.
+    pub fn plan_finished(&mut self, ask: PlanAsk, suggestion: PlanSuggestion) {
+        if matches!(&self.plan, PlanState::Running { ask: a, .. } if *a == ask) {
+            self.plan = PlanState::Ready { ask, suggestion };
+            self.plan_cursor = self.plan_cursor.min(self.plan_rows().saturating_sub(1));
+        }
+    }
+
+    /// Rows of the plan screen's cursor: one per attribute.
+    pub fn plan_rows(&self) -> usize {
+        self.session.n_attributes()
+    }
+
+    /// Handle one key press.
+    pub fn handle_key(&mut self, ev: KeyEvent) -> Vec<Effect> {
+        self.status = None;
+        if let Some(overlay) = self.overlay.clone() {
+            return self.handle_overlay(overlay, ev);
+        }
+        if self.searching {
+            return self.handle_search(ev);
+        }
+        match action_for(&ev, self.screen.place()) {
+            Some(a) => self.act(a),
+            None => Vec::new(),
+        }
+    }
+
+    fn handle_search(&mut self, ev: KeyEvent) -> Vec<Effect> {
+        match ev.code {
+            KeyCode::Enter => self.searching = false,
+            KeyCode::Esc => {
+                self.searching = false;
+                self.query.search.clear();
+                self.refresh_rows();
+            }
+            KeyCode::Backspace => {
+                self.query.search.pop();
+                self.item_cursor = 0;
+                self.refresh_rows();
+            }
+            KeyCode::Down | KeyCode::Up => {
+                self.searching = false;
+                return self.handle_key(ev);
+            }
+            KeyCode::Char(c) if !ev.modifiers.contains(KeyModifiers::CONTROL) => {
+                self.query.search.push(c);
+                self.item_cursor = 0;
+                self.refresh_rows();
+            }
+            KeyCode::Char('c') => self.quit = true,
+            _ => {}
+        }
+        Vec::new()
+    }
+
+    fn handle_overlay(&mut self, overlay: Overlay, ev: KeyEvent) -> Vec<Effect> {
+        let ctrl_c = ev.modifiers.contains(KeyModifiers::CONTROL) && ev.code == KeyCode::Char('c');
+        if ctrl_c {
+            self.quit = true;
+            return Vec::new();
+        }
+        match overlay {
+            Overlay::Help { scroll } => match ev.code {
+                KeyCode::Down | KeyCode::Char('j') => {
+                    self.overlay = Some(Overlay::Help { scroll: scroll + 1 })
+                }
+                KeyCode::Up | KeyCode::Char('k') => {
+                    self.overlay = Some(Overlay::Help {
+                        scroll: scroll.saturating_sub(1),
+                    })
+                }
+                KeyCode::PageDown => {
+                    self.overlay = Some(Overlay::Help {
+                        scroll: scroll + self.page as u16,
+                    })
+                }
+                KeyCode::PageUp => {
+                    self.overlay = Some(Overlay::Help {
+                        scroll: scroll.saturating_sub(self.page as u16),
+                    })
+                }
+                KeyCode::Char('q') => self.quit = true,
+                _ => self.overlay = None,
+            },
+            Overlay::Cautions { first_run } => {
+                if ev.code == KeyCode::Char('q') && !first_run {
+                    self.quit = true;
+                }
+                self.overlay = None;
+                if first_run {
+                    return vec![Effect::MarkCautionsSeen];
+                }
+            }
+            Overlay::Export { format, mut path } => match ev.code {
+                KeyCode::Esc => {
+                    self.overlay = None;
+                    self.status = Some("Export cancelled.".into());
+                }
+                KeyCode::Enter => {
+                    self.overlay = None;
+                    let path = path.trim().to_string();
+                    if path.is_empty() {
+                        self.status = Some("No file name given; nothing exported.".into());
+                        return Vec::new();
+                    }
+                    return vec![Effect::Export {
+                        format,
+                        path: PathBuf::from(path),
+                    }];
+                }
+                KeyCode::Tab | KeyCode::BackTab | KeyCode::Left | KeyCode::Right => {
+                    let other = match format {
+                        ExportFormat::Html => ExportFormat::Markdown,
+                        ExportFormat::Markdown => ExportFormat::Html,
+                    };
+                    let old_ext = format!(".{}", format.extension());
+                    if let Some(stem) = path.strip_suffix(&old_ext) {
+                        path = format!("{stem}.{}", other.extension());
+                    }
+                    self.overlay = Some(Overlay::Export {
+                        format: other,
+                        path,
+                    });
+                }
+                KeyCode::Backspace => {
+                    path.pop();
+                    self.overlay = Some(Overlay::Export { format, path });
+                }
+                KeyCode::Char(c) if !ev.modifiers.contains(KeyModifiers::CONTROL) => {
+                    path.push(c);
+                    self.overlay = Some(Overlay::Export { format, path });
+                }
+                _ => {}
+            },
+            Overlay::PickValue { attribute, cursor } => {
+                let n = self.session.priors.attributes[attribute].values.len() + 1;
+                match ev.code {
+                    KeyCode::Esc => self.overlay = None,
+                    KeyCode::Down | KeyCode::Char('j') => {
+                        self.overlay = Some(Overlay::PickValue {
+                            attribute,
+                            cursor: (cursor + 1).min(n - 1),
+                        })
+                    }
+                    KeyCode::Up | KeyCode::Char('k') => {
+                        self.overlay = Some(Overlay::PickValue {
+                            attribute,
+                            cursor: cursor.saturating_sub(1),
+                        })
+                    }
+                    KeyCode::PageDown => {
+                        self.overlay = Some(Overlay::PickValue {
+                            attribute,
+                            cursor: (cursor + self.page).min(n - 1),
+                        })
+                    }
+                    KeyCode::PageUp => {
+                        self.overlay = Some(Overlay::PickValue {
+                            attribute,
+                            cursor: cursor.saturating_sub(self.page),
+                        })
+                    }
+                    KeyCode::Home => {
+                        self.overlay = Some(Overlay::PickValue {
+                            attribute,
+                            cursor: 0,
+                        })
+                    }
+                    KeyCode::End => {
+                        self.overlay = Some(Overlay::PickValue {
+                            attribute,
+                            cursor: n - 1,
+                        })
+                    }
+                    KeyCode::Enter => {
+                        self.overlay = None;
+                        let value = cursor.checked_sub(1);
+                        if self.session.set_real_value(attribute, value) {
+                            self.status = Some(
+                                "Saved on this computer only; it never goes into a report.".into(),
+                            );
+                            return self.changed();
+                        }
+                    }
+                    KeyCode::Char(c) if c.is_alphanumeric() => {
+                        // Jump to the next value whose label starts with the letter.
+                        let attr = &self.session.priors.attributes[attribute];
+                        let lc = c.to_lowercase().next().unwrap_or(c);
+                        let found = (1..n).map(|k| (cursor + k) % n).find(|&row| {
+                            row > 0 && attr.values[row - 1].label.to_lowercase().starts_with(lc)
+                        });
+                        if let Some(row) = found {
+                            self.overlay = Some(Overlay::PickValue {
+                                attribute,
+                                cursor: row,
+                            });
+                        }
+                    }
+                    _ => {}
+                }
+            }
+        }
+        Vec::new()
+    }
+
+    /// After any change to marks, values or targets: refresh views and save.
+    fn changed(&mut self) -> Vec<Effect> {
+        self.refresh_rows();
+        let mut fx = vec![Effect::SaveDecisions];
+        fx.extend(self.plan_effects());
+        fx
+    }
+
+    fn go(&mut self, screen: Screen) -> Vec<Effect> {
+        self.screen = screen;
+        self.searching = false;
+        self.plan_effects()
+    }
+
+    fn move_cursor(&mut self, delta: isize) {
+        let page = self.page.max(1) as isize;
+        let step = |cur: usize, len: usize, d: isize| -> usize {
+            if len == 0 {
+                return 0;
+            }
+            let d = match d {
+                isize::MIN => -(len as isize),
+                isize::MAX => len as isize,
+                d => d,
+            };
+            (cur as isize + d).clamp(0, len as isize - 1) as usize
+        };
+        let delta = match delta {
+            2 => page,
+            -2 => -page,
+            d => d,
+        };
+        match self.screen {
+            Screen::Overview => {
+                self.overview_cursor =
+                    step(self.overview_cursor, self.session.n_attributes(), delta)
+            }
+            Screen::Items => self.item_cursor = step(self.item_cursor, self.rows.len(), delta),
+            Screen::Values => {
+                self.values_cursor = step(self.values_cursor, self.session.n_attributes(), delta)
+            }
+            Screen::Plan => self.plan_cursor = step(self.plan_cursor, self.plan_rows(), delta),
+            Screen::Detail(_) => {
+                self.detail_scroll = if delta < 0 {
+                    self.detail_scroll
+                        .saturating_sub(delta.unsigned_abs().min(u16::MAX as usize) as u16)
+                } else {
+                    self.detail_scroll
+                        .saturating_add(delta.min(500) as u16)
+                        .min(500)
+                }
+            }
+        }
+    }
+
+    /// Carry out an action.
+    pub fn act(&mut self, action: Action) -> Vec<Effect> {
+        match action {
+            Action::Quit => self.quit = true,
+            Action::Help => self.overlay = Some(Overlay::Help { scroll: 0 }),
+            Action::Cautions => self.overlay = Some(Overlay::Cautions { first_run: false }),
+            Action::Back => match self.screen {
+                Screen::Detail(_) => {
+                    self.screen = self.detail_return;
+                    return self.plan_effects();
+                }
+                Screen::Items if self.query != RowQuery::default() => {
+                    self.query = RowQuery::default();
+                    self.refresh_rows();
+                    self.status = Some("Filters cleared.".into());
+                }
+                Screen::Overview => {}
+                _ => return self.go(Screen::Overview),
+            },
+            Action::Open => match self.screen {
+                Screen::Overview => {
+                    self.query = RowQuery {
+                        attribute: Some(self.overview_cursor),
+                        ..RowQuery::default()
+                    };
+                    self.item_cursor = 0;
+                    self.refresh_rows();
+                    return self.go(Screen::Items);
+                }
+                Screen::Items => {
+                    if let Some(s) = self.current_subject() {
+                        self.detail_return = Screen::Items;
+                        self.detail_scroll = 0;
+                        self.screen = Screen::Detail(s);
+                    }
+                }
+                Screen::Values => {
+                    let a = self.values_cursor;
+                    let cursor = self.session.real_value(a).map_or(0, |v| v + 1);
+                    self.overlay = Some(Overlay::PickValue {
+                        attribute: a,
+                        cursor,
+                    });
+                }
+                _ => {}
+            },
+            Action::Up => self.move_cursor(-1),
+            Action::Down => self.move_cursor(1),
+            Action::PageUp => self.move_cursor(-2),
+            Action::PageDown => self.move_cursor(2),
+            Action::Top => self.move_cursor(isize::MIN),
+            Action::Bottom => self.move_cursor(isize::MAX),
+            Action::NextScreen | Action::PrevScreen => {
+                let n = Screen::TABS.len();
+                let t = self.screen.tab();
+                let next = if action == Action::NextScreen {
+                    (t + 1) % n
+                } else {
+                    (t + n - 1) % n
+                };
+                return self.go(Screen::TABS[next].0);
+            }
+            Action::GoOverview => return self.go(Screen::Overview),
+            Action::GoItems => return self.go(Screen::Items),
+            Action::GoPlan => return self.go(Screen::Plan),
+            Action::GoValues => return self.go(Screen::Values),
+            Action::ToggleHide => {
+                if let Some(s) = self.current_subject() {
+                    self.session.toggle_hidden(s);
+                    let name =
+                        telltale::whatif::subject_name(self.session.footprint(), s).to_string();
+                    let name = telltale::text::truncate_to_width(&name, 40);
+                    self.status = Some(if self.session.is_hidden(s) {
+                        format!("Hidden (what-if): {name}. u undoes.")
+                    } else {
+                        format!("Shown again: {name}.")
+                    });
+                    return self.changed();
+                }
+            }
+            Action::ToggleKeep => {
+                if let Some(s) = self.current_subject() {
+                    self.session.toggle_kept(s);
+                    self.status = Some(if self.session.is_kept(s) {
+                        "Marked must-keep: plans will not suggest hiding it.".into()
+                    } else {
+                        "Keep mark removed.".into()
+                    });
+                    return self.changed();
+                }
+            }
+            Action::Undo => {
+                if self.session.undo() {
+                    self.status = Some("Undone.".into());
+                    return self.changed();
+                }
+                self.status = Some("Nothing to undo.".into());
+            }
+            Action::Redo => {
+                if self.session.redo() {
+                    self.status = Some("Redone.".into());
+                    return self.changed();
+                }
+                self.status = Some("Nothing to redo.".into());
+            }
+            Action::CycleAttribute => {
+                let n = self.session.n_attributes();
+                self.query.attribute = match self.query.attribute {
+                    None if n > 0 => Some(0),
+                    Some(a) if a + 1 < n => Some(a + 1),
+                    _ => None,
+                };
+                self.item_cursor = 0;
+                self.refresh_rows();
+            }
+            Action::CycleKind => {
+                self.query.kind = self.query.kind.next();
+                self.item_cursor = 0;
+                self.refresh_rows();
+            }
+            Action::CycleSort => {
+                self.query.sort = self.query.sort.next();
+                self.item_cursor = 0;
+                self.refresh_rows();
+            }
+            Action::Search => self.searching = true,
+            Action::ClearFilters => {
+                self.query = RowQuery::default();
+                self.refresh_rows();
+            }
+            Action::Export => {
+                let stem: String = self
+                    .session
+                    .scan
+                    .archive_name
+                    .chars()
+                    .map(|c| if c.is_alphanumeric() { c } else { '-' })
+                    .collect();
+                let stem = stem.trim_matches('-');
+                let stem = if stem.is_empty() { "archive" } else { stem };
+                self.overlay = Some(Overlay::Export {
+                    format: ExportFormat::Html,
+                    path: format!("telltale-{stem}.html"),
+                });
+            }
+            Action::TargetUp | Action::TargetDown => {
+                let a = self.plan_cursor;
+                let step = if action == Action::TargetUp {
+                    0.05
+                } else {
+                    -0.05
+                };
+                let t = self.session.target(a) + step;
+                if self.session.set_target(a, t) {
+                    return self.changed();
+                }
+            }
+            Action::SwitchGoal => {
+                if self.session.real_values().iter().all(Option::is_none)
+                    && self.goal == Goal::BestGuess
+                {
+                    self.status =
+                        Some("State at least one real value first (screen 4, Your values).".into());
+                    return Vec::new();
+                }
+                self.goal = match self.goal {
+                    Goal::BestGuess => Goal::RealValue,
+                    Goal::RealValue => Goal::BestGuess,
+                };
+                return self.plan_effects();
+            }
+            Action::AcceptPlan => {
+                if let PlanState::Ready { suggestion, .. } = &self.plan {
+                    let hide = suggestion.hide.clone();
+                    if hide.is_empty() {
+                        self.status = Some("Nothing to hide.".into());
+                        return Vec::new();
+                    }
+                    self.session.hide_all(&hide);
+                    self.status = Some(format!(
+                        "Hid {} item(s). u undoes all of them at once.",
+                        hide.len()
+                    ));
+                    return self.changed();
+                }
+                self.status = Some("The plan is not ready yet.".into());
+            }
+        }
+        Vec::new()
+    }
+}

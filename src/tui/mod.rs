@@ -1,0 +1,18 @@
+//! The explorer: a full-screen, keyboard-driven terminal UI over the library's what-if
+//! session. The only part of telltale that knows about terminals (ratatui and
+//! crossterm). State and key handling live in `app` (no I/O), drawing in `view` (pure),
+//! key bindings in `keys` (data), and the loop with its worker threads in `run`.
+
+mod app;
+mod keys;
+mod plan_adapter;
+mod run;
+mod terminal;
+mod theme;
+mod view;
+
+pub use run::{Options, run};
+pub use terminal::interactive;
+
+#[cfg(test)]
+mod tests;

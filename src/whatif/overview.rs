@@ -1,0 +1,103 @@
+//! The overview: one summary per protected attribute, in plain words.
+
+use super::session::Session;
+use crate::reading::{Level, attribute_sentence, level};
+
+/// What the overview shows for one attribute.
+#[derive(Debug, Clone, PartialEq)]
+pub struct AttributeSummary {
+    pub attribute: usize,
+    pub label: String,
+    pub guess_label: String,
+    pub probability: f64,
+    /// Population rate of the best-guess value.
+    pub base_rate: f64,
+    /// The person's alert level for this attribute.
+    pub target: f64,
+    pub level: Level,
+    /// One sentence in plain words.
+    pub reading: String,
+    /// Visible pieces of evidence feeding it.
+    pub feeding: usize,
+    /// Of those, how many point toward the best guess (likelihood ratio above 1).
+    pub supporting: usize,
+    /// The best guess's probability with nothing hidden.
+    pub baseline_probability: f64,
+    pub baseline_guess_label: String,
+    /// When the person stated their real value: its label and current probability.
+    pub real: Option<(String, f64)>,
+    pub special_category: Option<String>,
+}
+
+/// The overview of every attribute, in the priors' order.
+pub fn overview(s: &Session) -> Vec<AttributeSummary> {
+    let x = s.exposure();
+    let posteriors: Vec<_> = (0..s.n_attributes()).map(|a| s.posterior(a)).collect();
+    let mut supporting = vec![0usize; s.n_attributes()];
+    for e in &x.evidence().list {
+        if e.log_lr[posteriors[e.attribute].best] > 0.0 && !x.is_hidden(e.subject) {
+            supporting[e.attribute] += 1;
+        }
+    }
+    s.priors
+        .attributes
+        .iter()
+        .enumerate()
+        .map(|(a, attr)| {
+            let post = posteriors[a].clone();
+            let base = attr.base_rates[post.best];
+            let target = s.target(a);
+            let guess = attr.values[post.best].label.clone();
+            let baseline = s.baseline(a);
+            AttributeSummary {
+                attribute: a,
+                label: attr.label.clone(),
+                reading: attribute_sentence(&attr.label, &guess, post.probability, base, target),
+                guess_label: guess,
+                probability: post.probability,
+                base_rate: base,
+                target,
+                level: level(post.probability, base, target),
+                feeding: x.feeding(a),
+                supporting: supporting[a],
+                baseline_probability: baseline.probability,
+                baseline_guess_label: attr.values[baseline.best].label.clone(),
+                real: s
+                    .real_value(a)
+                    .map(|v| (attr.values[v].label.clone(), post.probs[v])),
+                special_category: attr.special_category.clone(),
+            }
+        })
+        .collect()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::evidence::Subject;
+    use crate::whatif::session::tests::demo_session;
+
+    #[test]
+    fn overview_follows_hiding() {
+        let mut s = demo_session();
+        let first = overview(&s);
+        assert_eq!(first.len(), s.n_attributes());
+        for o in &first {
+            assert!((o.probability - o.baseline_probability).abs() < 1e-12);
+            assert!(o.probability > 0.0 && o.probability <= 1.0);
+        }
+        // Hide the item contributing most to the first attribute's best guess.
+        let top = s.exposure().contributions(0)[0].subject;
+        let fed = first[0].feeding;
+        s.toggle_hidden(top);
+        let after = overview(&s);
+        assert!(after[0].probability < first[0].probability);
+        assert_eq!(after[0].feeding + 1, fed);
+        assert!(after[0].supporting < first[0].supporting);
+        assert!(first[0].supporting <= first[0].feeding);
+        assert!((after[0].baseline_probability - first[0].probability).abs() < 1e-12);
+        s.set_real_value(0, Some(0));
+        assert!(overview(&s)[0].real.is_some());
+        assert!(matches!(top, Subject::Item(_)));
+    }
+}

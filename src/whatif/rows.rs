@@ -1,0 +1,289 @@
+//! The item list: one row per item (and the friend list), with the attribute it gives
+//! away most, its information in bits and what it adds to the observer's best guess;
+//! filtered by attribute, kind and a search text, in the chosen order. Computing all
+//! rows touches each piece of evidence once and allocates only the rows.
+
+use super::session::{Session, subject_name};
+use crate::decisions::Mark;
+use crate::evidence::Subject;
+use crate::footprint::ItemKind;
+use crate::text::name_key;
+
+/// Which kinds of subject to list.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
+pub enum KindFilter {
+    #[default]
+    All,
+    Kind(ItemKind),
+    /// The friend list as a whole.
+    Friends,
+}
+
+impl KindFilter {
+    /// The cycle order for a front end's filter key.
+    pub const CYCLE: [KindFilter; 6] = [
+        KindFilter::All,
+        KindFilter::Kind(ItemKind::Like),
+        KindFilter::Kind(ItemKind::Group),
+        KindFilter::Kind(ItemKind::Follow),
+        KindFilter::Kind(ItemKind::Event),
+        KindFilter::Friends,
+    ];
+
+    pub fn label(self) -> &'static str {
+        match self {
+            KindFilter::All => "all kinds",
+            KindFilter::Kind(k) => k.plural(),
+            KindFilter::Friends => "friend list",
+        }
+    }
+
+    pub fn next(self) -> KindFilter {
+        let i = Self::CYCLE.iter().position(|k| *k == self).unwrap_or(0);
+        Self::CYCLE[(i + 1) % Self::CYCLE.len()]
+    }
+}
+
+/// Row order.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
+pub enum SortBy {
+    /// What the item adds to the observer's current best guess, most first.
+    #[default]
+    Revealing,
+    /// Information (bits), most first.
+    Information,
+    /// Homogeneity of members, most alike first.
+    Homogeneity,
+    /// Newest first.
+    Date,
+    /// Alphabetical by name.
+    Name,
+}
+
+impl SortBy {
+    pub const CYCLE: [SortBy; 5] = [
+        SortBy::Revealing,
+        SortBy::Information,
+        SortBy::Homogeneity,
+        SortBy::Date,
+        SortBy::Name,
+    ];
+
+    pub fn label(self) -> &'static str {
+        match self {
+            SortBy::Revealing => "most revealing",
+            SortBy::Information => "most informative",
+            SortBy::Homogeneity => "most alike members",
+            SortBy::Date => "newest",
+            SortBy::Name => "name",
+        }
+    }
+
+    pub fn next(self) -> SortBy {
+        let i = Self::CYCLE.iter().position(|k| *k == self).unwrap_or(0);
+        Self::CYCLE[(i + 1) % Self::CYCLE.len()]
+    }
+}
+
+/// What to list.
+#[derive(Debug, Clone, Default, PartialEq)]
+pub struct RowQuery {
+    /// Only items with evidence about this attribute (and show that attribute).
+    pub attribute: Option<usize>,
+    pub kind: KindFilter,
+    /// Case-, accent- and punctuation-insensitive substring of the name.
+    pub search: String,
+    pub sort: SortBy,
+}
+
+/// One line of the item list (the name is [`subject_name`] of the subject).
+#[derive(Debug, Clone, PartialEq)]
+pub struct ItemRow {
+    pub subject: Subject,
+    /// like, group, follow, event or friends.
+    pub kind: &'static str,
+    /// The attribute shown (the filtered one, or the one it adds most to); `None`
+    /// when nothing is known about the item.
+    pub attribute: Option<usize>,
+    /// The value it points to most for that attribute.
+    pub reveals: Option<usize>,
+    pub bits: f64,
+    pub homogeneity: f64,
+    /// Bits toward the observer's current best guess (what it adds, or would add if
+    /// shown again).
+    pub contribution_bits: f64,
+    pub mark: Option<Mark>,
+    pub date: Option<i64>,
+}
+
+/// The rows for a query.
+pub fn item_rows(s: &Session, q: &RowQuery) -> Vec<ItemRow> {
+    let x = s.exposure();
+    let bests: Vec<usize> = (0..s.n_attributes()).map(|a| x.posterior(a).best).collect();
+    let weights: Vec<f64> = x.models().iter().map(|m| m.weight()).collect();
+    let needle = name_key(&q.search);
+    let fp = s.footprint();
+    let mut rows = Vec::with_capacity(fp.items.len() + 1);
+    for subject in s.subjects() {
+        let (kind, date) = match subject {
+            Subject::Item(i) => (fp.items[i].kind.as_str(), fp.items[i].date),
+            Subject::FriendList => ("friends", None),
+        };
+        let keep_kind = match q.kind {
+            KindFilter::All => true,
+            KindFilter::Kind(k) => matches!(subject, Subject::Item(i) if fp.items[i].kind == k),
+            KindFilter::Friends => subject == Subject::FriendList,
+        };
+        if !keep_kind {
+            continue;
+        }
+        let name = subject_name(fp, subject);
+        if !needle.is_empty() && !name_key(name).contains(&needle) {
+            continue;
+        }
+        // The evidence to show: the filtered attribute's, or the largest contribution.
+        let mut chosen: Option<(usize, f64)> = None;
+        for &ei in x.evidence_of(subject) {
+            let e = &x.evidence().list[ei];
+            if q.attribute.is_some_and(|a| a != e.attribute) {
+                continue;
+            }
+            let c = weights[e.attribute] * e.log_lr[bests[e.attribute]] / std::f64::consts::LN_2;
+            if chosen.is_none_or(|(_, best)| c > best) {
+                chosen = Some((ei, c));
+            }
+        }
+        if q.attribute.is_some() && chosen.is_none() {
+            continue;
+        }
+        let row = match chosen {
+            Some((ei, c)) => {
+                let e = &x.evidence().list[ei];
+                ItemRow {
+                    subject,
+                    kind,
+                    attribute: Some(e.attribute),
+                    reveals: Some(e.leaning()),
+                    bits: e.info_bits,
+                    homogeneity: e.homogeneity,
+                    contribution_bits: c,
+                    mark: s.mark(subject),
+                    date,
+                }
+            }
+            None => ItemRow {
+                subject,
+                kind,
+                attribute: None,
+                reveals: None,
+                bits: 0.0,
+                homogeneity: 0.0,
+                contribution_bits: 0.0,
+                mark: s.mark(subject),
+                date,
+            },
+        };
+        rows.push(row);
+    }
+    // Items nothing is known about go last; ties break by archive order, so the
+    // order is total and the same every time.
+    let unknown = |r: &ItemRow| r.attribute.is_none();
+    match q.sort {
+        SortBy::Revealing => rows.sort_unstable_by(|a, b| {
+            unknown(a)
+                .cmp(&unknown(b))
+                .then(b.contribution_bits.total_cmp(&a.contribution_bits))
+                .then(b.bits.total_cmp(&a.bits))
+                .then(a.subject.cmp(&b.subject))
+        }),
+        SortBy::Information => rows.sort_unstable_by(|a, b| {
+            unknown(a)
+                .cmp(&unknown(b))
+                .then(b.bits.total_cmp(&a.bits))
+                .then(a.subject.cmp(&b.subject))
+        }),
+        SortBy::Homogeneity => rows.sort_unstable_by(|a, b| {
+            unknown(a)
+                .cmp(&unknown(b))
+                .then(b.homogeneity.total_cmp(&a.homogeneity))
+                .then(a.subject.cmp(&b.subject))
+        }),
+        SortBy::Date => {
+            rows.sort_unstable_by(|a, b| b.date.cmp(&a.date).then(a.subject.cmp(&b.subject)))
+        }
+        SortBy::Name => {
+            rows.sort_by_cached_key(|r| (name_key(subject_name(fp, r.subject)), r.subject))
+        }
+    }
+    rows
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::whatif::session::tests::demo_session;
+
+    #[test]
+    fn most_revealing_first_matches_exposure_contributions() {
+        let s = demo_session();
+        let rows = item_rows(
+            &s,
+            &RowQuery {
+                attribute: Some(0),
+                ..RowQuery::default()
+            },
+        );
+        let contrib = s.exposure().contributions(0);
+        assert_eq!(rows.len(), contrib.len());
+        assert_eq!(rows[0].subject, contrib[0].subject);
+        assert!((rows[0].contribution_bits - contrib[0].toward_best_bits).abs() < 1e-12);
+        for w in rows.windows(2) {
+            assert!(w[0].contribution_bits >= w[1].contribution_bits);
+        }
+    }
+
+    #[test]
+    fn filters_and_search_narrow_the_list() {
+        let s = demo_session();
+        let all = item_rows(&s, &RowQuery::default());
+        assert_eq!(all.len(), s.footprint().items.len());
+        let groups = item_rows(
+            &s,
+            &RowQuery {
+                kind: KindFilter::Kind(ItemKind::Group),
+                ..RowQuery::default()
+            },
+        );
+        assert_eq!(groups.len(), s.footprint().count(ItemKind::Group));
+        assert!(groups.iter().all(|r| r.kind == "group"));
+        let name_of = |r: &ItemRow| subject_name(s.footprint(), r.subject).to_string();
+        let word = name_of(&all[0])
+            .split_whitespace()
+            .next()
+            .unwrap()
+            .to_uppercase();
+        let found = item_rows(
+            &s,
+            &RowQuery {
+                search: word.clone(),
+                ..RowQuery::default()
+            },
+        );
+        assert!(!found.is_empty() && found.len() <= all.len());
+        assert!(
+            found
+                .iter()
+                .all(|r| name_key(&name_of(r)).contains(&name_key(&word)))
+        );
+        let by_name = item_rows(
+            &s,
+            &RowQuery {
+                sort: SortBy::Name,
+                ..RowQuery::default()
+            },
+        );
+        for w in by_name.windows(2) {
+            assert!(name_key(&name_of(&w[0])) <= name_key(&name_of(&w[1])));
+        }
+    }
+}

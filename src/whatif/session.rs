@@ -1,0 +1,412 @@
+//! The what-if session: marks, private real values and alert levels over a scan, with
+//! undo and redo. Every change goes through [`Exposure::set_hidden`], so posteriors
+//! update in time proportional to the changed item's evidence.
+
+use crate::decisions::{Decisions, Mark, subject_key};
+use crate::evidence::Subject;
+use crate::footprint::Footprint;
+use crate::infer::{Exposure, Posterior};
+use crate::priors::Priors;
+use crate::report::{self, ScanReport};
+use crate::scan::Scan;
+
+/// One undoable step.
+#[derive(Debug, Clone, PartialEq)]
+enum Step {
+    /// Marks of several subjects changed at once: (subject, before, after).
+    Marks(Vec<(Subject, Option<Mark>, Option<Mark>)>),
+    /// A real value changed: (attribute, before, after).
+    RealValue(usize, Option<usize>, Option<usize>),
+    /// An alert level changed: (attribute, before, after).
+    Target(usize, f64, f64),
+}
+
+/// A person's what-if session over one scanned archive.
+#[derive(Debug, Clone)]
+pub struct Session {
+    pub scan: Scan,
+    pub priors: Priors,
+    /// Current mark per subject slot (items, then the friend list).
+    marks: Vec<Option<Mark>>,
+    real_values: Vec<Option<usize>>,
+    targets: Vec<f64>,
+    undo: Vec<Step>,
+    redo: Vec<Step>,
+    /// Posteriors with nothing hidden, for "was … when everything was visible".
+    baseline: Vec<Posterior>,
+    /// Saved marks whose items are not in this archive any more (kept, not lost).
+    unmatched: Decisions,
+}
+
+impl Session {
+    /// Start a session and apply saved decisions. Marks for items this import does not
+    /// have are carried along unchanged (so saving never drops them).
+    pub fn open(scan: Scan, priors: Priors, saved: &Decisions) -> Session {
+        let n_slots = scan.footprint.items.len() + 1;
+        let n_attr = priors.attributes.len();
+        let baseline = (0..n_attr).map(|a| scan.exposure.posterior(a)).collect();
+        let mut s = Session {
+            marks: vec![None; n_slots],
+            real_values: vec![None; n_attr],
+            targets: priors.attributes.iter().map(|a| a.threshold).collect(),
+            undo: Vec::new(),
+            redo: Vec::new(),
+            baseline,
+            unmatched: Decisions::new(&scan.footprint.fingerprint),
+            scan,
+            priors,
+        };
+        let mut known = std::collections::BTreeSet::new();
+        for mark in [Mark::Hide, Mark::Keep] {
+            let (subjects, _) = saved.subjects_marked(&s.scan.footprint, mark);
+            for subject in subjects {
+                known.insert(subject_key(&s.scan.footprint, subject));
+                s.apply_mark(subject, Some(mark));
+            }
+        }
+        for (k, m) in &saved.marks {
+            if !known.contains(k) {
+                s.unmatched.marks.insert(k.clone(), *m);
+            }
+        }
+        for (ai, attr) in s.priors.attributes.iter().enumerate() {
+            if let Some(v) = saved.real_values.get(&attr.id) {
+                match attr.value_index(v) {
+                    Some(vi) => s.real_values[ai] = Some(vi),
+                    None => {
+                        s.unmatched.real_values.insert(attr.id.clone(), v.clone());
+                    }
+                }
+            }
+            if let Some(&t) = saved.targets.get(&attr.id)
+                && t > 0.0
+                && t <= 1.0
+            {
+                s.targets[ai] = t;
+            }
+        }
+        s
+    }
+
+    pub fn footprint(&self) -> &Footprint {
+        &self.scan.footprint
+    }
+
+    pub fn exposure(&self) -> &Exposure {
+        &self.scan.exposure
+    }
+
+    pub fn n_attributes(&self) -> usize {
+        self.priors.attributes.len()
+    }
+
+    /// Every subject: items in archive order, then the friend list if anything
+    /// about it is known.
+    pub fn subjects(&self) -> impl Iterator<Item = Subject> + '_ {
+        let n = self.scan.footprint.items.len();
+        (0..n).map(Subject::Item).chain(
+            (!self
+                .scan
+                .exposure
+                .evidence_of(Subject::FriendList)
+                .is_empty())
+            .then_some(Subject::FriendList),
+        )
+    }
+
+    fn slot(&self, subject: Subject) -> usize {
+        match subject {
+            Subject::Item(i) => i,
+            Subject::FriendList => self.scan.footprint.items.len(),
+        }
+    }
+
+    pub fn mark(&self, subject: Subject) -> Option<Mark> {
+        self.marks[self.slot(subject)]
+    }
+
+    pub fn is_hidden(&self, subject: Subject) -> bool {
+        self.mark(subject) == Some(Mark::Hide)
+    }
+
+    pub fn is_kept(&self, subject: Subject) -> bool {
+        self.mark(subject) == Some(Mark::Keep)
+    }
+
+    pub fn posterior(&self, a: usize) -> Posterior {
+        self.scan.exposure.posterior(a)
+    }
+
+    /// The posterior with nothing hidden.
+    pub fn baseline(&self, a: usize) -> &Posterior {
+        &self.baseline[a]
+    }
+
+    pub fn real_value(&self, a: usize) -> Option<usize> {
+        self.real_values[a]
+    }
+
+    pub fn target(&self, a: usize) -> f64 {
+        self.targets[a]
+    }
+
+    pub fn targets(&self) -> &[f64] {
+        &self.targets
+    }
+
+    pub fn real_values(&self) -> &[Option<usize>] {
+        &self.real_values
+    }
+
+    /// Number of hidden subjects.
+    pub fn hidden_count(&self) -> usize {
+        self.marks
+            .iter()
+            .filter(|m| **m == Some(Mark::Hide))
+            .count()
+    }
+
+    /// Number of subjects marked keep.
+    pub fn kept_count(&self) -> usize {
+        self.marks
+            .iter()
+            .filter(|m| **m == Some(Mark::Keep))
+            .count()
+    }
+
+    fn apply_mark(&mut self, subject: Subject, mark: Option<Mark>) {
+        let slot = self.slot(subject);
+        self.marks[slot] = mark;
+        self.scan
+            .exposure
+            .set_hidden(subject, mark == Some(Mark::Hide));
+    }
+
+    fn record(&mut self, step: Step) {
+        self.undo.push(step);
+        self.redo.clear();
+    }
+
+    /// Set the marks of several subjects as one undoable step. Returns whether
+    /// anything changed.
+    pub fn set_marks(&mut self, changes: &[(Subject, Option<Mark>)]) -> bool {
+        let mut step = Vec::new();
+        for &(subject, after) in changes {
+            let before = self.mark(subject);
+            if before != after {
+                self.apply_mark(subject, after);
+                step.push((subject, before, after));
+            }
+        }
+        if step.is_empty() {
+            return false;
+        }
+        self.record(Step::Marks(step));
+        true
+    }
+
+    /// Hide a visible subject, or show a hidden one (a keep mark becomes hidden).
+    pub fn toggle_hidden(&mut self, subject: Subject) -> bool {
+        let after = if self.is_hidden(subject) {
+            None
+        } else {
+            Some(Mark::Hide)
+        };
+        self.set_marks(&[(subject, after)])
+    }
+
+    /// Mark a subject as must-keep (shown), or take the keep mark away.
+    pub fn toggle_kept(&mut self, subject: Subject) -> bool {
+        let after = if self.is_kept(subject) {
+            None
+        } else {
+            Some(Mark::Keep)
+        };
+        self.set_marks(&[(subject, after)])
+    }
+
+    /// Hide every listed subject as one undoable step (accepting a plan).
+    pub fn hide_all(&mut self, subjects: &[Subject]) -> bool {
+        let changes: Vec<_> = subjects.iter().map(|&s| (s, Some(Mark::Hide))).collect();
+        self.set_marks(&changes)
+    }
+
+    /// State (or clear) the person's real value for an attribute.
+    pub fn set_real_value(&mut self, a: usize, value: Option<usize>) -> bool {
+        let before = self.real_values[a];
+        if before == value {
+            return false;
+        }
+        self.real_values[a] = value;
+        self.record(Step::RealValue(a, before, value));
+        true
+    }
+
+    /// Change an attribute's alert level (clamped to 1%–99%).
+    pub fn set_target(&mut self, a: usize, target: f64) -> bool {
+        let target = (target.clamp(0.01, 0.99) * 100.0).round() / 100.0;
+        let before = self.targets[a];
+        if (before - target).abs() < 1e-9 {
+            return false;
+        }
+        self.targets[a] = target;
+        self.record(Step::Target(a, before, target));
+        true
+    }
+
+    fn apply(&mut self, step: &Step, forward: bool) {
+        match step {
+            Step::Marks(list) => {
+                for &(subject, before, after) in list {
+                    self.apply_mark(subject, if forward { after } else { before });
+                }
+            }
+            Step::RealValue(a, before, after) => {
+                self.real_values[*a] = if forward { *after } else { *before };
+            }
+            Step::Target(a, before, after) => {
+                self.targets[*a] = if forward { *after } else { *before };
+            }
+        }
+    }
+
+    /// Undo the last change; false when there is nothing to undo.
+    pub fn undo(&mut self) -> bool {
+        let Some(step) = self.undo.pop() else {
+            return false;
+        };
+        self.apply(&step, false);
+        self.redo.push(step);
+        true
+    }
+
+    /// Redo the last undone change.
+    pub fn redo(&mut self) -> bool {
+        let Some(step) = self.redo.pop() else {
+            return false;
+        };
+        self.apply(&step, true);
+        self.undo.push(step);
+        true
+    }
+
+    pub fn can_undo(&self) -> bool {
+        !self.undo.is_empty()
+    }
+
+    /// The decisions to save: current marks, real values and changed alert levels,
+    /// plus saved marks for items this import did not have.
+    pub fn decisions(&self) -> Decisions {
+        let mut d = self.unmatched.clone();
+        for s in self.subjects().collect::<Vec<_>>() {
+            if let Some(m) = self.mark(s) {
+                d.marks.insert(subject_key(&self.scan.footprint, s), m);
+            }
+        }
+        for (ai, attr) in self.priors.attributes.iter().enumerate() {
+            if let Some(v) = self.real_values[ai] {
+                d.real_values
+                    .insert(attr.id.clone(), attr.values[v].id.clone());
+            }
+            if (self.targets[ai] - attr.threshold).abs() > 1e-9 {
+                d.targets.insert(attr.id.clone(), self.targets[ai]);
+            }
+        }
+        d
+    }
+
+    /// The report of the current state (hidden items count as hidden). Real values
+    /// are never part of it.
+    pub fn report(&self) -> ScanReport {
+        report::build(
+            &self.scan.archive_name,
+            &self.scan.footprint,
+            &self.priors,
+            &self.scan.exposure,
+        )
+    }
+}
+
+/// A subject's display name.
+pub fn subject_name(footprint: &Footprint, subject: Subject) -> &str {
+    match subject {
+        Subject::Item(i) => footprint
+            .items
+            .get(i)
+            .map(|it| it.name.as_str())
+            .unwrap_or("?"),
+        Subject::FriendList => "your friend list",
+    }
+}
+
+#[cfg(test)]
+pub(crate) mod tests {
+    use super::*;
+    use crate::scan::{ScanInput, load_priors};
+
+    /// The reporter persona from the bundled demo.
+    pub(crate) fn demo_session() -> Session {
+        let priors = load_priors(None).unwrap();
+        let input = ScanInput {
+            archive: concat!(env!("CARGO_MANIFEST_DIR"), "/demo-exports/reporter").into(),
+            ..ScanInput::default()
+        };
+        let scan = Scan::run(&input, &priors).unwrap();
+        let fp = scan.footprint.fingerprint.clone();
+        Session::open(scan, priors, &Decisions::new(&fp))
+    }
+
+    #[test]
+    fn hide_undo_redo_restore_posteriors_exactly() {
+        let mut s = demo_session();
+        let before: Vec<_> = (0..s.n_attributes()).map(|a| s.posterior(a)).collect();
+        let item = Subject::Item(0);
+        assert!(s.toggle_hidden(item));
+        assert!(s.is_hidden(item));
+        assert_eq!(s.hidden_count(), 1);
+        assert!(s.undo());
+        assert!(!s.is_hidden(item));
+        for (a, p) in before.iter().enumerate() {
+            for (x, y) in p.probs.iter().zip(&s.posterior(a).probs) {
+                assert!((x - y).abs() < 1e-12);
+            }
+        }
+        assert!(s.redo());
+        assert!(s.is_hidden(item));
+        assert!(!s.redo());
+    }
+
+    #[test]
+    fn decisions_round_trip_through_a_new_session() {
+        let mut s = demo_session();
+        s.toggle_hidden(Subject::Item(3));
+        s.toggle_kept(Subject::Item(5));
+        s.set_real_value(0, Some(2));
+        s.set_target(1, 0.3);
+        let saved = s.decisions();
+        assert_eq!(saved.marks.len(), 2);
+        let reopened = Session::open(s.scan.clone(), s.priors.clone(), &saved);
+        assert!(reopened.is_hidden(Subject::Item(3)));
+        assert!(reopened.is_kept(Subject::Item(5)));
+        assert_eq!(reopened.real_value(0), Some(2));
+        assert!((reopened.target(1) - 0.3).abs() < 1e-12);
+        assert_eq!(reopened.decisions(), saved);
+    }
+
+    #[test]
+    fn marks_for_missing_items_survive_saving() {
+        let s = demo_session();
+        let mut saved = s.decisions();
+        saved
+            .marks
+            .insert("like:id:not-in-this-archive".into(), Mark::Hide);
+        let reopened = Session::open(s.scan.clone(), s.priors.clone(), &saved);
+        assert_eq!(reopened.hidden_count(), 0);
+        assert!(
+            reopened
+                .decisions()
+                .marks
+                .contains_key("like:id:not-in-this-archive")
+        );
+    }
+}

@@ -1,0 +1,186 @@
+//! The explorer driven for real in a terminal: tmux runs the release binary at 80×24
+//! on the demo reporter archive, keys go in with send-keys, the screen comes back with
+//! capture-pane. Open → cautions shown once → item list → filter → hide an item → the
+//! overview changes → quit; the decisions file is then on disk and the terminal has
+//! left the alternate screen. A second run checks SIGTERM restores the terminal and
+//! keeps the decisions too. Skipped, with a message saying so, where tmux is absent.
+
+use std::path::Path;
+use std::process::Command;
+use std::time::{Duration, Instant};
+
+struct Tmux {
+    socket: String,
+    /// The session being driven.
+    target: String,
+}
+
+impl Tmux {
+    fn run(&self, args: &[&str]) -> String {
+        let out = Command::new("tmux")
+            .args(["-L", &self.socket])
+            .args(args)
+            .output()
+            .expect("tmux runs");
+        String::from_utf8_lossy(&out.stdout).into_owned()
+    }
+
+    fn screen(&self) -> String {
+        self.run(&["capture-pane", "-p", "-t", &self.target])
+    }
+
+    fn keys(&self, keys: &[&str]) {
+        let mut args = vec!["send-keys", "-t", self.target.as_str()];
+        args.extend_from_slice(keys);
+        self.run(&args);
+    }
+
+    /// Wait until the screen satisfies `pred`; panic with the screen after 40 s (the
+    /// machine may be busy with other builds).
+    fn wait_for(&self, what: &str, pred: impl Fn(&str) -> bool) -> String {
+        let start = Instant::now();
+        loop {
+            let s = self.screen();
+            if pred(&s) {
+                return s;
+            }
+            if start.elapsed() > Duration::from_secs(40) {
+                panic!("timed out waiting for {what}; screen:\n{s}");
+            }
+            std::thread::sleep(Duration::from_millis(100));
+        }
+    }
+
+    fn pane(&self, format: &str) -> String {
+        self.run(&["display-message", "-p", "-t", &self.target, format])
+            .trim()
+            .to_string()
+    }
+
+    /// Start the explorer in a new session (the server keeps earlier, dead ones, so
+    /// it never shuts down between runs).
+    fn start(&mut self, name: &str, data_dir: &Path) {
+        self.target = name.to_string();
+        let bin = env!("CARGO_BIN_EXE_telltale");
+        let archive = concat!(env!("CARGO_MANIFEST_DIR"), "/demo-exports/reporter");
+        let cmd = format!(
+            "exec env TELLTALE_DATA_DIR='{}' NO_COLOR=1 TERM=xterm-256color '{bin}' '{archive}'",
+            data_dir.display()
+        );
+        self.run(&[
+            "new-session",
+            "-d",
+            "-s",
+            name,
+            "-x",
+            "80",
+            "-y",
+            "24",
+            &cmd,
+        ]);
+        self.run(&["set-option", "-t", name, "remain-on-exit", "on"]);
+    }
+}
+
+impl Drop for Tmux {
+    fn drop(&mut self) {
+        let _ = Command::new("tmux")
+            .args(["-L", &self.socket, "kill-server"])
+            .output();
+    }
+}
+
+fn tmux_available() -> bool {
+    Command::new("tmux")
+        .arg("-V")
+        .output()
+        .is_ok_and(|o| o.status.success())
+}
+
+/// The probability shown on the overview's first bar line ("… 62%  population …").
+fn first_probability(screen: &str) -> String {
+    screen
+        .lines()
+        .find(|l| l.contains("population"))
+        .and_then(|l| l.split("population").next())
+        .and_then(|l| l.split_whitespace().last())
+        .unwrap_or("")
+        .to_string()
+}
+
+#[test]
+fn explorer_in_a_real_terminal() {
+    if !tmux_available() {
+        println!(
+            "SKIPPED explorer_in_a_real_terminal: tmux is not installed, so the explorer was not driven in a real terminal"
+        );
+        return;
+    }
+    let data = tempfile::tempdir().unwrap();
+    let mut t = Tmux {
+        socket: format!("telltale-test-{}", std::process::id()),
+        target: String::new(),
+    };
+    t.start("first", data.path());
+    // First run: the cautions come first.
+    t.wait_for("the cautions", |s| s.contains("Before you act on this"));
+    t.keys(&["Space"]);
+    let overview = t.wait_for("the overview", |s| {
+        s.contains("population rate") && !s.contains("Before you act on this")
+    });
+    let before = first_probability(&overview);
+    assert!(before.ends_with('%'), "{overview}");
+    assert!(data.path().join("cautions-seen").exists());
+
+    // Item list, filtered to the first attribute (Enter on the overview), then likes.
+    t.keys(&["Enter"]);
+    t.wait_for("the item list", |s| s.contains("gives away"));
+    t.keys(&["t"]);
+    t.wait_for("the likes filter", |s| s.contains("likes"));
+    t.keys(&["x"]);
+    t.wait_for("the hidden mark", |s| s.contains("Hidden (what-if)"));
+    t.keys(&["1"]);
+    let after = t.wait_for("the changed overview", |s| s.contains("before hiding"));
+    assert_ne!(first_probability(&after), before, "{after}");
+    assert!(after.contains("1 hidden"), "{after}");
+
+    t.keys(&["q"]);
+    t.wait_for("the program to end", |_| t.pane("#{pane_dead}") == "1");
+    assert_eq!(
+        t.pane("#{alternate_on}"),
+        "0",
+        "still in the alternate screen"
+    );
+    let saved = std::fs::read_dir(data.path().join("decisions"))
+        .unwrap()
+        .flatten()
+        .find(|e| e.path().extension().is_some_and(|x| x == "json"))
+        .expect("a decisions file");
+    let text = std::fs::read_to_string(saved.path()).unwrap();
+    assert!(text.contains("\"hide\""), "{text}");
+
+    // Reopen: decisions restored, no cautions; then SIGTERM.
+    t.start("second", data.path());
+    let s = t.wait_for("the restored session", |s| {
+        s.contains("Restored your saved decisions")
+    });
+    assert!(s.contains("1 hidden"), "{s}");
+    assert!(!s.contains("Before you act on this"));
+    let pid = t.pane("#{pane_pid}");
+    Command::new("kill").args(["-TERM", &pid]).status().unwrap();
+    t.wait_for("the program to end on SIGTERM", |_| {
+        t.pane("#{pane_dead}") == "1"
+    });
+    assert_eq!(
+        t.pane("#{alternate_on}"),
+        "0",
+        "SIGTERM left the alternate screen on"
+    );
+    assert_eq!(
+        t.pane("#{pane_dead_status}"),
+        "0",
+        "exit after SIGTERM (signal {:?}); screen:\n{}",
+        t.pane("#{pane_dead_signal}"),
+        t.screen()
+    );
+}
