@@ -246,7 +246,17 @@ mod tests {
     fn filters_and_search_narrow_the_list() {
         let s = demo_session();
         let all = item_rows(&s, &RowQuery::default());
-        assert_eq!(all.len(), s.footprint().items.len());
+        // Every item, plus one row for the friend list when friends give evidence (the
+        // reporter's archive lists friends with stated attributes).
+        let friend_row = !s.exposure().evidence_of(Subject::FriendList).is_empty();
+        assert!(friend_row);
+        assert_eq!(all.len(), s.footprint().items.len() + 1);
+        assert_eq!(
+            all.iter()
+                .filter(|r| r.subject == Subject::FriendList)
+                .count(),
+            1
+        );
         let groups = item_rows(
             &s,
             &RowQuery {
