@@ -89,21 +89,58 @@ fn copy_tree(from: &Path, to: &Path) {
     }
 }
 
-/// The commands that read an archive, run on a copy of the demo archives.
-fn archive_commands(dir: &Path) -> Vec<Vec<String>> {
+/// The commands that read an archive, run on a copy of the demo archives; whatever they
+/// write goes to `out`, outside it.
+fn archive_commands(dir: &Path, out: &Path) -> Vec<Vec<String>> {
     let folder = dir.join("reporter").display().to_string();
     let zip = dir.join("student.zip").display().to_string();
+    let cohort = dir.display().to_string();
+    let to = |name: &str| out.join(name).display().to_string();
+    let strings = |v: &[&str]| v.iter().map(|s| s.to_string()).collect::<Vec<String>>();
     let mut cmds = Vec::new();
-    for archive in [&folder, &zip] {
-        cmds.push(vec!["scan".to_string(), archive.clone()]);
-        cmds.push(vec![
-            "scan".into(),
-            archive.clone(),
-            "--format".into(),
-            "json".into(),
-        ]);
-        cmds.push(vec![archive.clone()]);
+    for (i, archive) in [&folder, &zip].into_iter().enumerate() {
+        let a = archive.as_str();
+        cmds.push(strings(&["scan", a]));
+        cmds.push(strings(&["scan", a, "--format", "json"]));
+        for format in ["markdown", "html"] {
+            let file = to(&format!("report-{i}.{format}"));
+            cmds.push(strings(&["scan", a, "--format", format, "--output", &file]));
+        }
+        // Off a terminal the explorer prints the report instead.
+        cmds.push(strings(&[a]));
+        cmds.push(strings(&["explore", a]));
+        cmds.push(strings(&["plan", a, "--format", "json"]));
+        cmds.push(strings(&[
+            "plan",
+            a,
+            "--method",
+            "greedy",
+            "--threshold",
+            "religion=40%",
+        ]));
     }
+    let priors = to("cohort-priors.json");
+    cmds.push(strings(&[
+        "priors",
+        "build",
+        &cohort,
+        "--epsilon",
+        "1",
+        "--seed",
+        "1",
+        "--min-members",
+        "1",
+        "--output",
+        &priors,
+    ]));
+    cmds.push(strings(&[
+        "eval",
+        &cohort,
+        "--folds",
+        "2",
+        "--public-share",
+        "0.5",
+    ]));
     cmds
 }
 
@@ -111,9 +148,10 @@ fn archive_commands(dir: &Path) -> Vec<Vec<String>> {
 fn the_archive_is_never_written_to() {
     let dir = tempfile::tempdir().expect("tempdir");
     copy_tree(Path::new("demo-exports"), dir.path());
+    let out_dir = tempfile::tempdir().expect("tempdir");
     let before = checksums(dir.path());
     assert!(before.len() > 10);
-    for args in archive_commands(dir.path()) {
+    for args in archive_commands(dir.path(), out_dir.path()) {
         let out = Command::new(env!("CARGO_BIN_EXE_telltale"))
             .args(&args)
             .output()
@@ -128,6 +166,10 @@ fn the_archive_is_never_written_to() {
             before,
             "{args:?} changed the archive folder"
         );
+    }
+    // The commands did write their outputs, just not into the archive.
+    for name in ["report-0.markdown", "report-1.html", "cohort-priors.json"] {
+        assert!(out_dir.path().join(name).is_file(), "{name} missing");
     }
 }
 
@@ -188,7 +230,8 @@ fn nothing_is_sent_over_a_network() {
     }
     let dir = tempfile::tempdir().expect("tempdir");
     copy_tree(Path::new("demo-exports"), dir.path());
-    for args in archive_commands(dir.path()) {
+    let out_dir = tempfile::tempdir().expect("tempdir");
+    for args in archive_commands(dir.path(), out_dir.path()) {
         match network_calls(&args) {
             None => {
                 eprintln!(

@@ -60,15 +60,21 @@ pub fn write_text(r: &EvalReport, out: &mut dyn Write) -> io::Result<()> {
             out,
             "Accuracy by share of members whose attributes are public:"
         )?;
+        // Each column as wide as its attribute's label, so no label is cut.
+        let widths: Vec<usize> = r
+            .attributes
+            .iter()
+            .map(|a| a.label.chars().count().max(7))
+            .collect();
         write!(out, "  {:<8}", "share")?;
-        for a in &r.attributes {
-            write!(out, " {:>12}", truncate(&a.label, 12))?;
+        for (a, w) in r.attributes.iter().zip(&widths) {
+            write!(out, " {:>w$}", a.label)?;
         }
         writeln!(out)?;
         for row in &r.public_share {
             write!(out, "  {:<8}", percent(row.share))?;
-            for acc in &row.accuracy {
-                write!(out, " {:>12}", percent(*acc))?;
+            for (acc, w) in row.accuracy.iter().zip(&widths) {
+                write!(out, " {:>w$}", percent(*acc))?;
             }
             writeln!(out)?;
         }
@@ -78,8 +84,4 @@ pub fn write_text(r: &EvalReport, out: &mut dyn Write) -> io::Result<()> {
         out,
         "ECE: expected calibration error of the best guess (10 bins; 0 is perfectly calibrated). NB: naive Bayes; temp: with the fitted temperature; cal: with the logistic calibration."
     )
-}
-
-fn truncate(s: &str, n: usize) -> String {
-    s.chars().take(n).collect()
 }
