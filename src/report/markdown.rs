@@ -138,7 +138,7 @@ pub fn write_markdown(r: &ScanReport, top: usize, out: &mut dyn Write) -> io::Re
     if !r.unmatched.is_empty() {
         writeln!(
             out,
-            "{} of your items are recognised by any evidence source, so telltale cannot judge them.\n",
+            "{} of your items are not recognised by any evidence source, so telltale cannot judge them.\n",
             r.unmatched.len()
         )?;
     }

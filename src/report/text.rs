@@ -240,7 +240,7 @@ pub fn write_text(r: &ScanReport, opts: TextOptions, out: &mut dyn Write) -> io:
     if !r.unmatched.is_empty() {
         writeln!(
             out,
-            "  {} of your items are recognised by any evidence source, so telltale cannot judge them{}.",
+            "  {} of your items are not recognised by any evidence source, so telltale cannot judge them{}.",
             r.unmatched.len(),
             if r.unmatched.len() <= 3 {
                 format!(
