@@ -13,6 +13,9 @@ use crate::limits::{LimitName, Limits};
 pub struct Folder {
     root: PathBuf,
     entries: Vec<Entry>,
+    /// Each entry's path on disk (by entry index): names that are not valid UTF-8 are
+    /// shown with U+FFFD in `entries` but still read from their real name.
+    disk_paths: Vec<PathBuf>,
     /// Entries skipped while walking (symbolic links, unreadable folders).
     pub skipped: Vec<String>,
 }
@@ -21,6 +24,7 @@ impl Folder {
     pub fn open(root: &Path, limits: &Limits) -> Result<Folder> {
         let mut entries = Vec::new();
         let mut skipped = Vec::new();
+        let mut disk_paths = Vec::new();
         let walker = WalkDir::new(root)
             .follow_links(false)
             .max_depth(limits.folder_depth as usize)
@@ -54,6 +58,7 @@ impl Folder {
                 ));
             }
             let size = item.metadata().map(|m| m.len()).unwrap_or(0);
+            disk_paths.push(item.path().to_path_buf());
             entries.push(Entry {
                 path: relative(root, item.path()),
                 size,
@@ -63,6 +68,7 @@ impl Folder {
         Ok(Folder {
             root: to_path_buf(root),
             entries,
+            disk_paths,
             skipped,
         })
     }
@@ -76,7 +82,10 @@ impl Folder {
     }
 
     pub fn read(&mut self, entry: &Entry, cap: u64) -> Result<Vec<u8>> {
-        let full = self.root.join(&entry.path);
+        let full = match self.disk_paths.get(entry.index) {
+            Some(p) => p.clone(),
+            None => self.root.join(&entry.path),
+        };
         let file = File::open(&full).map_err(|e| Error::Read {
             entry: entry.path.clone(),
             detail: e.to_string(),
