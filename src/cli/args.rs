@@ -36,6 +36,44 @@ pub enum Command {
     Priors(PriorsCommand),
     /// Measure how well the observer model guesses a labelled cohort's attributes.
     Eval(EvalArgs),
+    /// Write a first mapping for a new archive layout, or check one against an archive.
+    #[command(subcommand)]
+    Mapping(MappingCommand),
+}
+
+#[derive(Debug, Subcommand)]
+pub enum MappingCommand {
+    /// Inspect an archive's structure and print a commented draft mapping to check and
+    /// edit: `telltale mapping draft ARCHIVE > my-mapping.toml`.
+    Draft(MappingDraftArgs),
+    /// Show what each source of a mapping finds in an archive: files, records, items.
+    Check(MappingCheckArgs),
+}
+
+#[derive(Debug, Args)]
+pub struct MappingDraftArgs {
+    /// Archive: a zip file or an unpacked folder. Nothing is written into it.
+    pub archive: PathBuf,
+    /// Reference priors whose attribute values mark friends' and your own attribute
+    /// fields (default: the bundled demo priors).
+    #[arg(long, value_name = "FILE")]
+    pub priors: Option<PathBuf>,
+    /// Raise or lower a reading limit, e.g. --limit entry-bytes=2G.
+    #[arg(long = "limit", value_name = "NAME=VALUE")]
+    pub limits: Vec<String>,
+}
+
+#[derive(Debug, Args)]
+pub struct MappingCheckArgs {
+    /// Archive: a zip file or an unpacked folder.
+    pub archive: PathBuf,
+    /// Mapping file to check (default: the one telltale finds inside or beside the
+    /// archive).
+    #[arg(long, value_name = "FILE")]
+    pub mapping: Option<PathBuf>,
+    /// Raise or lower a reading limit, e.g. --limit entry-bytes=2G.
+    #[arg(long = "limit", value_name = "NAME=VALUE")]
+    pub limits: Vec<String>,
 }
 
 #[derive(Debug, Subcommand)]

@@ -5,6 +5,7 @@ mod args;
 mod cohort;
 mod eval;
 mod explore;
+mod mapping;
 mod output;
 mod plan;
 mod priors;
@@ -29,6 +30,7 @@ pub fn main() -> ExitCode {
         Some(Command::Synth(cmd)) => synth::run(cmd),
         Some(Command::Priors(cmd)) => priors::run(cmd),
         Some(Command::Eval(args)) => eval::run(&args),
+        Some(Command::Mapping(cmd)) => mapping::run(cmd),
         None => match cli.archive {
             Some(archive) => explore::run(archive, cli.input),
             None => {
