@@ -15,11 +15,18 @@ pub const TEMP_PREFIX: &str = ".telltale-";
 pub const TEMP_SUFFIX: &str = ".tmp";
 
 /// Write `render`'s output to `path`, replacing any old file atomically. The new file
-/// is readable and writable by its owner only (0600 on Unix).
+/// is readable and writable by its owner only (0600 on Unix). A path that exists and is
+/// not a regular file (`/dev/null`, a named pipe, a terminal) is written into, never
+/// replaced: renaming over it would swap a device for a plain file.
 pub fn write_atomic(
     path: &Path,
     render: impl FnOnce(&mut dyn Write) -> io::Result<()>,
 ) -> io::Result<()> {
+    if fs::metadata(path).is_ok_and(|m| !m.is_file() && !m.is_dir()) {
+        let mut w = io::BufWriter::new(fs::OpenOptions::new().write(true).open(path)?);
+        render(&mut w)?;
+        return w.flush();
+    }
     let dir = path
         .parent()
         .filter(|p| !p.as_os_str().is_empty())
@@ -139,5 +146,28 @@ mod tests {
         assert_eq!(fs::read_to_string(&p).unwrap(), "old");
         let names: Vec<_> = fs::read_dir(dir.path()).unwrap().flatten().collect();
         assert_eq!(names.len(), 1, "temporary file left behind");
+    }
+
+    #[cfg(unix)]
+    #[test]
+    fn a_named_pipe_is_written_into_not_replaced() {
+        use std::os::unix::fs::FileTypeExt;
+        let dir = tempfile::tempdir().unwrap();
+        let fifo = dir.path().join("pipe");
+        let made = std::process::Command::new("mkfifo").arg(&fifo).status();
+        if !made.is_ok_and(|s| s.success()) {
+            eprintln!("skipped: mkfifo is not available");
+            return;
+        }
+        let reader = {
+            let fifo = fifo.clone();
+            std::thread::spawn(move || std::fs::read(fifo).unwrap())
+        };
+        write_atomic(&fifo, |w| w.write_all(b"through the pipe")).unwrap();
+        // Checked before joining: had the pipe been replaced, the reader would wait
+        // forever.
+        let kind = std::fs::symlink_metadata(&fifo).unwrap().file_type();
+        assert!(kind.is_fifo(), "the pipe was replaced by a plain file");
+        assert_eq!(reader.join().unwrap(), b"through the pipe");
     }
 }

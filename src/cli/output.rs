@@ -2,7 +2,6 @@
 //! written through a temporary file so a failed write never leaves half a report.
 //! Also decides on colour (terminal, `NO_COLOR`, `--colour`).
 
-use std::fs;
 use std::io::{self, IsTerminal, Write};
 use std::path::Path;
 
@@ -43,41 +42,13 @@ pub fn emit(
     }
 }
 
-/// Create or replace a file readable and writable by the owner only.
+/// Create or replace a file readable and writable by the owner only, atomically (see
+/// `telltale::safe_write`: a device or pipe such as `/dev/null` is written into, never
+/// replaced).
 pub fn write_private(
     path: &Path,
     render: impl FnOnce(&mut dyn Write) -> io::Result<()>,
 ) -> Result<()> {
-    let dir = path
-        .parent()
-        .filter(|p| !p.as_os_str().is_empty())
-        .unwrap_or(Path::new("."));
-    let mut tmp = tempfile_in(dir).with_context(|| format!("cannot write in {}", dir.display()))?;
-    {
-        let mut w = io::BufWriter::new(&mut tmp.1);
-        render(&mut w).with_context(|| format!("cannot write {}", path.display()))?;
-        w.flush()?;
-    }
-    tmp.1.sync_all()?;
-    fs::rename(&tmp.0, path).with_context(|| format!("cannot write {}", path.display()))?;
-    Ok(())
-}
-
-fn tempfile_in(dir: &Path) -> io::Result<(std::path::PathBuf, fs::File)> {
-    let mut opts = fs::OpenOptions::new();
-    opts.write(true).create_new(true);
-    #[cfg(unix)]
-    {
-        use std::os::unix::fs::OpenOptionsExt;
-        opts.mode(0o600);
-    }
-    for n in 0..1000u32 {
-        let candidate = dir.join(format!(".telltale-{}-{n}.tmp", std::process::id()));
-        match opts.open(&candidate) {
-            Ok(f) => return Ok((candidate, f)),
-            Err(e) if e.kind() == io::ErrorKind::AlreadyExists => continue,
-            Err(e) => return Err(e),
-        }
-    }
-    Err(io::Error::other("no free temporary file name"))
+    telltale::safe_write::write_atomic(path, render)
+        .with_context(|| format!("cannot write {}", path.display()))
 }

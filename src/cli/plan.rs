@@ -105,7 +105,8 @@ pub fn run(args: &PlanArgs) -> Result<ExitCode> {
     if args.output.format == ReportFormat::Html {
         bail!(
             "telltale plan writes text, json or markdown; for an HTML page with the plan, \
-             open the archive in the explorer and export from its plan screen"
+             open the archive in the explorer (telltale ARCHIVE), let its plan screen (3) \
+             work the plan out, then press e and choose HTML"
         );
     }
     let priors = load_priors(args.input.priors.as_deref()).context("cannot use the priors")?;

@@ -21,6 +21,7 @@ mod coarse;
 mod exact;
 mod explain;
 mod greedy;
+mod html;
 mod outcome;
 mod problem;
 mod render;
@@ -30,11 +31,12 @@ mod select;
 mod solve;
 
 pub use exact::StopReason;
+pub use html::write_html_section;
 pub use outcome::{
     AttrState, Blocked, GreedySummary, HideItem, Infeasibility, MoveOutcome, Plan, PlanOutcome,
     Reason, SearchStats, Status,
 };
-pub use render::{write_json, write_markdown, write_text};
+pub use render::{write_json, write_markdown, write_markdown_section, write_text};
 pub use report::{PLAN_REPORT_FORMAT, PlanReport, build as build_report};
 pub use request::{
     Budget, Error, Method, MoveKind, MoveSpec, PlanRequest, Progress, Target, standard_moves,

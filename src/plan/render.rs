@@ -14,7 +14,7 @@ pub fn write_json(r: &PlanReport, out: &mut dyn Write) -> io::Result<()> {
     writeln!(out)
 }
 
-fn state_words(s: &StateReport) -> String {
+pub(super) fn state_words(s: &StateReport) -> String {
     match s.true_value_probability {
         Some(t) => format!(
             "{} {} (your value {})",
@@ -26,7 +26,7 @@ fn state_words(s: &StateReport) -> String {
     }
 }
 
-fn why(r: &PlanReport, i: usize) -> String {
+pub(super) fn why(r: &PlanReport, i: usize) -> String {
     let Some(plan) = &r.plan else {
         return String::new();
     };
@@ -269,26 +269,43 @@ fn esc(s: &str) -> String {
 /// Write the Markdown report.
 pub fn write_markdown(r: &PlanReport, out: &mut dyn Write) -> io::Result<()> {
     writeln!(out, "# What to hide in {}\n", esc(&r.archive))?;
+    write_markdown_body(r, "##", out)?;
+    writeln!(out, "\n## {}\n", TITLE)?;
+    for c in &r.cautions {
+        writeln!(out, "- {}", esc(c))?;
+    }
+    Ok(())
+}
+
+/// The plan as a section to append to another Markdown document (the explorer's
+/// export): a level-2 heading, level-3 subsections, no cautions (the document has
+/// them).
+pub fn write_markdown_section(r: &PlanReport, out: &mut dyn Write) -> io::Result<()> {
+    writeln!(out, "\n## Hiding plan\n")?;
+    write_markdown_body(r, "###", out)
+}
+
+fn write_markdown_body(r: &PlanReport, h: &str, out: &mut dyn Write) -> io::Result<()> {
     writeln!(out, "{}\n", esc(&r.summary))?;
     if let Some(plan) = &r.plan
         && !plan.items.is_empty()
     {
-        writeln!(out, "## Items to hide\n")?;
+        writeln!(out, "{h} Items to hide\n")?;
         writeln!(out, "| # | Item | Kind | Why |")?;
         writeln!(out, "|---:|---|---|---|")?;
-        for (i, h) in plan.items.iter().enumerate() {
+        for (i, item) in plan.items.iter().enumerate() {
             writeln!(
                 out,
                 "| {} | {} | {} | {} |",
                 i + 1,
-                esc(&h.name),
-                h.kind,
+                esc(&item.name),
+                item.kind,
                 esc(&why(r, i))
             )?;
         }
         writeln!(out)?;
     }
-    writeln!(out, "## Before and after\n")?;
+    writeln!(out, "{h} Before and after\n")?;
     writeln!(out, "| Attribute | Before | After | Alert level | Met |")?;
     writeln!(out, "|---|---|---|---:|---|")?;
     for a in &r.attributes {
@@ -303,7 +320,7 @@ pub fn write_markdown(r: &PlanReport, out: &mut dyn Write) -> io::Result<()> {
         )?;
     }
     if !r.coarse_moves.is_empty() {
-        writeln!(out, "\n## What the usual advice would do\n")?;
+        writeln!(out, "\n{h} What the usual advice would do\n")?;
         writeln!(out, "| Move | Hidden | Attributes under the alert level |")?;
         writeln!(out, "|---|---:|---:|")?;
         for m in &r.coarse_moves {
@@ -318,7 +335,7 @@ pub fn write_markdown(r: &PlanReport, out: &mut dyn Write) -> io::Result<()> {
         }
     }
     if let Some(inf) = &r.infeasible {
-        writeln!(out, "\n## What stands in the way\n")?;
+        writeln!(out, "\n{h} What stands in the way\n")?;
         for b in &inf.blocked {
             let kept: Vec<String> = b.kept_items.iter().take(5).map(|(n, _)| esc(n)).collect();
             writeln!(
@@ -339,10 +356,6 @@ pub fn write_markdown(r: &PlanReport, out: &mut dyn Write) -> io::Result<()> {
         for (x, y) in &inf.conflicts {
             writeln!(out, "- {} and {} cannot be met together.", esc(x), esc(y))?;
         }
-    }
-    writeln!(out, "\n## {}\n", TITLE)?;
-    for c in &r.cautions {
-        writeln!(out, "- {}", esc(c))?;
     }
     Ok(())
 }

@@ -17,6 +17,10 @@ use crate::reading::percent;
 /// The plan report format version.
 pub const PLAN_REPORT_FORMAT: u32 = 1;
 
+/// What a report says in place of a privately stated value (id and label).
+pub const YOUR_VALUE_ID: &str = "(your value)";
+pub const YOUR_VALUE: &str = "your value";
+
 #[derive(Debug, Clone, Serialize)]
 pub struct PlanReport {
     pub format: u32,
@@ -187,6 +191,17 @@ pub fn build(
     o: &PlanOutcome,
 ) -> PlanReport {
     let attr_id = |a: usize| priors.attributes[a].id.clone();
+    // A privately stated value is never named: where a reason or an obstacle is about
+    // it, the report says "your value" instead.
+    let stated = |a: usize| o.before.iter().find(|s| s.attribute == a)?.true_value;
+    let value_words = |a: usize, v: usize| -> (String, String) {
+        if stated(a) == Some(v) {
+            (YOUR_VALUE_ID.into(), YOUR_VALUE.into())
+        } else {
+            let value = &priors.attributes[a].values[v];
+            (value.id.clone(), value.label.clone())
+        }
+    };
     let plan = o.plan.as_ref().map(|p| PlanList {
         count: p.len(),
         cost: p.cost,
@@ -205,11 +220,12 @@ pub fn build(
                         .iter()
                         .map(|r| {
                             let a = &priors.attributes[r.attribute];
+                            let (value, value_label) = value_words(r.attribute, r.value);
                             ReasonReport {
                                 attribute: a.id.clone(),
                                 attribute_label: a.label.clone(),
-                                value: a.values[r.value].id.clone(),
-                                value_label: a.values[r.value].label.clone(),
+                                value,
+                                value_label,
                                 bits: r.bits,
                                 probability_if_shown: r.probability_if_shown,
                                 needed: r.needed,
@@ -260,7 +276,7 @@ pub fn build(
                 BlockedReport {
                     attribute: a.id.clone(),
                     attribute_label: a.label.clone(),
-                    value_label: a.values[b.value].label.clone(),
+                    value_label: value_words(b.attribute, b.value).1,
                     probability: b.probability,
                     threshold: b.threshold,
                     prior_probability: b.prior_probability,
@@ -371,10 +387,18 @@ pub fn summary(o: &PlanOutcome, priors: &Priors) -> String {
             if let Some(inf) = &o.infeasibility {
                 for b in &inf.blocked {
                     let a = &priors.attributes[b.attribute];
+                    let stated = o
+                        .before
+                        .iter()
+                        .any(|x| x.attribute == b.attribute && x.true_value == Some(b.value));
                     s.push_str(&format!(
                         " {}: even with everything you allow hidden, {} is at {}, over your alert level of {}",
                         a.label,
-                        a.values[b.value].label,
+                        if stated {
+                            YOUR_VALUE
+                        } else {
+                            a.values[b.value].label.as_str()
+                        },
                         percent(b.probability),
                         percent(b.threshold)
                     ));

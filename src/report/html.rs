@@ -67,6 +67,19 @@ pub fn escape(s: &str) -> String {
 
 /// Write the HTML page; `top` limits the item table.
 pub fn write_html(r: &ScanReport, top: usize, out: &mut dyn Write) -> io::Result<()> {
+    write_html_with(r, top, out, &mut |_| Ok(()))
+}
+
+/// [`write_html`] with more sections (`extra`, e.g. a hiding plan) written after the
+/// item table, before the warnings and cautions. They share the page's style sheet
+/// (`.cards`, `.card`, `.scroll`, `table`, `.key`, `.meta`, `.note` and the chart
+/// classes) and must keep to its rules: no scripts, nothing loaded from anywhere.
+pub fn write_html_with(
+    r: &ScanReport,
+    top: usize,
+    out: &mut dyn Write,
+    extra: &mut dyn FnMut(&mut dyn Write) -> io::Result<()>,
+) -> io::Result<()> {
     let title = format!("What {} gives away", r.archive.name);
     writeln!(out, "<!doctype html>")?;
     writeln!(out, "<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">")?;
@@ -133,6 +146,7 @@ pub fn write_html(r: &ScanReport, top: usize, out: &mut dyn Write) -> io::Result
     writeln!(out, "</div>")?;
 
     write_items(r, top, out)?;
+    extra(out)?;
 
     if !r.warnings.is_empty() {
         writeln!(out, "<h2>Warnings</h2>\n<ul>")?;

@@ -14,7 +14,7 @@ pub use build::{
     ArchiveInfo, AttributeReport, ItemReport, PriorsInfo, REPORT_FORMAT, ScanReport, UnmatchedItem,
     ValueShare, build,
 };
-pub use html::{CONTENT_SECURITY_POLICY, write_html};
+pub use html::{CONTENT_SECURITY_POLICY, escape as escape_html, write_html, write_html_with};
 pub use markdown::write_markdown;
 pub use sources::{
     FriendAttributeReport, FriendsReport, SourceReport, SpecialCategoryCount, SpecialItemReport,

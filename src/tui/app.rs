@@ -7,10 +7,10 @@ use std::time::Instant;
 
 use crossterm::event::{KeyCode, KeyEvent, KeyModifiers};
 use telltale::evidence::Subject;
-use telltale::whatif::{ItemRow, RowQuery, Session, item_rows};
+use telltale::plan::{self, Method, PlanOutcome, PlanReport, Progress};
+use telltale::whatif::{ItemRow, PlanAsk, RowQuery, Session, item_rows};
 
 use super::keys::{Action, Place, action_for};
-use super::plan_adapter::{PlanAsk, PlanSuggestion};
 
 /// The screens.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -104,8 +104,15 @@ pub enum Goal {
     RealValue,
 }
 
+/// A finished plan: the library planner's answer and its report (names resolved).
+#[derive(Debug, Clone)]
+pub struct PlanResult {
+    pub outcome: PlanOutcome,
+    pub report: PlanReport,
+}
+
 /// The plan's state.
-#[derive(Debug, Clone, PartialEq, Default)]
+#[derive(Debug, Clone, Default)]
 pub enum PlanState {
     /// Not asked for, or out of date.
     #[default]
@@ -113,11 +120,29 @@ pub enum PlanState {
     Running {
         started: Instant,
         ask: PlanAsk,
+        /// The search's latest report of itself.
+        progress: Option<Progress>,
+        /// Esc was pressed: the search was told to stop and keep the best found.
+        stopping: bool,
     },
     Ready {
         ask: PlanAsk,
-        suggestion: PlanSuggestion,
+        result: Box<PlanResult>,
     },
+    /// The planner refused the request (a typed error, in words).
+    Failed { ask: PlanAsk, message: String },
+}
+
+impl PlanState {
+    /// The ask this state answers (or is working on).
+    pub fn ask(&self) -> Option<&PlanAsk> {
+        match self {
+            PlanState::Stale => None,
+            PlanState::Running { ask, .. }
+            | PlanState::Ready { ask, .. }
+            | PlanState::Failed { ask, .. } => Some(ask),
+        }
+    }
 }
 
 /// Something the event loop must do.
@@ -125,9 +150,14 @@ pub enum PlanState {
 pub enum Effect {
     SaveDecisions,
     MarkCautionsSeen,
-    Export { format: ExportFormat, path: PathBuf },
+    Export {
+        format: ExportFormat,
+        path: PathBuf,
+    },
+    /// Start planning (a running plan is cancelled and its answer dropped).
     StartPlan(PlanAsk),
-    CancelPlan,
+    /// Tell the running search to stop and answer with the best plan found so far.
+    StopPlan,
 }
 
 /// The explorer's whole state.
@@ -147,7 +177,11 @@ pub struct App {
     pub plan_cursor: usize,
     pub detail_scroll: u16,
     pub goal: Goal,
+    /// Exact search (default) or the quick greedy method.
+    pub method: Method,
     pub plan: PlanState,
+    /// How far the plan screen's lower part (items, coarse moves) is scrolled.
+    pub plan_scroll: u16,
     /// A one-line message for the footer, until the next key.
     pub status: Option<String>,
     pub quit: bool,
@@ -171,7 +205,9 @@ impl App {
             plan_cursor: 0,
             detail_scroll: 0,
             goal: Goal::default(),
+            method: Method::Exact,
             plan: PlanState::Stale,
+            plan_scroll: 0,
             status: None,
             quit: false,
             page: 10,
@@ -205,16 +241,14 @@ impl App {
 
     /// What the plan is asked to achieve now.
     pub fn plan_ask(&self) -> PlanAsk {
-        let s = &self.session;
-        let subjects: Vec<Subject> = s.subjects().collect();
-        PlanAsk {
-            targets: s.targets().to_vec(),
-            protect: match self.goal {
-                Goal::BestGuess => vec![None; s.n_attributes()],
-                Goal::RealValue => s.real_values().to_vec(),
-            },
-            keep: subjects.iter().copied().filter(|&x| s.is_kept(x)).collect(),
-            hidden: subjects.into_iter().filter(|&x| s.is_hidden(x)).collect(),
+        PlanAsk::from_session(&self.session, self.goal == Goal::RealValue, self.method)
+    }
+
+    /// The finished plan, if it answers the current state.
+    pub fn current_plan(&self) -> Option<&PlanResult> {
+        match &self.plan {
+            PlanState::Ready { ask, result } if *ask == self.plan_ask() => Some(result),
+            _ => None,
         }
     }
 
@@ -224,33 +258,56 @@ impl App {
             return Vec::new();
         }
         let ask = self.plan_ask();
-        match &self.plan {
-            PlanState::Ready { ask: a, .. } | PlanState::Running { ask: a, .. } if *a == ask => {
-                Vec::new()
-            }
-            PlanState::Running { .. } => {
-                self.plan = PlanState::Running {
-                    started: Instant::now(),
-                    ask: ask.clone(),
-                };
-                vec![Effect::CancelPlan, Effect::StartPlan(ask)]
-            }
-            _ => {
-                self.plan = PlanState::Running {
-                    started: Instant::now(),
-                    ask: ask.clone(),
-                };
-                vec![Effect::StartPlan(ask)]
-            }
+        if self.plan.ask() == Some(&ask) {
+            return Vec::new();
+        }
+        self.plan = PlanState::Running {
+            started: Instant::now(),
+            ask: ask.clone(),
+            progress: None,
+            stopping: false,
+        };
+        self.plan_scroll = 0;
+        vec![Effect::StartPlan(ask)]
+    }
+
+    /// The running search reported progress.
+    pub fn plan_progress(&mut self, p: Progress) {
+        if let PlanState::Running { progress, .. } = &mut self.plan {
+            *progress = Some(p);
         }
     }
 
-    /// A worker finished a plan.
-    pub fn plan_finished(&mut self, ask: PlanAsk, suggestion: PlanSuggestion) {
-        if matches!(&self.plan, PlanState::Running { ask: a, .. } if *a == ask) {
-            self.plan = PlanState::Ready { ask, suggestion };
-            self.plan_cursor = self.plan_cursor.min(self.plan_rows().saturating_sub(1));
+    /// A worker finished a plan. Answers to an older ask are dropped.
+    pub fn plan_finished(&mut self, ask: PlanAsk, result: Result<PlanOutcome, plan::Error>) {
+        let PlanState::Running {
+            ask: a, stopping, ..
+        } = &self.plan
+        else {
+            return;
+        };
+        if *a != ask {
+            return;
         }
+        if *stopping {
+            self.status = None;
+        }
+        self.plan = match result {
+            Ok(outcome) => {
+                let s = &self.session;
+                let report =
+                    plan::build_report(&s.scan.archive_name, s.footprint(), &s.priors, &outcome);
+                PlanState::Ready {
+                    ask,
+                    result: Box::new(PlanResult { outcome, report }),
+                }
+            }
+            Err(e) => PlanState::Failed {
+                ask,
+                message: format!("The planner refused: {e}"),
+            },
+        };
+        self.plan_cursor = self.plan_cursor.min(self.plan_rows().saturating_sub(1));
     }
 
     /// Rows of the plan screen's cursor: one per attribute.
@@ -478,6 +535,7 @@ impl App {
             };
             (cur as isize + d).clamp(0, len as isize - 1) as usize
         };
+        let paging = delta == 2 || delta == -2;
         let delta = match delta {
             2 => page,
             -2 => -page,
@@ -491,6 +549,13 @@ impl App {
             Screen::Items => self.item_cursor = step(self.item_cursor, self.rows.len(), delta),
             Screen::Values => {
                 self.values_cursor = step(self.values_cursor, self.session.n_attributes(), delta)
+            }
+            Screen::Plan if paging => {
+                self.plan_scroll = if delta < 0 {
+                    self.plan_scroll.saturating_sub(page as u16)
+                } else {
+                    self.plan_scroll.saturating_add(page as u16).min(2000)
+                }
             }
             Screen::Plan => self.plan_cursor = step(self.plan_cursor, self.plan_rows(), delta),
             Screen::Detail(_) => {
@@ -513,6 +578,22 @@ impl App {
             Action::Help => self.overlay = Some(Overlay::Help { scroll: 0 }),
             Action::Cautions => self.overlay = Some(Overlay::Cautions { first_run: false }),
             Action::Back => match self.screen {
+                Screen::Plan
+                    if matches!(
+                        self.plan,
+                        PlanState::Running {
+                            stopping: false,
+                            ..
+                        }
+                    ) =>
+                {
+                    if let PlanState::Running { stopping, .. } = &mut self.plan {
+                        *stopping = true;
+                    }
+                    self.status =
+                        Some("Stopping the search; the best plan found so far will show.".into());
+                    return vec![Effect::StopPlan];
+                }
                 Screen::Detail(_) => {
                     self.screen = self.detail_return;
                     return self.plan_effects();
@@ -678,20 +759,37 @@ impl App {
                 return self.plan_effects();
             }
             Action::AcceptPlan => {
-                if let PlanState::Ready { suggestion, .. } = &self.plan {
-                    let hide = suggestion.hide.clone();
-                    if hide.is_empty() {
-                        self.status = Some("Nothing to hide.".into());
-                        return Vec::new();
-                    }
-                    self.session.hide_all(&hide);
-                    self.status = Some(format!(
-                        "Hid {} item(s). u undoes all of them at once.",
-                        hide.len()
-                    ));
-                    return self.changed();
+                let Some(result) = self.current_plan() else {
+                    self.status = Some("The plan is not ready yet.".into());
+                    return Vec::new();
+                };
+                let hide = result
+                    .outcome
+                    .plan
+                    .as_ref()
+                    .map(|p| p.subjects())
+                    .unwrap_or_default();
+                if hide.is_empty() {
+                    self.status = Some(if result.outcome.plan.is_some() {
+                        "Nothing to hide.".into()
+                    } else {
+                        "There is no plan to accept.".into()
+                    });
+                    return Vec::new();
                 }
-                self.status = Some("The plan is not ready yet.".into());
+                self.session.hide_all(&hide);
+                self.status = Some(format!(
+                    "Hid {} item(s). u undoes all of them at once.",
+                    hide.len()
+                ));
+                return self.changed();
+            }
+            Action::SwitchMethod => {
+                self.method = match self.method {
+                    Method::Exact => Method::Greedy,
+                    Method::Greedy => Method::Exact,
+                };
+                return self.plan_effects();
             }
         }
         Vec::new()

@@ -37,6 +37,7 @@ pub enum Action {
     TargetUp,
     TargetDown,
     SwitchGoal,
+    SwitchMethod,
     AcceptPlan,
 }
 
@@ -199,7 +200,7 @@ pub const BINDINGS: &[Binding] = &[
         action: A::AcceptPlan,
         keys: &[K::Enter],
         scope: Scope::Plan,
-        help: "accept the whole suggestion: hide every item in it (one undo step)",
+        help: "accept the whole plan: hide every item in it (one undo step)",
         hint: Some("accept all"),
     },
     Binding {
@@ -222,6 +223,13 @@ pub const BINDINGS: &[Binding] = &[
         scope: Scope::Plan,
         help: "switch the goal: no confident best guess, or your real value not guessable",
         hint: Some("goal"),
+    },
+    Binding {
+        action: A::SwitchMethod,
+        keys: &[K::Char('m')],
+        scope: Scope::Plan,
+        help: "switch the method: exact search (proves the smallest) or the quick greedy one",
+        hint: Some("method"),
     },
     Binding {
         action: A::ToggleHide,
@@ -291,14 +299,14 @@ pub const BINDINGS: &[Binding] = &[
         action: A::PageUp,
         keys: &[K::PageUp],
         scope: Scope::Moving,
-        help: "one page up",
+        help: "one page up (plan screen: scrolls its lists)",
         hint: None,
     },
     Binding {
         action: A::PageDown,
         keys: &[K::PageDown],
         scope: Scope::Moving,
-        help: "one page down",
+        help: "one page down (plan screen: scrolls its lists)",
         hint: None,
     },
     Binding {
@@ -362,7 +370,7 @@ pub const BINDINGS: &[Binding] = &[
         action: A::Back,
         keys: &[K::Esc],
         scope: Scope::Everywhere,
-        help: "go back, close a window",
+        help: "go back; close a window; stop a plan search",
         hint: None,
     },
     Binding {

@@ -5,7 +5,6 @@
 
 mod app;
 mod keys;
-mod plan_adapter;
 mod run;
 mod terminal;
 mod theme;

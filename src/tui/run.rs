@@ -11,14 +11,14 @@ use std::time::{Duration, Instant};
 use anyhow::{Context, Result};
 use crossterm::event::{self, Event, KeyCode, KeyEventKind, KeyModifiers};
 use telltale::decisions::Store;
+use telltale::plan::{self, PlanOutcome, Progress, solve_with_progress};
 use telltale::priors::Priors;
-use telltale::report::{write_html, write_markdown};
+use telltale::report::{write_html_with, write_markdown};
 use telltale::safe_write::write_atomic;
 use telltale::scan::{Scan, ScanInput, load_priors};
-use telltale::whatif::Session;
+use telltale::whatif::{PlanAsk, Session};
 
 use super::app::{App, Effect, ExportFormat};
-use super::plan_adapter::{PlanAsk, PlanSuggestion, suggest};
 use super::terminal::{Guard, stop_flag};
 use super::theme::Theme;
 use super::view;
@@ -34,8 +34,17 @@ pub struct Options {
 
 type Loaded = Result<(Scan, Priors), String>;
 
-/// A running plan: its cancel flag and where its answer arrives.
-type PlanJob = (Arc<AtomicBool>, mpsc::Receiver<(PlanAsk, PlanSuggestion)>);
+/// What the plan worker sends: progress now and then, and the answer at the end.
+enum PlanMsg {
+    Progress(Progress),
+    Done(Box<(PlanAsk, Result<PlanOutcome, plan::Error>)>),
+}
+
+/// A running plan: its cancel flag and where its messages arrive.
+type PlanJob = (Arc<AtomicBool>, mpsc::Receiver<PlanMsg>);
+
+/// How often the worker reports progress at most.
+const PROGRESS_EVERY: Duration = Duration::from_millis(100);
 
 /// Run the explorer until the person quits.
 pub fn run(opts: Options) -> Result<()> {
@@ -155,13 +164,23 @@ pub fn run(opts: Options) -> Result<()> {
             dirty = false;
             last_tick = Instant::now();
         }
-        // A finished plan?
-        if let Some((_, rx)) = &plan_job
-            && let Ok((ask, suggestion)) = rx.try_recv()
-        {
-            app.plan_finished(ask, suggestion);
-            plan_job = None;
-            dirty = true;
+        // Progress or a finished plan?
+        if let Some((_, rx)) = &plan_job {
+            let mut done = false;
+            for msg in rx.try_iter() {
+                match msg {
+                    PlanMsg::Progress(p) => app.plan_progress(p),
+                    PlanMsg::Done(done_msg) => {
+                        let (ask, result) = *done_msg;
+                        app.plan_finished(ask, result);
+                        done = true;
+                    }
+                }
+            }
+            if done {
+                plan_job = None;
+                dirty = true;
+            }
         }
         if !poll(Duration::from_millis(100))? {
             continue;
@@ -190,8 +209,8 @@ pub fn run(opts: Options) -> Result<()> {
                 Effect::Export { format, path } => {
                     app.status = Some(export(&app, format, &path));
                 }
-                Effect::CancelPlan => {
-                    if let Some((cancel, _)) = plan_job.take() {
+                Effect::StopPlan => {
+                    if let Some((cancel, _)) = &plan_job {
                         cancel.store(true, Ordering::Relaxed);
                     }
                 }
@@ -200,14 +219,21 @@ pub fn run(opts: Options) -> Result<()> {
                         cancel.store(true, Ordering::Relaxed);
                     }
                     let cancel = Arc::new(AtomicBool::new(false));
-                    let (ptx, prx) = mpsc::channel();
+                    let request = ask.request(&app.session, Arc::clone(&cancel));
                     let exposure = app.session.exposure().clone();
-                    let flag = Arc::clone(&cancel);
+                    let (ptx, prx) = mpsc::channel();
                     std::thread::Builder::new()
                         .name("telltale-plan".into())
                         .spawn(move || {
-                            let s = suggest(&exposure, &ask, &flag);
-                            let _ = ptx.send((ask, s));
+                            let mut last: Option<Instant> = None;
+                            let mut report = |p: &Progress| {
+                                if last.is_none_or(|t| t.elapsed() >= PROGRESS_EVERY) {
+                                    last = Some(Instant::now());
+                                    let _ = ptx.send(PlanMsg::Progress(*p));
+                                }
+                            };
+                            let result = solve_with_progress(&exposure, &request, &mut report);
+                            let _ = ptx.send(PlanMsg::Done(Box::new((ask, result))));
                         })
                         .context("cannot start the plan worker")?;
                     plan_job = Some((cancel, prx));
@@ -244,16 +270,32 @@ fn read() -> std::io::Result<Option<Event>> {
     }
 }
 
-/// Write the report of the current state; returns the message for the footer.
-fn export(app: &App, format: ExportFormat, path: &std::path::Path) -> String {
+/// Write the report of the current state, with the hiding plan when one was worked
+/// out for it; returns the message for the footer.
+pub(super) fn export(app: &App, format: ExportFormat, path: &std::path::Path) -> String {
     let report = app.session.report();
+    let plan = app.current_plan().map(|p| &p.report);
     let result = write_atomic(path, |w| match format {
-        ExportFormat::Html => write_html(&report, EXPORT_TOP, w),
-        ExportFormat::Markdown => write_markdown(&report, EXPORT_TOP, w),
+        ExportFormat::Html => write_html_with(&report, EXPORT_TOP, w, &mut |out| match plan {
+            Some(p) => plan::write_html_section(p, out),
+            None => Ok(()),
+        }),
+        ExportFormat::Markdown => {
+            write_markdown(&report, EXPORT_TOP, w)?;
+            match plan {
+                Some(p) => plan::write_markdown_section(p, w),
+                None => Ok(()),
+            }
+        }
     });
     let shown = std::path::absolute(path).unwrap_or_else(|_| path.to_path_buf());
+    let with = if plan.is_some() {
+        " with the hiding plan"
+    } else {
+        " (no hiding plan: none worked out for the current marks; open screen 3 first)"
+    };
     match result {
-        Ok(()) => format!("Wrote {} (readable by you only).", shown.display()),
+        Ok(()) => format!("Wrote {}{with}, readable by you only.", shown.display()),
         Err(e) => format!("Could not write {}: {e}", shown.display()),
     }
 }

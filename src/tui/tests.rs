@@ -4,24 +4,32 @@
 
 use std::sync::Arc;
 use std::sync::atomic::AtomicBool;
+use std::time::Instant;
 
 use crossterm::event::{KeyCode, KeyEvent, KeyModifiers};
 use ratatui::Terminal;
 use ratatui::backend::TestBackend;
 use telltale::decisions::Decisions;
+use telltale::plan::{Budget, Method, Progress, Status, StopReason, solve};
 use telltale::scan::{Scan, ScanInput, load_priors};
 use telltale::text::display_width;
 use telltale::whatif::Session;
 
-use super::app::{App, Effect, ExportFormat, Overlay, PlanState, Screen};
-use super::plan_adapter::suggest;
+use super::app::{App, Effect, ExportFormat, Goal, Overlay, PlanState, Screen};
 use super::theme::Theme;
 use super::view;
 
 fn session() -> Session {
+    persona("reporter")
+}
+
+/// A demo persona's session, with no saved decisions.
+fn persona(name: &str) -> Session {
     let priors = load_priors(None).unwrap();
     let input = ScanInput {
-        archive: concat!(env!("CARGO_MANIFEST_DIR"), "/demo-exports/reporter").into(),
+        archive: std::path::Path::new(env!("CARGO_MANIFEST_DIR"))
+            .join("demo-exports")
+            .join(name),
         ..ScanInput::default()
     };
     let scan = Scan::run(&input, &priors).unwrap();
@@ -45,21 +53,35 @@ fn press(app: &mut App, keys: &str) -> Vec<Effect> {
     keys.chars().flat_map(|c| app.handle_key(key(c))).collect()
 }
 
-/// Run a requested plan to completion synchronously (the loop does it on a worker).
-fn finish_plan(app: &mut App, effects: &[Effect]) {
-    let ask = effects
+/// The plan the effects ask for.
+fn asked(effects: &[Effect]) -> telltale::whatif::PlanAsk {
+    effects
         .iter()
         .find_map(|e| match e {
             Effect::StartPlan(a) => Some(a.clone()),
             _ => None,
         })
-        .expect("a plan was requested");
-    let s = suggest(
-        app.session.exposure(),
-        &ask,
-        &Arc::new(AtomicBool::new(false)),
-    );
-    app.plan_finished(ask, s);
+        .expect("a plan was requested")
+}
+
+/// Run a requested plan synchronously with the request the loop's worker builds, but
+/// with a node budget instead of a clock (so the answer does not depend on the
+/// machine); `stopped` sets the cancel flag first, as Esc does.
+fn finish_plan_with(app: &mut App, effects: &[Effect], nodes: u64, stopped: bool) {
+    let ask = asked(effects);
+    let cancel = Arc::new(AtomicBool::new(stopped));
+    let mut req = ask.request(&app.session, Arc::clone(&cancel));
+    req.budget = Budget {
+        node_limit: nodes,
+        deadline: None,
+        cancel: Some(cancel),
+    };
+    let outcome = solve(app.session.exposure(), &req);
+    app.plan_finished(ask, outcome);
+}
+
+fn finish_plan(app: &mut App, effects: &[Effect]) {
+    finish_plan_with(app, effects, 20_000, false);
 }
 
 fn draw(app: &App, w: u16, h: u16) -> String {
@@ -191,7 +213,7 @@ fn overview_enter_lists_that_attributes_items_and_detail_round_trips() {
 
 #[test]
 fn real_value_and_plan_accept_all_is_one_undo_step() {
-    let mut app = app();
+    let mut app = App::new(persona("teacher"));
     press(&mut app, "4");
     app.handle_key(code(KeyCode::Enter));
     assert!(matches!(app.overlay, Some(Overlay::PickValue { .. })));
@@ -203,31 +225,27 @@ fn real_value_and_plan_accept_all_is_one_undo_step() {
     let fx = press(&mut app, "3");
     assert!(matches!(app.plan, PlanState::Running { .. }));
     finish_plan(&mut app, &fx);
-    let PlanState::Ready { suggestion, .. } = app.plan.clone() else {
-        panic!("plan not ready");
-    };
-    assert!(!suggestion.proven_smallest);
-    let n = suggestion.hide.len();
-    assert!(n > 0, "the demo reporter is exposed somewhere");
+    let result = app.current_plan().expect("plan ready").clone();
+    assert_eq!(result.outcome.status, Status::Optimal);
+    let hide = result.outcome.plan.as_ref().unwrap().subjects();
+    assert!(!hide.is_empty(), "the demo teacher is exposed somewhere");
     let fx = app.handle_key(code(KeyCode::Enter));
     assert!(fx.contains(&Effect::SaveDecisions));
-    assert_eq!(app.session.hidden_count(), n);
-    // After accepting, a new plan is asked for (the state changed).
-    assert!(fx.iter().any(|e| matches!(e, Effect::StartPlan(_))));
+    assert_eq!(app.session.hidden_count(), hide.len());
+    assert!(hide.iter().all(|&s| app.session.is_hidden(s)));
+    // After accepting, a new plan is asked for (the state changed) and, re-planned,
+    // nothing more needs hiding (the accepted set meets every alert level).
+    finish_plan(&mut app, &fx);
+    let again = app.current_plan().unwrap();
+    assert_eq!(again.outcome.status, Status::Optimal);
+    assert!(again.outcome.plan.as_ref().unwrap().is_empty());
     press(&mut app, "u");
     assert_eq!(app.session.hidden_count(), 0);
 
     // The goal switches to the real value once one is stated.
     let fx = press(&mut app, "g");
-    assert_eq!(app.goal, super::app::Goal::RealValue);
-    let ask = fx
-        .iter()
-        .find_map(|e| match e {
-            Effect::StartPlan(a) => Some(a.clone()),
-            _ => None,
-        })
-        .unwrap();
-    assert_eq!(ask.protect[0], Some(0));
+    assert_eq!(app.goal, Goal::RealValue);
+    assert_eq!(asked(&fx).true_values[0], Some(0));
 }
 
 #[test]
@@ -235,7 +253,7 @@ fn goal_switch_needs_a_real_value() {
     let mut app = app();
     press(&mut app, "3");
     press(&mut app, "g");
-    assert_eq!(app.goal, super::app::Goal::BestGuess);
+    assert_eq!(app.goal, Goal::BestGuess);
     assert!(app.status.as_deref().unwrap().contains("real value"));
 }
 
@@ -374,10 +392,162 @@ fn snapshot_detail() {
 
 #[test]
 fn snapshot_plan() {
+    // The reporter within a fixed search budget: the best plan found, not proven.
     let mut app = app();
     let fx = press(&mut app, "3");
     finish_plan(&mut app, &fx);
+    let o = &app.current_plan().unwrap().outcome;
+    assert_eq!(o.status, Status::Feasible);
+    assert_eq!(o.stopped, Some(StopReason::NodeLimit));
     snap_all("plan", &app);
+}
+
+#[test]
+fn snapshot_plan_proven() {
+    let mut app = App::new(persona("teacher"));
+    let fx = press(&mut app, "3");
+    finish_plan(&mut app, &fx);
+    assert_eq!(app.current_plan().unwrap().outcome.status, Status::Optimal);
+    let screen = draw(&app, 80, 24);
+    assert!(screen.contains("Proven smallest"));
+    snap_all("plan_proven", &app);
+    // PgDn scrolls to the usual advice (the coarse moves).
+    app.handle_key(code(KeyCode::PageDown));
+    let screen = draw(&app, 80, 24);
+    assert!(
+        screen.contains("What the usual advice would do"),
+        "{screen}"
+    );
+    snap_all("plan_proven_scrolled", &app);
+}
+
+#[test]
+fn snapshot_plan_stopped_early() {
+    // Esc while searching: the search is told to stop, then shows the best found.
+    let mut app = app();
+    let fx = press(&mut app, "3");
+    let stop = app.handle_key(code(KeyCode::Esc));
+    assert_eq!(stop, vec![Effect::StopPlan]);
+    assert_eq!(
+        app.screen,
+        Screen::Plan,
+        "Esc stops the search, it does not leave"
+    );
+    finish_plan_with(&mut app, &fx, u64::MAX, true);
+    let o = &app.current_plan().unwrap().outcome;
+    assert_eq!(o.status, Status::Feasible);
+    assert_eq!(o.stopped, Some(StopReason::Cancelled));
+    assert!(draw(&app, 80, 24).contains("you stopped the search"));
+    snap_all("plan_stopped", &app);
+    // Esc again (nothing running) goes back.
+    app.handle_key(code(KeyCode::Esc));
+    assert_eq!(app.screen, Screen::Overview);
+}
+
+#[test]
+fn snapshot_plan_impossible() {
+    // Political leaning has 5 values: an alert level of 15% is below 1 in 5, so no
+    // plan exists (the probabilities add up to 1).
+    let mut app = App::new(persona("teacher"));
+    let mut fx = press(&mut app, "3jj");
+    for _ in 0..7 {
+        fx = press(&mut app, "-");
+    }
+    assert!((app.session.target(2) - 0.15).abs() < 1e-9);
+    finish_plan(&mut app, &fx);
+    let r = app.current_plan().unwrap();
+    assert_eq!(r.outcome.status, Status::Infeasible);
+    assert!(r.outcome.plan.is_none());
+    let screen = draw(&app, 80, 24);
+    assert!(screen.contains("Impossible"), "{screen}");
+    assert!(screen.contains("What stands in the way"), "{screen}");
+    snap_all("plan_impossible", &app);
+    // Nothing to accept.
+    app.handle_key(code(KeyCode::Enter));
+    assert_eq!(app.session.hidden_count(), 0);
+}
+
+#[test]
+fn snapshot_plan_true_value_and_keep() {
+    // The teacher states a real religion that is not the observer's best guess and
+    // keeps the plan's first item: the plan protects that value and never hides the
+    // kept item.
+    let mut app = App::new(persona("teacher"));
+    let fx = press(&mut app, "3");
+    finish_plan(&mut app, &fx);
+    let first = app
+        .current_plan()
+        .unwrap()
+        .outcome
+        .plan
+        .as_ref()
+        .unwrap()
+        .hide[0]
+        .subject;
+    app.session.toggle_kept(first);
+    let religion = app.session.n_attributes() - 1;
+    let christian = app.session.priors.attributes[religion]
+        .value_index("christian")
+        .unwrap();
+    app.session.set_real_value(religion, Some(christian));
+    let fx = press(&mut app, "g");
+    assert_eq!(app.goal, Goal::RealValue);
+    let ask = asked(&fx);
+    assert_eq!(ask.true_values[religion], Some(christian));
+    assert!(ask.keep.contains(&first));
+    finish_plan(&mut app, &fx);
+    let r = app.current_plan().unwrap();
+    let after = r
+        .outcome
+        .after
+        .iter()
+        .find(|a| a.attribute == religion)
+        .unwrap();
+    assert_eq!(after.watched, christian);
+    assert!(after.meets);
+    assert!(!r.outcome.plan.as_ref().unwrap().subjects().contains(&first));
+    let screen = draw(&app, 80, 24);
+    assert!(screen.contains("your real values"), "{screen}");
+    snap_all("plan_true_value", &app);
+}
+
+#[test]
+fn snapshot_plan_greedy() {
+    let mut app = app();
+    press(&mut app, "3");
+    let fx = press(&mut app, "m");
+    assert_eq!(app.method, Method::Greedy);
+    assert_eq!(asked(&fx).method, Method::Greedy);
+    finish_plan(&mut app, &fx);
+    assert!(draw(&app, 80, 24).contains("Quick greedy suggestion"));
+    snap_all("plan_greedy", &app);
+}
+
+#[test]
+fn plan_progress_shows_and_old_answers_are_dropped() {
+    let mut app = app();
+    let fx = press(&mut app, "3");
+    app.plan_progress(Progress {
+        nodes: 1234,
+        best_cost: Some(15.0),
+        lower_bound: 8.0,
+        elapsed: std::time::Duration::from_millis(1500),
+    });
+    let screen = draw(&app, 80, 24);
+    assert!(screen.contains("Best so far 15 items"), "{screen}");
+    assert!(screen.contains("at least 8 items needed"), "{screen}");
+    assert!(screen.contains("Esc stops"), "{screen}");
+    // The state changes before the answer arrives: the answer to the old ask is
+    // dropped and the new ask is running.
+    let old = asked(&fx);
+    press(&mut app, "+");
+    let PlanState::Running { ask, started, .. } = &app.plan else {
+        panic!("not running")
+    };
+    assert_ne!(*ask, old);
+    assert!(*started <= Instant::now());
+    finish_plan(&mut app, &fx);
+    assert!(matches!(app.plan, PlanState::Running { .. }));
 }
 
 #[test]
@@ -417,4 +587,47 @@ fn snapshot_export() {
     let mut app = app();
     press(&mut app, "e");
     snap_all("export", &app);
+}
+
+#[test]
+fn export_includes_the_plan_only_when_it_answers_the_current_state() {
+    let dir = tempfile::tempdir().unwrap();
+    let mut app = App::new(persona("teacher"));
+    let fx = press(&mut app, "3");
+    finish_plan(&mut app, &fx);
+    let names: Vec<String> = app
+        .current_plan()
+        .unwrap()
+        .report
+        .plan
+        .as_ref()
+        .unwrap()
+        .items
+        .iter()
+        .map(|i| i.name.clone())
+        .collect();
+    let md = dir.path().join("r.md");
+    let msg = super::run::export(&app, ExportFormat::Markdown, &md);
+    assert!(msg.contains("with the hiding plan"), "{msg}");
+    let text = std::fs::read_to_string(&md).unwrap();
+    assert!(text.contains("## Hiding plan"));
+    assert!(text.contains("### Items to hide"));
+    for n in &names {
+        assert!(text.contains(n.as_str()), "{n} missing");
+    }
+    let html = dir.path().join("r.html");
+    super::run::export(&app, ExportFormat::Html, &html);
+    let page = std::fs::read_to_string(&html).unwrap();
+    let at = page.find("<h2>Hiding plan</h2>").expect("plan section");
+    assert!(at < page.find("</main>").unwrap());
+    assert!(!page.contains("<script"));
+    // Change a mark: the plan no longer answers the state and is left out.
+    press(&mut app, "2x");
+    let msg = super::run::export(&app, ExportFormat::Markdown, &md);
+    assert!(msg.contains("no hiding plan"), "{msg}");
+    assert!(
+        !std::fs::read_to_string(&md)
+            .unwrap()
+            .contains("Hiding plan")
+    );
 }

@@ -156,6 +156,10 @@ pub fn page_rows(app: &App, area: Rect) -> usize {
     let body = area.height.saturating_sub(2);
     match app.screen {
         Screen::Items => items::list_rows(area.width, body, app.session.n_attributes()),
+        // The plan screen pages its lower part, under the goal, status and table.
+        Screen::Plan => body
+            .saturating_sub(app.session.n_attributes() as u16 + 7)
+            .max(1) as usize,
         _ => body.saturating_sub(2).max(1) as usize,
     }
 }

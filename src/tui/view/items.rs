@@ -80,7 +80,7 @@ pub fn render(app: &App, frame: &mut Frame, area: Rect, theme: Theme) {
     let (mark_w, kind_w, away_w, bits_w, adds_w) = if wide {
         (5, 7, 34, 6, 7)
     } else {
-        (5, 6, 20, 5, 6)
+        (5, 7, 20, 5, 6)
     };
     let (alike_w, date_w) = if wide { (6, 11) } else { (0, 0) };
     let extra = if wide { alike_w + date_w + 2 } else { 0 };

@@ -1,18 +1,119 @@
-//! The hiding plan: the goal, each attribute now and after the suggested hiding, and
-//! the suggested items; Enter accepts them all as one undoable step.
+//! The hiding plan: the goal and method, what the planner could prove (smallest,
+//! best found when stopped, impossible, or a quick greedy suggestion), each attribute
+//! now and with the plan, then — scrolling with PgUp/PgDn — the items to hide with why,
+//! what the usual coarse moves would do, and what stands in the way when no plan
+//! exists. Everything shown comes from the library planner's outcome and report.
 
 use ratatui::Frame;
 use ratatui::layout::Rect;
 use ratatui::text::{Line, Span};
 use ratatui::widgets::Paragraph;
-use telltale::reading::{level, percent};
-use telltale::whatif::subject_name;
+use telltale::plan::{Method, PlanReport, Status, StopReason};
+use telltale::reading::{Level, level, percent};
+use telltale::whatif::PLAN_TIME_LIMIT;
 
 use super::widgets::{cell, cell_right, fit, wrap};
-use crate::tui::app::{App, Goal, PlanState};
+use crate::tui::app::{App, Goal, PlanResult, PlanState};
 use crate::tui::theme::{Theme, level_tag};
 
 const SPINNER: [char; 4] = ['|', '/', '-', '\\'];
+
+fn count(n: f64) -> String {
+    let n = n.ceil().max(0.0) as u64;
+    if n == 1 {
+        "1 item".into()
+    } else {
+        format!("{n} items")
+    }
+}
+
+/// The status lines: what is known about the plan, in words.
+fn status_lines(app: &App, w: usize, theme: Theme) -> Vec<Line<'static>> {
+    let (text, style) = match &app.plan {
+        PlanState::Stale => ("Working out a plan…".to_string(), theme.dim()),
+        PlanState::Running {
+            started,
+            progress,
+            stopping,
+            ..
+        } => {
+            let secs = started.elapsed().as_secs_f64();
+            let spin = SPINNER[((secs * 8.0) as usize) % SPINNER.len()];
+            let mut t = format!(
+                "{spin} Searching for the smallest plan: {secs:.1} s (at most {} s). {}",
+                PLAN_TIME_LIMIT.as_secs(),
+                if *stopping {
+                    "Stopping…"
+                } else {
+                    "Esc stops and keeps the best found."
+                }
+            );
+            if let Some(p) = progress {
+                let mut line = p.best_cost.map_or("No plan yet".to_string(), |b| {
+                    format!("Best so far {}", count(b))
+                });
+                if p.lower_bound > 0.0 {
+                    line.push_str(&format!("; at least {} needed", count(p.lower_bound)));
+                }
+                line.push_str(&format!(" ({} search steps).", p.nodes));
+                t = format!("{t}\n{line}");
+            }
+            (t, theme.dim())
+        }
+        PlanState::Failed { message, .. } => (message.clone(), theme.warning()),
+        PlanState::Ready { result, .. } => ready_words(result, theme),
+    };
+    text.lines()
+        .flat_map(|para| wrap(para, w.saturating_sub(4)))
+        .map(|l| Line::styled(format!("  {l}"), style))
+        .collect()
+}
+
+fn ready_words(r: &PlanResult, theme: Theme) -> (String, ratatui::style::Style) {
+    let o = &r.outcome;
+    let n = o.plan.as_ref().map_or(0, |p| p.len());
+    let t = match (o.method, o.status) {
+        (_, Status::Optimal) if n == 0 => {
+            "✓ Nothing needs hiding: every attribute is already under its alert level.".into()
+        }
+        (Method::Exact, Status::Optimal) => {
+            format!("✓ Proven smallest: no set of fewer than {n} items does it.")
+        }
+        (Method::Exact, Status::Feasible) => {
+            let why = match o.stopped {
+                Some(StopReason::Cancelled) => "you stopped the search",
+                Some(StopReason::Deadline) => "the time limit was reached",
+                Some(StopReason::NodeLimit) => "the search limit was reached",
+                None => "the search could not prove more",
+            };
+            let mut t = format!("◆ Best found when stopped ({why}): a smaller set may exist");
+            if let Some(lb) = o.lower_bound {
+                t.push_str(&format!("; at least {} needed", count(lb)));
+            }
+            t.push('.');
+            t
+        }
+        (Method::Greedy, Status::Feasible | Status::Optimal) => {
+            "◆ Quick greedy suggestion, not proven smallest. m runs the exact search.".into()
+        }
+        (_, Status::Infeasible) => {
+            "▲ Impossible: no set of items you allow hidden meets every alert level; why is below."
+                .into()
+        }
+        (Method::Exact, Status::Unknown) => format!(
+            "▲ No plan found within {} s, and none proven impossible (see below).",
+            PLAN_TIME_LIMIT.as_secs()
+        ),
+        (Method::Greedy, _) => {
+            "▲ The quick greedy method found no plan. m runs the exact search.".into()
+        }
+    };
+    let style = match o.status {
+        Status::Optimal => theme.title(),
+        _ => theme.warning(),
+    };
+    (t, style)
+}
 
 pub fn render(app: &App, frame: &mut Frame, area: Rect, theme: Theme) {
     let w = area.width as usize;
@@ -22,42 +123,23 @@ pub fn render(app: &App, frame: &mut Frame, area: Rect, theme: Theme) {
         Goal::BestGuess => "no best guess above your alert level",
         Goal::RealValue => "your real values not guessable above your alert level",
     };
+    let method = match app.method {
+        Method::Exact => "exact",
+        Method::Greedy => "quick",
+    };
     lines.push(fit(
         Line::from(vec![
             Span::styled("  Goal: ", theme.dim()),
             Span::styled(goal, theme.title()),
+            Span::styled(format!(" · method: {method}"), theme.dim()),
         ]),
         w,
     ));
-    let status: Line<'static> = match &app.plan {
-        PlanState::Stale => Line::styled("  Working out a plan…", theme.dim()),
-        PlanState::Running { started, .. } => {
-            let secs = started.elapsed().as_secs_f64();
-            let spin = SPINNER[((secs * 8.0) as usize) % SPINNER.len()];
-            Line::styled(
-                format!(
-                    "  {spin} working out a plan… {secs:.1} s (keep using the other screens meanwhile)"
-                ),
-                theme.dim(),
-            )
-        }
-        PlanState::Ready { suggestion, .. } => {
-            let mut spans = vec![Span::styled(
-                format!("  Method: {}", suggestion.method),
-                if suggestion.proven_smallest {
-                    theme.dim()
-                } else {
-                    theme.warning()
-                },
-            )];
-            if suggestion.cancelled {
-                spans.push(Span::raw(" (stopped early)"));
-            }
-            Line::from(spans)
-        }
+    let ready = match &app.plan {
+        PlanState::Ready { result, .. } => Some(result.as_ref()),
+        _ => None,
     };
-    lines.push(fit(status, w));
-    lines.push(Line::raw(""));
+    lines.extend(status_lines(app, w, theme).into_iter().map(|l| fit(l, w)));
 
     let label_w = 18.min(w / 4);
     let col_w = (w.saturating_sub(label_w + 4 + 7 + 2) / 2).max(10);
@@ -67,27 +149,23 @@ pub fn render(app: &App, frame: &mut Frame, area: Rect, theme: Theme) {
         cell_right("alert", 6, theme.dim()),
         Span::raw("  "),
         cell("now", col_w, theme.dim()),
-        cell("after the suggestion", col_w, theme.dim()),
+        cell("with the plan", col_w, theme.dim()),
     ]));
-    let after = match &app.plan {
-        PlanState::Ready { suggestion, .. } => Some(&suggestion.after),
-        _ => None,
-    };
     for (a, attr) in s.priors.attributes.iter().enumerate() {
         let selected = a == app.plan_cursor;
         let protect = match app.goal {
             Goal::RealValue => s.real_value(a),
             Goal::BestGuess => None,
         };
-        let describe = |probs: &[f64], best: usize| -> (String, telltale::reading::Level) {
-            let target = s.target(a);
+        let target = s.target(a);
+        let describe = |probs: &[f64], best: usize| -> (String, Level) {
             match protect {
                 Some(v) => {
                     let p = probs[v];
                     let lv = if p > target {
-                        telltale::reading::Level::Exposed
+                        Level::Exposed
                     } else {
-                        telltale::reading::Level::Quiet
+                        Level::Quiet
                     };
                     (format!("yours {} {}", attr.values[v].label, percent(p)), lv)
                 }
@@ -100,13 +178,7 @@ pub fn render(app: &App, frame: &mut Frame, area: Rect, theme: Theme) {
                 }
             }
         };
-        let describe = |probs: &[f64], best: usize| -> (String, telltale::reading::Level) {
-            let (mut text, lv) = describe(probs, best);
-            if lv == telltale::reading::Level::Exposed && text.ends_with(&percent(s.target(a))) {
-                text.push_str(" (just over)");
-            }
-            (text, lv)
-        };
+        let tag_short = |lv| level_tag(lv).split(' ').next().unwrap_or("").to_string();
         let now = s.posterior(a);
         let (now_text, now_level) = describe(&now.probs, now.best);
         let mut spans = vec![
@@ -120,16 +192,15 @@ pub fn render(app: &App, frame: &mut Frame, area: Rect, theme: Theme) {
                     theme.title()
                 },
             ),
-            cell_right(&percent(s.target(a)), 6, theme.title()),
+            cell_right(&percent(target), 6, theme.title()),
             Span::raw("  "),
+            cell(
+                &format!("{} {now_text}", tag_short(now_level)),
+                col_w,
+                theme.level(now_level),
+            ),
         ];
-        let tag_short = |lv| level_tag(lv).split(' ').next().unwrap_or("").to_string();
-        spans.push(cell(
-            &format!("{} {now_text}", tag_short(now_level)),
-            col_w,
-            theme.level(now_level),
-        ));
-        if let Some(after) = after.and_then(|v| v.get(a)) {
+        if let Some(after) = ready.and_then(|r| r.outcome.after.iter().find(|x| x.attribute == a)) {
             let (t, lv) = describe(&after.probs, after.best);
             spans.push(cell(
                 &format!("{} {t}", tag_short(lv)),
@@ -141,44 +212,175 @@ pub fn render(app: &App, frame: &mut Frame, area: Rect, theme: Theme) {
     }
     lines.push(Line::raw(""));
 
-    if let PlanState::Ready { suggestion, .. } = &app.plan {
-        let n = suggestion.hide.len();
-        let head = if n == 0 && suggestion.reaches_goal {
-            "  Nothing needs hiding: every attribute is already under its alert level.".to_string()
-        } else if n == 0 {
-            "  Hiding more would not help (items marked keep stay visible).".to_string()
-        } else if suggestion.reaches_goal {
-            format!("  Suggested: hide these {n} item(s). Enter hides them all.")
-        } else {
-            format!(
-                "Hiding these {n} item(s) helps but does not bring every attribute under its alert level. Raise a level with +, or take keep marks away."
-            )
-        };
-        for l in wrap(head.trim_start(), w.saturating_sub(4)) {
-            lines.push(Line::styled(format!("  {l}"), theme.title()));
-        }
+    // The scrolling part.
+    if let Some(r) = ready {
+        let details = detail_lines(&r.report, w, theme);
         let room = (area.height as usize).saturating_sub(lines.len());
-        for (k, &subject) in suggestion.hide.iter().enumerate() {
-            if k + 1 == room && n > room {
-                lines.push(Line::styled(
-                    format!("    … and {} more", n - k),
-                    theme.dim(),
-                ));
-                break;
-            }
-            let kind = match subject {
-                telltale::evidence::Subject::Item(i) => s.footprint().items[i].kind.as_str(),
-                telltale::evidence::Subject::FriendList => "friends",
-            };
-            lines.push(fit(
-                Line::from(vec![
-                    Span::raw("    "),
-                    cell(kind, 7, theme.dim()),
-                    Span::raw(subject_name(s.footprint(), subject).to_string()),
-                ]),
-                w,
+        let max_scroll = details.len().saturating_sub(room);
+        let from = (app.plan_scroll as usize).min(max_scroll);
+        let more_below = details.len() > from + room;
+        let take = if more_below {
+            room.saturating_sub(1)
+        } else {
+            room
+        };
+        lines.extend(details.into_iter().skip(from).take(take));
+        if more_below {
+            lines.push(Line::styled(
+                "  … more below: PgDn".to_string(),
+                theme.dim(),
             ));
         }
     }
     frame.render_widget(Paragraph::new(lines), area);
+}
+
+/// The items to hide with why, the coarse moves and the obstacles, as lines.
+fn detail_lines(r: &PlanReport, w: usize, theme: Theme) -> Vec<Line<'static>> {
+    let mut lines: Vec<Line<'static>> = Vec::new();
+    let para = |lines: &mut Vec<Line<'static>>, text: &str, style| {
+        for l in wrap(text, w.saturating_sub(4)) {
+            lines.push(Line::styled(format!("  {l}"), style));
+        }
+    };
+    if let Some(plan) = &r.plan
+        && !plan.items.is_empty()
+    {
+        para(
+            &mut lines,
+            &format!(
+                "Hide these {} (Enter hides them all, u undoes) — and why:",
+                count(plan.count as f64)
+            ),
+            theme.title(),
+        );
+        let name_w = (w.saturating_sub(13) * 2 / 5).clamp(16, 44);
+        let why_w = w.saturating_sub(4 + 7 + name_w + 1);
+        for item in &plan.items {
+            let why: Vec<String> = item
+                .reasons
+                .iter()
+                .take(if why_w > 70 { 2 } else { 1 })
+                .map(|x| {
+                    let mut t = format!(
+                        "{}: {} {:+.2} bits",
+                        x.attribute_label, x.value_label, x.bits
+                    );
+                    if x.needed && why_w > 50 {
+                        t.push_str(&format!(" (shown: {})", percent(x.probability_if_shown)));
+                    }
+                    t
+                })
+                .collect();
+            lines.push(fit(
+                Line::from(vec![
+                    Span::raw("    "),
+                    cell(&item.kind, 7, theme.dim()),
+                    cell(&item.name, name_w, theme.title()),
+                    Span::raw(" "),
+                    Span::styled(why.join("; "), theme.dim()),
+                ]),
+                w,
+            ));
+        }
+        lines.push(Line::raw(""));
+    }
+    if let Some(inf) = &r.infeasible {
+        para(&mut lines, "What stands in the way:", theme.title());
+        for b in &inf.blocked {
+            let mut t = format!(
+                "• {}: with everything you allow hidden, {} is still at {} (alert level {}).",
+                b.attribute_label,
+                b.value_label,
+                percent(b.probability),
+                percent(b.threshold)
+            );
+            if b.threshold * (b.values as f64) < 1.0 {
+                t.push_str(&format!(
+                    " With {} values some guess always has at least {}: raise the level with +.",
+                    b.values,
+                    percent(1.0 / b.values as f64)
+                ));
+            } else if b.prior_probability > b.threshold {
+                t.push_str(&format!(
+                    " Even with nothing visible the model gives {}: raise the level with +.",
+                    percent(b.prior_probability)
+                ));
+            }
+            if !b.kept_items.is_empty() {
+                let names: Vec<&str> = b
+                    .kept_items
+                    .iter()
+                    .take(3)
+                    .map(|(n, _)| n.as_str())
+                    .collect();
+                t.push_str(&format!(
+                    " Items you keep that give it away: {}.",
+                    names.join(", ")
+                ));
+            }
+            para(&mut lines, &t, theme.warning());
+        }
+        for (x, y) in &inf.conflicts {
+            let label = |id: &String| {
+                r.attributes
+                    .iter()
+                    .find(|a| &a.id == id)
+                    .map_or(id.clone(), |a| a.label.clone())
+            };
+            para(
+                &mut lines,
+                &format!(
+                    "• {} and {} can each be met alone, but not together.",
+                    label(x),
+                    label(y)
+                ),
+                theme.warning(),
+            );
+        }
+        lines.push(Line::raw(""));
+    }
+    if !r.coarse_moves.is_empty() {
+        para(&mut lines, "What the usual advice would do:", theme.title());
+        let plan_n = r.plan.as_ref().map(|p| p.count);
+        for m in &r.coarse_moves {
+            let mut t = if m.meets_all {
+                format!("• To {}: every attribute under its level", m.description)
+            } else {
+                format!(
+                    "• To {}: {} of {} attributes under their levels",
+                    m.description,
+                    m.attributes_met,
+                    m.after.len()
+                )
+            };
+            if let Some(n) = plan_n
+                && n > 0
+                && m.hides > 0
+            {
+                t.push_str(&format!(" ({} hidden against the plan's {n})", m.hides));
+            }
+            t.push('.');
+            para(&mut lines, &t, theme.dim());
+        }
+        lines.push(Line::raw(""));
+    }
+    let mut how = format!(
+        "{} item(s) with evidence considered, {} without evidence left out, {} kept by you.",
+        r.search.candidates, r.search.pruned, r.search.kept
+    );
+    match (r.greedy.count, r.greedy.excess_over_plan) {
+        (Some(n), Some(x)) if x > 1e-9 => how.push_str(&format!(
+            " The quick greedy method found {}, {} more.",
+            count(n as f64),
+            x.round()
+        )),
+        (Some(n), _) => how.push_str(&format!(
+            " The quick greedy method found {} too.",
+            count(n as f64)
+        )),
+        (None, _) => how.push_str(" The quick greedy method found no plan."),
+    }
+    para(&mut lines, &how, theme.dim());
+    lines
 }
