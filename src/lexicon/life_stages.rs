@@ -207,6 +207,18 @@ confidence = 0.5
         assert!(ls.find("Chess Club").is_none());
     }
 
+    // French elision: the name key joins apostrophes ("d'élèves" → "deleves"), so the
+    // bundled pattern must be written joined too. Phrase from French school usage
+    // ("association de parents d'élèves"), from memory.
+    #[test]
+    fn bundled_rules_read_french_elision() {
+        let ls = crate::lexicon::bundled::life_stages();
+        let m = ls.find("Association des parents d'élèves de l'école Jaurès");
+        assert_eq!(m.map(|m| m.rule.id.as_str()), Some("school-parent"));
+        let m = ls.find("Parents d’élèves (Lyon)");
+        assert_eq!(m.map(|m| m.rule.id.as_str()), Some("school-parent"));
+    }
+
     #[test]
     fn problems_are_listed() {
         let bad = "format = 1\n[[rule]]\nid = \"x\"\nlabel = \"x\"\npatterns = [\"  \"]\nstages = [{ ages = [30, 20] }]\nconfidence = 2\n";
