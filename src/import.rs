@@ -36,6 +36,17 @@ pub fn import(
     mapping: &Mapping,
     limits: &Limits,
 ) -> Result<Footprint, Error> {
+    import_with_progress(archive, mapping, limits, &mut |_, _| {})
+}
+
+/// As [`import`], telling `progress(done, total)` in declared bytes of the mapped
+/// entries after each one is read (for a progress bar on long imports).
+pub fn import_with_progress(
+    archive: &mut Archive,
+    mapping: &Mapping,
+    limits: &Limits,
+    progress: &mut dyn FnMut(u64, u64),
+) -> Result<Footprint, Error> {
     let mut budget = ReadBudget::new(limits);
     let mut state = State::new(limits.records);
     if archive.entries().is_empty() {
@@ -77,9 +88,13 @@ pub fn import(
     }
     wanted.sort_by_key(|(e, _)| entries[*e].path.clone());
 
+    let total: u64 = wanted.iter().map(|(e, _)| entries[*e].size).sum();
+    let mut done = 0u64;
+    progress(done, total);
     let mut hasher = Sha256::new();
     for (e_idx, sources) in &wanted {
         let entry = &entries[*e_idx];
+        done += entry.size;
         let bytes = match archive.read(entry, &mut budget) {
             Ok(b) => b,
             Err(e @ archive::Error::Limit { .. }) => return Err(e.into()),
@@ -126,6 +141,7 @@ pub fn import(
                 });
             }
         }
+        progress(done, total);
     }
     let digest = hasher.finalize();
     state.footprint.fingerprint = digest[..16].iter().map(|b| format!("{b:02x}")).collect();

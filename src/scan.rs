@@ -68,6 +68,15 @@ pub struct Scan {
 impl Scan {
     /// Import an archive and score it against the priors.
     pub fn run(input: &ScanInput, priors: &Priors) -> Result<Scan, Error> {
+        Scan::run_with_progress(input, priors, &mut |_, _| {})
+    }
+
+    /// As [`Scan::run`], telling `progress(done, total)` in bytes while importing.
+    pub fn run_with_progress(
+        input: &ScanInput,
+        priors: &Priors,
+        progress: &mut dyn FnMut(u64, u64),
+    ) -> Result<Scan, Error> {
         let mut archive = Archive::open(&input.archive, &input.limits)?;
         let mapping = match &input.mapping {
             Some(p) => Mapping::load(p)?,
@@ -76,7 +85,8 @@ impl Scan {
                 Mapping::parse(&found.text, &found.origin)?
             }
         };
-        let mut footprint = import::import(&mut archive, &mapping, &input.limits)?;
+        let mut footprint =
+            import::import_with_progress(&mut archive, &mapping, &input.limits, progress)?;
         if let Some(path) = &input.friends_file {
             merge_friends_file(&mut footprint, path, priors)?;
         }

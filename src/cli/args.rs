@@ -84,6 +84,52 @@ pub enum SynthCommand {
     /// Write a cohort of invented members' archives (layout A, with their declared
     /// attributes) and the mapping beside them, for `priors build` and `eval`.
     Cohort(SynthCohortArgs),
+    /// Write the large benchmark archive (100,000 likes, 10,000 groups, 5,000
+    /// friends, media padding) as a zip with its mapping inside.
+    Large(SynthLargeArgs),
+    /// Write the large benchmark priors file (1,000,000 items × 4 attributes) whose
+    /// items the large archive is drawn from (use the same seed).
+    PriorsLarge(SynthPriorsLargeArgs),
+}
+
+#[derive(Debug, Args)]
+pub struct SynthLargeArgs {
+    /// Zip file to write.
+    pub out: PathBuf,
+    /// Random seed; the same seed gives the same archive.
+    #[arg(long, default_value_t = 11)]
+    pub seed: u64,
+    /// Media padding in MiB (never read by an import).
+    #[arg(long, value_name = "MB", default_value_t = 2048)]
+    pub media_mb: u64,
+    /// Liked pages.
+    #[arg(long, default_value_t = 100_000)]
+    pub likes: usize,
+    /// Group memberships.
+    #[arg(long, default_value_t = 10_000)]
+    pub groups: usize,
+    /// Friends.
+    #[arg(long, default_value_t = 5_000)]
+    pub friends: usize,
+    /// Approximate bytes of description text per page or group.
+    #[arg(long, value_name = "BYTES", default_value_t = 2_000)]
+    pub about_bytes: usize,
+    /// Items of the reference table the archive's items come from (match
+    /// `synth priors-large --items`).
+    #[arg(long, default_value_t = 1_000_000)]
+    pub table_items: u64,
+}
+
+#[derive(Debug, Args)]
+pub struct SynthPriorsLargeArgs {
+    /// Priors file to write.
+    pub out: PathBuf,
+    /// Random seed (the same as `synth large` for items that belong together).
+    #[arg(long, default_value_t = 11)]
+    pub seed: u64,
+    /// Reference items.
+    #[arg(long, default_value_t = 1_000_000)]
+    pub items: u64,
 }
 
 #[derive(Debug, Args)]

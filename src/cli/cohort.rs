@@ -26,6 +26,22 @@ pub fn bar(total: usize, what: &str) -> ProgressBar {
     pb
 }
 
+/// A progress bar counting bytes on standard error when it is a terminal; hidden
+/// otherwise (scripts and redirected output stay silent).
+pub fn byte_bar(what: &str) -> ProgressBar {
+    if !std::io::stderr().is_terminal() {
+        return ProgressBar::hidden();
+    }
+    let pb = ProgressBar::new(0);
+    if let Ok(style) =
+        ProgressStyle::with_template("{msg:>12} [{bar:40}] {bytes}/{total_bytes} ({eta} left)")
+    {
+        pb.set_style(style.progress_chars("=> "));
+    }
+    pb.set_message(what.to_string());
+    pb
+}
+
 pub fn schema(args: &CohortArgs) -> Result<Schema> {
     let (text, origin) = match &args.schema {
         Some(p) => (

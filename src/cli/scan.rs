@@ -36,7 +36,13 @@ pub fn input(archive: PathBuf, src: &SourceArgs) -> Result<ScanInput> {
 pub fn run(args: &ScanArgs) -> Result<ExitCode> {
     let priors = load_priors(args.input.priors.as_deref()).context("cannot use the priors")?;
     let input = input(args.archive.clone(), &args.input)?;
-    let scan = Scan::run(&input, &priors)?;
+    let pb = super::cohort::byte_bar("importing");
+    let scan = Scan::run_with_progress(&input, &priors, &mut |done, total| {
+        pb.set_length(total);
+        pb.set_position(done);
+    });
+    pb.finish_and_clear();
+    let scan = scan?;
     let report = scan.report(&priors);
     let to_file = args.output.output.is_some();
     let colour = use_colour(args.output.colour, to_file);

@@ -5,12 +5,50 @@ use std::process::ExitCode;
 use anyhow::{Context, Result};
 use telltale::reading::percent;
 use telltale::synth::cohort::{CohortConfig, generate_cohort};
+use telltale::synth::large::{LargeConfig, write_large_archive, write_large_priors};
 use telltale::synth::{DemoConfig, generate_demo};
 
 use super::args::SynthCommand;
 
 pub fn run(cmd: SynthCommand) -> Result<ExitCode> {
     match cmd {
+        SynthCommand::Large(args) => {
+            let cfg = LargeConfig {
+                seed: args.seed,
+                likes: args.likes,
+                groups: args.groups,
+                friends: args.friends,
+                about_bytes: args.about_bytes,
+                media_mb: args.media_mb,
+                table_items: args.table_items,
+                ..LargeConfig::default()
+            };
+            let s = write_large_archive(&cfg, &args.out)
+                .with_context(|| format!("cannot write {}", args.out.display()))?;
+            println!(
+                "Wrote {}: {} likes, {} groups, {} friends ({} items listed in the table of {}), {} MB of mapped records, {} MB of media padding. True values: {}.",
+                args.out.display(),
+                s.likes,
+                s.groups,
+                s.friends,
+                s.listed,
+                args.table_items,
+                s.mapped_bytes >> 20,
+                s.media_bytes >> 20,
+                s.profile.join(", ")
+            );
+            Ok(ExitCode::SUCCESS)
+        }
+        SynthCommand::PriorsLarge(args) => {
+            write_large_priors(args.seed, args.items, &args.out)
+                .with_context(|| format!("cannot write {}", args.out.display()))?;
+            println!(
+                "Wrote {} ({} reference items × 4 attributes).",
+                args.out.display(),
+                args.items
+            );
+            Ok(ExitCode::SUCCESS)
+        }
         SynthCommand::Cohort(args) => {
             let cfg = CohortConfig {
                 seed: args.seed,

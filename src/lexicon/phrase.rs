@@ -8,7 +8,7 @@
 //! token. Among overlapping matches the longest wins, so "new york city" is not also
 //! read as "york".
 
-use std::collections::HashMap;
+use std::collections::{HashMap, HashSet};
 
 use crate::text::name_key;
 
@@ -155,6 +155,16 @@ pub struct Hit<'a, T> {
 pub struct PhraseIndex<T> {
     exact: HashMap<String, Vec<T>>,
     other: Vec<(Pattern, Vec<T>)>,
+    /// Positions in `other` of the patterns whose first part is a given word, so a
+    /// name is tried only against patterns that can start at each token.
+    other_by_word: HashMap<String, Vec<usize>>,
+    /// Positions in `other` of the patterns that start with a given prefix.
+    other_by_prefix: HashMap<String, Vec<usize>>,
+    /// Positions in `other` of the patterns that start with a year slot.
+    other_year: Vec<usize>,
+    /// First tokens of the exact keys: a name is looked up from a token only if some
+    /// key starts there.
+    first_tokens: HashSet<String>,
     max_tokens: usize,
     /// Longest key (in characters) among keys made of unspaced script.
     max_unspaced_chars: usize,
@@ -165,6 +175,10 @@ impl<T> Default for PhraseIndex<T> {
         PhraseIndex {
             exact: HashMap::new(),
             other: Vec::new(),
+            other_by_word: HashMap::new(),
+            other_by_prefix: HashMap::new(),
+            other_year: Vec::new(),
+            first_tokens: HashSet::new(),
             max_tokens: 0,
             max_unspaced_chars: 0,
         }
@@ -193,10 +207,19 @@ impl<T> PhraseIndex<T> {
             if key.chars().any(is_unspaced) {
                 self.max_unspaced_chars = self.max_unspaced_chars.max(key.chars().count());
             }
+            self.note_first_token(&key);
             self.exact.entry(key).or_default().push(value);
         } else if let Some((_, values)) = self.other.iter_mut().find(|(p, _)| p == pattern) {
             values.push(value);
         } else {
+            let at = self.other.len();
+            match pattern.parts.first() {
+                Some(Part::Word(w)) => self.other_by_word.entry(w.clone()).or_default().push(at),
+                Some(Part::Prefix(p)) => {
+                    self.other_by_prefix.entry(p.clone()).or_default().push(at)
+                }
+                _ => self.other_year.push(at),
+            }
             self.other.push((pattern.clone(), vec![value]));
         }
     }
@@ -211,7 +234,15 @@ impl<T> PhraseIndex<T> {
         if key.chars().any(is_unspaced) {
             self.max_unspaced_chars = self.max_unspaced_chars.max(key.chars().count());
         }
+        self.note_first_token(&key);
         self.exact.entry(key).or_default().push(value);
+    }
+
+    fn note_first_token(&mut self, key: &str) {
+        let first = key.split(' ').next().unwrap_or_default();
+        if !self.first_tokens.contains(first) {
+            self.first_tokens.insert(first.to_string());
+        }
     }
 
     /// Values stored under an exact key (tokens joined by single spaces).
@@ -229,7 +260,11 @@ impl<T> PhraseIndex<T> {
     pub fn find_tokens(&self, toks: &[String]) -> Vec<Hit<'_, T>> {
         let mut hits: Vec<Hit<'_, T>> = Vec::new();
         for start in 0..toks.len() {
-            let longest = self.max_tokens.min(toks.len() - start);
+            let longest = if self.first_tokens.contains(&toks[start]) {
+                self.max_tokens.min(toks.len() - start)
+            } else {
+                0
+            };
             for n in (1..=longest).rev() {
                 let key = toks[start..start + n].join(" ");
                 if let Some(values) = self.exact.get(&key) {
@@ -243,7 +278,27 @@ impl<T> PhraseIndex<T> {
                     });
                 }
             }
-            for (pattern, values) in &self.other {
+            // The patterns that can start here, in insertion order (ties between hits
+            // are settled by that order).
+            let by_word = self
+                .other_by_word
+                .get(&toks[start])
+                .map(Vec::as_slice)
+                .unwrap_or(&[]);
+            let tok = &toks[start];
+            let mut candidates: Vec<usize> = by_word.to_vec();
+            if !self.other_by_prefix.is_empty() {
+                for (i, c) in tok.char_indices() {
+                    if let Some(list) = self.other_by_prefix.get(&tok[..i + c.len_utf8()]) {
+                        candidates.extend_from_slice(list);
+                    }
+                }
+            }
+            if !self.other_year.is_empty() && parse_year(tok).is_some() {
+                candidates.extend_from_slice(&self.other_year);
+            }
+            candidates.sort_unstable();
+            for (pattern, values) in candidates.into_iter().map(|i| &self.other[i]) {
                 if let Some(year) = pattern.match_at(toks, start) {
                     let end = start + pattern.len();
                     hits.push(Hit {

@@ -142,7 +142,7 @@ pub struct ItemSpec {
 
 /// Members of an item for one attribute: counts per value, or shares per value with an
 /// effective sample size.
-#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[derive(Debug, Clone, PartialEq, Serialize)]
 #[serde(untagged)]
 pub enum MemberSpec {
     Counts(Vec<f64>),
@@ -167,5 +167,45 @@ impl MemberSpec {
 
     pub fn is_empty(&self) -> bool {
         self.len() == 0
+    }
+}
+
+/// Read by hand rather than as an untagged enum: serde buffers every untagged value
+/// before trying the variants, which dominated loading a table of a million items.
+impl<'de> Deserialize<'de> for MemberSpec {
+    fn deserialize<D: serde::Deserializer<'de>>(d: D) -> Result<Self, D::Error> {
+        use serde::de::{Error, MapAccess, SeqAccess, Visitor};
+        struct V;
+        impl<'de> Visitor<'de> for V {
+            type Value = MemberSpec;
+            fn expecting(&self, f: &mut std::fmt::Formatter) -> std::fmt::Result {
+                f.write_str("a list of member counts, or {\"shares\": [...], \"n\": number}")
+            }
+            fn visit_seq<A: SeqAccess<'de>>(self, mut seq: A) -> Result<MemberSpec, A::Error> {
+                let mut counts = Vec::with_capacity(seq.size_hint().unwrap_or(8));
+                while let Some(c) = seq.next_element::<f64>()? {
+                    counts.push(c);
+                }
+                Ok(MemberSpec::Counts(counts))
+            }
+            fn visit_map<A: MapAccess<'de>>(self, mut map: A) -> Result<MemberSpec, A::Error> {
+                let (mut shares, mut n) = (None, None);
+                while let Some(key) = map.next_key::<String>()? {
+                    match key.as_str() {
+                        "shares" => shares = Some(map.next_value::<Vec<f64>>()?),
+                        "n" => n = Some(map.next_value::<f64>()?),
+                        other => {
+                            return Err(A::Error::unknown_field(other, &["shares", "n"]));
+                        }
+                    }
+                }
+                match (shares, n) {
+                    (Some(shares), Some(n)) => Ok(MemberSpec::Shares { shares, n }),
+                    (None, _) => Err(A::Error::missing_field("shares")),
+                    (_, None) => Err(A::Error::missing_field("n")),
+                }
+            }
+        }
+        d.deserialize_any(V)
     }
 }

@@ -18,4 +18,4 @@ pub use file::{
 };
 pub use index::MatchedBy;
 pub use model::{AttrValue, Attribute, DEFAULT_SMOOTHING, PriorItem, Priors};
-pub use write::write_priors;
+pub use write::{write_priors, write_priors_streaming};

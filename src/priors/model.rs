@@ -111,34 +111,43 @@ impl Priors {
     }
 
     pub fn parse(text: &str, origin: &str) -> Result<Priors> {
-        // Look at the version first, so a future file gets a version message rather
-        // than a list of unknown fields.
-        if let Ok(v) = serde_json::from_str::<serde_json::Value>(text) {
-            match v.get("format") {
-                Some(f) if f.as_u64() == Some(FORMAT as u64) => {}
-                Some(f) => {
-                    return Err(Error::Version {
-                        file: origin.to_string(),
-                        found: f.to_string(),
-                        expected: FORMAT,
-                    });
+        match serde_json::from_str::<PriorsFile>(text) {
+            Ok(file) => Priors::from_file(file, origin),
+            Err(e) => {
+                // A file of another version gets a version message rather than a list
+                // of unknown fields (the version is looked at only when the full read
+                // fails, so a good file is parsed once).
+                #[derive(serde::Deserialize)]
+                struct Head {
+                    format: Option<serde_json::Value>,
                 }
-                None => {
-                    return Err(Error::Version {
-                        file: origin.to_string(),
-                        found: "missing".into(),
-                        expected: FORMAT,
-                    });
+                if let Ok(head) = serde_json::from_str::<Head>(text) {
+                    match head.format {
+                        Some(f) if f.as_u64() == Some(FORMAT as u64) => {}
+                        Some(f) => {
+                            return Err(Error::Version {
+                                file: origin.to_string(),
+                                found: f.to_string(),
+                                expected: FORMAT,
+                            });
+                        }
+                        None => {
+                            return Err(Error::Version {
+                                file: origin.to_string(),
+                                found: "missing".into(),
+                                expected: FORMAT,
+                            });
+                        }
+                    }
                 }
+                Err(Error::Syntax {
+                    file: origin.to_string(),
+                    line: e.line(),
+                    column: e.column(),
+                    message: e.to_string(),
+                })
             }
         }
-        let file: PriorsFile = serde_json::from_str(text).map_err(|e| Error::Syntax {
-            file: origin.to_string(),
-            line: e.line(),
-            column: e.column(),
-            message: e.to_string(),
-        })?;
-        Priors::from_file(file, origin)
     }
 
     /// Check a priors structure (as read, or as built in memory).

@@ -5,7 +5,7 @@ use std::io::{self, Write};
 
 use serde_json::Value;
 
-use super::file::PriorsFile;
+use super::file::{ItemSpec, PriorsFile};
 
 fn integral(v: &mut Value) {
     match v {
@@ -27,21 +27,33 @@ fn integral(v: &mut Value) {
 
 /// Write `file` as JSON.
 pub fn write_priors(file: &PriorsFile, out: &mut dyn Write) -> io::Result<()> {
+    write_priors_streaming(file, file.items.iter().cloned().map(Ok), out)
+}
+
+/// Write the header of `header` (its own `items` are ignored) followed by `items` as
+/// they come, so a table of millions of items is never held in memory whole.
+pub fn write_priors_streaming(
+    header: &PriorsFile,
+    items: impl Iterator<Item = io::Result<ItemSpec>>,
+    out: &mut dyn Write,
+) -> io::Result<()> {
     let to_io = |e: serde_json::Error| io::Error::other(e.to_string());
     writeln!(out, "{{")?;
-    writeln!(out, "  \"format\": {},", file.format)?;
-    let prov = serde_json::to_string_pretty(&file.provenance).map_err(to_io)?;
+    writeln!(out, "  \"format\": {},", header.format)?;
+    let prov = serde_json::to_string_pretty(&header.provenance).map_err(to_io)?;
     writeln!(out, "  \"provenance\": {},", prov.replace('\n', "\n  "))?;
-    let attrs = serde_json::to_string_pretty(&file.attributes).map_err(to_io)?;
+    let attrs = serde_json::to_string_pretty(&header.attributes).map_err(to_io)?;
     writeln!(out, "  \"attributes\": {},", attrs.replace('\n', "\n  "))?;
-    writeln!(out, "  \"items\": [")?;
-    for (i, item) in file.items.iter().enumerate() {
-        let mut v = serde_json::to_value(item).map_err(to_io)?;
+    write!(out, "  \"items\": [")?;
+    let mut first = true;
+    for item in items {
+        let mut v = serde_json::to_value(item?).map_err(to_io)?;
         integral(&mut v);
         let line = serde_json::to_string(&v).map_err(to_io)?;
-        let comma = if i + 1 < file.items.len() { "," } else { "" };
-        writeln!(out, "    {line}{comma}")?;
+        let comma = if first { "" } else { "," };
+        first = false;
+        write!(out, "{comma}\n    {line}")?;
     }
-    writeln!(out, "  ]")?;
+    writeln!(out, "\n  ]")?;
     writeln!(out, "}}")
 }

@@ -5,10 +5,12 @@
 
 mod date;
 mod decode;
+mod prune;
 mod reader;
 mod value;
 
 pub use date::parse_date;
 pub use decode::{decode_text, json_depth};
+pub use prune::Keep;
 pub use reader::{Record, RecordSink, read_records};
 pub use value::{FieldError, field_text, field_value};

@@ -5,6 +5,7 @@
 use serde_json::Value;
 
 use super::decode::json_depth;
+use super::prune::Keep;
 use crate::footprint::Warning;
 use crate::limits::{Limits, human_bytes};
 use crate::mapping::{Field, Format, Source};
@@ -76,8 +77,12 @@ fn depth_check(text: &str, limits: &Limits) -> Result<(), String> {
     Ok(())
 }
 
-fn parse_json(text: &str) -> Result<Value, (String, usize)> {
-    serde_json::from_str(text).map_err(|e| {
+fn parse_json(text: &str, keep: Option<&Keep>) -> Result<Value, (String, usize)> {
+    let parsed = match keep {
+        Some(k) => k.parse(text),
+        None => serde_json::from_str(text),
+    };
+    parsed.map_err(|e| {
         let what = match e.classify() {
             serde_json::error::Category::Eof => "the file ends too early (truncated?)".to_string(),
             _ => format!("not valid JSON: {e}"),
@@ -105,7 +110,8 @@ fn read_json(
     sink: &mut impl RecordSink,
 ) -> Result<(), Warning> {
     depth_check(text, limits).map_err(|m| Warning::new(m).in_file(file))?;
-    let doc = parse_json(text).map_err(|(m, line)| {
+    let keep = Keep::for_source(source);
+    let doc = parse_json(text, keep.as_ref()).map_err(|(m, line)| {
         Warning::new(format!("{m}; file skipped"))
             .in_file(file)
             .at_line(line)
@@ -144,6 +150,7 @@ fn read_ndjson(
     sink: &mut impl RecordSink,
 ) -> Result<(), Warning> {
     let mut number = 0;
+    let keep = Keep::for_source(source);
     for (i, line) in text.lines().enumerate() {
         let line_no = i + 1;
         if line.trim().is_empty() {
@@ -164,7 +171,7 @@ fn read_ndjson(
             sink.warn(Warning::new(m).in_file(file).at_line(line_no));
             continue;
         }
-        let doc = match parse_json(line) {
+        let doc = match parse_json(line, keep.as_ref()) {
             Ok(d) => d,
             Err((m, _)) => {
                 sink.warn(

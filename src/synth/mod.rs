@@ -9,6 +9,8 @@ pub mod calibrate;
 pub mod catalogue;
 pub mod cohort;
 mod demo;
+pub mod large;
+pub mod large_items;
 pub mod layout_a;
 pub mod layout_b;
 pub mod membership;

@@ -1,0 +1,112 @@
+//! Import + scan of a large archive, phase by phase, with peak memory (figures in
+//! docs/performance.md). The workloads are generated, not checked in:
+//!
+//! ```sh
+//! telltale synth large /tmp/telltale-perf/large.zip
+//! telltale synth priors-large /tmp/telltale-perf/priors-large.json
+//! TELLTALE_LARGE=/tmp/telltale-perf/large.zip \
+//! TELLTALE_LARGE_PRIORS=/tmp/telltale-perf/priors-large.json cargo bench --bench large
+//! ```
+//!
+//! Without `TELLTALE_LARGE` it says so and does nothing. Without
+//! `TELLTALE_LARGE_PRIORS` it scores against the bundled demo priors. Each phase runs
+//! once per repetition (`TELLTALE_REPEAT`, default 3); the shortest time is printed, as
+//! the least disturbed by other work on the machine.
+
+use std::path::PathBuf;
+use std::time::{Duration, Instant};
+
+use telltale::archive::Archive;
+use telltale::evidence::{Sources, gather};
+use telltale::import::import;
+use telltale::infer::Exposure;
+use telltale::limits::Limits;
+use telltale::mapping::{Mapping, locate};
+use telltale::scan::load_priors;
+
+/// Peak resident memory so far, from the kernel's accounting (Linux).
+fn peak_rss_mb() -> Option<f64> {
+    let status = std::fs::read_to_string("/proc/self/status").ok()?;
+    let line = status.lines().find(|l| l.starts_with("VmHWM:"))?;
+    let kb: f64 = line.split_whitespace().nth(1)?.parse().ok()?;
+    Some(kb / 1024.0)
+}
+
+fn main() {
+    let Some(archive_path) = std::env::var_os("TELLTALE_LARGE").map(PathBuf::from) else {
+        println!("large: set TELLTALE_LARGE to an archive made by `telltale synth large`");
+        return;
+    };
+    let priors_path = std::env::var_os("TELLTALE_LARGE_PRIORS").map(PathBuf::from);
+    let repeat: usize = std::env::var("TELLTALE_REPEAT")
+        .ok()
+        .and_then(|s| s.parse().ok())
+        .unwrap_or(3);
+    let t = Instant::now();
+    let priors = match load_priors(priors_path.as_deref()) {
+        Ok(p) => p,
+        Err(e) => {
+            eprintln!("large: {e}");
+            return;
+        }
+    };
+    let load = t.elapsed();
+    println!(
+        "priors: {} items loaded and indexed in {:.3} s (peak RSS so far {:.0} MB)",
+        priors.items.len(),
+        load.as_secs_f64(),
+        peak_rss_mb().unwrap_or(f64::NAN)
+    );
+    let limits = Limits::default();
+    let mut best = [Duration::MAX; 3];
+    for _ in 0..repeat {
+        let t0 = Instant::now();
+        let mut archive = match Archive::open(&archive_path, &limits) {
+            Ok(a) => a,
+            Err(e) => {
+                eprintln!("large: {e}");
+                return;
+            }
+        };
+        let mapping = match locate(&mut archive)
+            .map_err(|e| e.to_string())
+            .and_then(|f| Mapping::parse(&f.text, &f.origin).map_err(|e| e.to_string()))
+        {
+            Ok(m) => m,
+            Err(e) => {
+                eprintln!("large: {e}");
+                return;
+            }
+        };
+        let footprint = match import(&mut archive, &mapping, &limits) {
+            Ok(f) => f,
+            Err(e) => {
+                eprintln!("large: {e}");
+                return;
+            }
+        };
+        let t1 = Instant::now();
+        let evidence = gather(&footprint, &priors, &Sources::all());
+        let exposure = Exposure::new(&priors, evidence);
+        let t2 = Instant::now();
+        std::hint::black_box(&exposure);
+        best[0] = best[0].min(t1 - t0);
+        best[1] = best[1].min(t2 - t1);
+        best[2] = best[2].min(t2 - t0);
+        println!(
+            "import {:.3} s ({} items, {} friends, {} MB read), evidence + posteriors {:.3} s",
+            (t1 - t0).as_secs_f64(),
+            footprint.items.len(),
+            footprint.friends.len(),
+            footprint.stats.bytes_read >> 20,
+            (t2 - t1).as_secs_f64()
+        );
+    }
+    println!(
+        "best of {repeat}: import {:.3} s, evidence + posteriors {:.3} s, import + scan {:.3} s; peak RSS {:.0} MB",
+        best[0].as_secs_f64(),
+        best[1].as_secs_f64(),
+        best[2].as_secs_f64(),
+        peak_rss_mb().unwrap_or(f64::NAN)
+    );
+}
