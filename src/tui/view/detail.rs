@@ -152,8 +152,10 @@ pub fn lines(app: &App, subject: Subject, width: u16, theme: Theme) -> Vec<Line<
         out.push(fit(
             Line::styled(
                 format!(
-                    "    homogeneity {:.2} · information {:.2} bits · {:.0} members counted",
-                    ev.homogeneity, ev.info_bits, ev.support
+                    "    homogeneity {:.2} · information {:.2} bits{}",
+                    ev.homogeneity,
+                    ev.info_bits,
+                    support_words(&ev.source, ev.support)
                 ),
                 theme.dim(),
             ),
@@ -239,4 +241,16 @@ pub fn render(app: &App, subject: Subject, frame: &mut Frame, area: Rect, theme:
     let max_scroll = lines.len().saturating_sub(area.height as usize) as u16;
     let scroll = app.detail_scroll.min(max_scroll);
     frame.render_widget(Paragraph::new(lines).scroll((scroll, 0)), area);
+}
+
+/// What stands behind a piece of evidence, in words: members counted in the reference
+/// table, friends whose value is known; nothing for a word-list rule.
+fn support_words(source: &str, support: f64) -> String {
+    let n = support.round();
+    let plural = if n == 1.0 { "" } else { "s" };
+    match source {
+        "priors" => format!(" · {n:.0} member{plural} counted"),
+        "friends" => format!(" · {n:.0} friend{plural} with a known value"),
+        _ => String::new(),
+    }
 }
