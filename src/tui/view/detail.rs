@@ -155,7 +155,7 @@ pub fn lines(app: &App, subject: Subject, width: u16, theme: Theme) -> Vec<Line<
                     "    homogeneity {:.2} · information {:.2} bits{}",
                     ev.homogeneity,
                     ev.info_bits,
-                    support_words(&ev.source, ev.support)
+                    support_words(ev.source, ev.support)
                 ),
                 theme.dim(),
             ),
