@@ -3,7 +3,7 @@
 //! capture-pane. Open → cautions shown once → item list → filter → hide an item → the
 //! overview changes → quit; the decisions file is then on disk and the terminal has
 //! left the alternate screen. A second run checks SIGTERM restores the terminal and
-//! keeps the decisions too, and a third that SIGINT does the same. Skipped, with a message saying so, where tmux is absent.
+//! keeps the decisions too, a third that SIGINT does the same, and a fourth that a panic (switched on by a test-only environment variable) does too. Skipped, with a message saying so, where tmux is absent.
 
 use std::path::Path;
 use std::process::Command;
@@ -60,11 +60,16 @@ impl Tmux {
     /// Start the explorer in a new session (the server keeps earlier, dead ones, so
     /// it never shuts down between runs).
     fn start(&mut self, name: &str, data_dir: &Path) {
+        self.start_with(name, data_dir, "");
+    }
+
+    /// [`Tmux::start`] with extra `NAME=value` environment settings.
+    fn start_with(&mut self, name: &str, data_dir: &Path, env: &str) {
         self.target = name.to_string();
         let bin = env!("CARGO_BIN_EXE_telltale");
         let archive = concat!(env!("CARGO_MANIFEST_DIR"), "/demo-exports/reporter");
         let cmd = format!(
-            "exec env TELLTALE_DATA_DIR='{}' NO_COLOR=1 TERM=xterm-256color '{bin}' '{archive}'",
+            "exec env {env} TELLTALE_DATA_DIR='{}' NO_COLOR=1 TERM=xterm-256color '{bin}' '{archive}'",
             data_dir.display()
         );
         self.run(&[
@@ -211,4 +216,20 @@ fn explorer_in_a_real_terminal() {
         "exit after SIGINT: status {status:?}, signal {signal:?}; screen:\n{}",
         t.screen()
     );
+
+    // A panic once the screen is up (a test-only switch): the panic hook leaves the
+    // alternate screen before the message prints, and the exit is Rust's panic status.
+    t.start_with("fourth", data.path(), "TELLTALE_TEST_PANIC=1");
+    t.wait_for("the program to end on a panic", |_| {
+        t.pane("#{pane_dead}") == "1"
+    });
+    assert_eq!(
+        t.pane("#{alternate_on}"),
+        "0",
+        "a panic left the alternate screen on"
+    );
+    let screen = t.screen();
+    assert!(screen.contains("deliberate panic"), "{screen}");
+    let status = t.pane("#{pane_dead_status}");
+    assert!(status == "101" || status.is_empty(), "status {status:?}");
 }

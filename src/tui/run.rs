@@ -163,6 +163,11 @@ pub fn run(opts: Options) -> Result<()> {
             guard.terminal.draw(|f| view::render(&app, f, theme))?;
             dirty = false;
             last_tick = Instant::now();
+            // Test hook (tests/explorer_tmux.rs): a deliberate panic once a screen is up,
+            // to prove the panic hook restores the terminal.
+            if std::env::var_os("TELLTALE_TEST_PANIC").is_some() {
+                panic!("TELLTALE_TEST_PANIC set: a deliberate panic to test terminal restoring");
+            }
         }
         // Progress or a finished plan?
         if let Some((_, rx)) = &plan_job {
