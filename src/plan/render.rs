@@ -6,7 +6,7 @@ use std::io::{self, Write};
 use super::report::{PlanReport, StateReport, cost_words};
 use crate::cautions::TITLE;
 use crate::reading::percent;
-use crate::text::{pad_to_width, truncate_to_width};
+use crate::text::{pad_to_width, truncate_to_width, wrap_words};
 
 /// Write the JSON document (pretty-printed, newline-terminated).
 pub fn write_json(r: &PlanReport, out: &mut dyn Write) -> io::Result<()> {
@@ -51,28 +51,6 @@ pub(super) fn why(r: &PlanReport, i: usize) -> String {
         .join("; ")
 }
 
-fn wrap(s: &str, width: usize, indent: &str) -> String {
-    let mut lines = Vec::new();
-    let mut line = String::new();
-    for word in s.split_whitespace() {
-        if !line.is_empty() && line.chars().count() + 1 + word.chars().count() > width {
-            lines.push(std::mem::take(&mut line));
-        }
-        if !line.is_empty() {
-            line.push(' ');
-        }
-        line.push_str(word);
-    }
-    if !line.is_empty() {
-        lines.push(line);
-    }
-    lines
-        .iter()
-        .map(|l| format!("{indent}{l}"))
-        .collect::<Vec<_>>()
-        .join("\n")
-}
-
 /// Write the text report.
 pub fn write_text(r: &PlanReport, out: &mut dyn Write) -> io::Result<()> {
     writeln!(out, "telltale plan: what to hide")?;
@@ -88,7 +66,7 @@ pub fn write_text(r: &PlanReport, out: &mut dyn Write) -> io::Result<()> {
         }
     )?;
     writeln!(out)?;
-    writeln!(out, "{}", wrap(&r.summary, 78, ""))?;
+    writeln!(out, "{}", wrap_words(&r.summary, 78, ""))?;
     if let Some(plan) = &r.plan
         && !plan.items.is_empty()
     {
@@ -160,7 +138,7 @@ pub fn write_text(r: &PlanReport, out: &mut dyn Write) -> io::Result<()> {
                 _ => String::new(),
             };
             let line = format!("• To {}: {verdict}{compare}.", m.description);
-            writeln!(out, "{}", wrap(&line, 76, "  "))?;
+            writeln!(out, "{}", wrap_words(&line, 76, "  "))?;
         }
     }
     if let Some(inf) = &r.infeasible {
@@ -198,13 +176,13 @@ pub fn write_text(r: &PlanReport, out: &mut dyn Write) -> io::Result<()> {
                     names.join(", ")
                 ));
             }
-            writeln!(out, "{}", wrap(&line, 76, "  "))?;
+            writeln!(out, "{}", wrap_words(&line, 76, "  "))?;
         }
         for (x, y) in &inf.conflicts {
             writeln!(
                 out,
                 "{}",
-                wrap(
+                wrap_words(
                     &format!(
                         "• {x} and {y} can each be met alone, but no set of hidden items meets both: hiding what helps one pushes the other over."
                     ),
@@ -242,11 +220,11 @@ pub fn write_text(r: &PlanReport, out: &mut dyn Write) -> io::Result<()> {
         ));
     }
     for l in lines {
-        writeln!(out, "{}", wrap(&l, 76, "  "))?;
+        writeln!(out, "{}", wrap_words(&l, 76, "  "))?;
     }
     writeln!(out, "\n{}", TITLE.to_uppercase())?;
     for c in &r.cautions {
-        writeln!(out, "{}", wrap(c, 76, "  "))?;
+        writeln!(out, "{}", wrap_words(c, 76, "  "))?;
     }
     Ok(())
 }

@@ -7,7 +7,7 @@ use std::io::{self, Write};
 use super::build::ScanReport;
 use crate::cautions::TITLE;
 use crate::reading::percent;
-use crate::text::{pad_to_width, truncate_to_width};
+use crate::text::{pad_to_width, truncate_to_width, wrap_words};
 
 /// How to render text.
 #[derive(Debug, Clone, Copy)]
@@ -68,28 +68,6 @@ fn bar(p: f64, base: f64, width: usize) -> String {
             }
         })
         .collect()
-}
-
-fn wrap_words(s: &str, width: usize, indent: &str) -> String {
-    let mut lines = Vec::new();
-    let mut line = String::new();
-    for word in s.split_whitespace() {
-        if !line.is_empty() && line.chars().count() + 1 + word.chars().count() > width {
-            lines.push(std::mem::take(&mut line));
-        }
-        if !line.is_empty() {
-            line.push(' ');
-        }
-        line.push_str(word);
-    }
-    if !line.is_empty() {
-        lines.push(line);
-    }
-    lines
-        .iter()
-        .map(|l| format!("{indent}{l}"))
-        .collect::<Vec<_>>()
-        .join("\n")
 }
 
 /// Write the text report.
