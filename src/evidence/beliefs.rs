@@ -16,7 +16,7 @@ use std::collections::BTreeSet;
 use super::model::{Evidence, EvidenceSet, Origin, SpecialFlag, Subject};
 use super::places::normalise;
 use super::sources::SourceKind;
-use crate::footprint::Footprint;
+use crate::footprint::Item;
 use crate::lexicon::{SpecialCategory, TermMatch, Vocabulary};
 use crate::priors::Priors;
 
@@ -43,17 +43,19 @@ fn strength(ratios: &[f64]) -> f64 {
     ratios.iter().map(|r| r.ln().abs()).fold(0.0, f64::max)
 }
 
-/// Add vocabulary evidence (for attributes the table said nothing about) and flag
-/// special categories.
-pub fn from_vocabulary(
-    footprint: &Footprint,
+/// Add the vocabulary evidence and special-category flag of item `i`, whose name has
+/// the tokens `toks`.
+pub(crate) fn vocabulary_item(
     priors: &Priors,
     vocabulary: &Vocabulary,
+    i: usize,
+    item: &Item,
+    toks: &[String],
     covered: &dyn Fn(usize, usize) -> bool,
     set: &mut EvidenceSet,
 ) {
-    for (i, item) in footprint.items.iter().enumerate() {
-        let matches = vocabulary.find(&item.name);
+    {
+        let matches = vocabulary.find_tokens(toks);
         let mut categories = BTreeSet::new();
         let mut terms = Vec::new();
         for m in &matches {

@@ -15,7 +15,7 @@
 use super::model::{Evidence, EvidenceSet, Origin, Subject};
 use super::places::normalise;
 use super::sources::SourceKind;
-use crate::footprint::Footprint;
+use crate::footprint::{Footprint, Item};
 use crate::lexicon::{LifeStages, StageMatch, YearToken};
 use crate::priors::Priors;
 
@@ -179,30 +179,45 @@ pub fn newest_date(footprint: &Footprint) -> Option<i64> {
         .max()
 }
 
-/// Add life-stage evidence for items the table said nothing about for the age
-/// attribute.
-pub fn from_life_stages(
-    footprint: &Footprint,
-    priors: &Priors,
-    rules: &LifeStages,
+/// The life-stage source set up for one priors file, run item by item.
+pub(crate) struct LifeStageSource<'a> {
+    priors: &'a Priors,
+    rules: &'a LifeStages,
     reference: i64,
-    covered: &dyn Fn(usize, usize) -> bool,
-    set: &mut EvidenceSet,
-) {
-    let Some(bands) = age_bands(priors) else {
-        return;
-    };
-    let a = bands.attribute;
-    let attr = &priors.attributes[a];
-    for (i, item) in footprint.items.iter().enumerate() {
+    bands: AgeBands,
+}
+
+impl<'a> LifeStageSource<'a> {
+    /// `None` when the priors have no age-band attribute.
+    pub(crate) fn new(priors: &'a Priors, rules: &'a LifeStages, reference: i64) -> Option<Self> {
+        Some(LifeStageSource {
+            bands: age_bands(priors)?,
+            priors,
+            rules,
+            reference,
+        })
+    }
+
+    /// Add the evidence of item `i`, whose name has the tokens `toks`.
+    pub(crate) fn item(
+        &self,
+        i: usize,
+        item: &Item,
+        toks: &[String],
+        covered: &dyn Fn(usize, usize) -> bool,
+        set: &mut EvidenceSet,
+    ) {
+        let bands = &self.bands;
+        let a = bands.attribute;
+        let attr = &self.priors.attributes[a];
         if covered(i, a) {
-            continue;
+            return;
         }
-        let Some(m) = rules.find(&item.name) else {
-            continue;
+        let Some(m) = self.rules.find_tokens(toks) else {
+            return;
         };
-        let Some((shares, since, time)) = band_shares(&m, item.date, reference, &bands) else {
-            continue;
+        let Some((shares, since, time)) = band_shares(&m, item.date, self.reference, bands) else {
+            return;
         };
         let c = m.rule.confidence;
         let dist = normalise(

@@ -20,7 +20,6 @@
 
 use super::model::{Evidence, EvidenceSet, Origin, Subject};
 use super::sources::SourceKind;
-use crate::footprint::Footprint;
 use crate::lexicon::{Candidate, Gazetteer, Mention, PlaceRef};
 use crate::priors::{Attribute, Priors};
 
@@ -225,28 +224,42 @@ pub fn place_likelihoods(
     )
 }
 
-/// Add place evidence for items the table said nothing about for a location attribute.
-pub fn from_places(
-    footprint: &Footprint,
-    priors: &Priors,
-    gazetteer: &Gazetteer,
-    covered: &dyn Fn(usize, usize) -> bool,
-    set: &mut EvidenceSet,
-) {
-    let locations = location_attributes(priors, gazetteer);
-    if locations.is_empty() {
-        return;
-    }
-    for (i, item) in footprint.items.iter().enumerate() {
-        let mentions = gazetteer.find_in(&item.name);
-        if mentions.is_empty() {
-            continue;
+/// The place source set up for one priors file, run item by item.
+pub(crate) struct PlaceSource<'a> {
+    priors: &'a Priors,
+    gazetteer: &'a Gazetteer,
+    locations: Vec<LocationValues>,
+}
+
+impl<'a> PlaceSource<'a> {
+    pub(crate) fn new(priors: &'a Priors, gazetteer: &'a Gazetteer) -> Self {
+        PlaceSource {
+            priors,
+            gazetteer,
+            locations: location_attributes(priors, gazetteer),
         }
-        for lv in &locations {
+    }
+
+    /// Add the evidence of item `i`, whose name has the tokens `toks`.
+    pub(crate) fn item(
+        &self,
+        i: usize,
+        toks: &[String],
+        covered: &dyn Fn(usize, usize) -> bool,
+        set: &mut EvidenceSet,
+    ) {
+        if self.locations.is_empty() {
+            return;
+        }
+        let mentions = self.gazetteer.find_in_tokens(toks);
+        if mentions.is_empty() {
+            return;
+        }
+        for lv in &self.locations {
             if covered(i, lv.attribute) {
                 continue;
             }
-            let attr = &priors.attributes[lv.attribute];
+            let attr = &self.priors.attributes[lv.attribute];
             let Some(lr) = place_likelihoods(&mentions, lv, &attr.base_rates) else {
                 continue;
             };

@@ -194,7 +194,8 @@ impl Gazetteer {
     }
 
     fn add_name(&mut self, name: &str, place: PlaceRef) {
-        let key = tokens(name).join(" ");
+        // A name key is its tokens joined by single spaces already.
+        let key = crate::text::name_key(name);
         let min = if key.is_ascii() {
             MIN_LATIN_NAME_CHARS
         } else {
@@ -223,9 +224,13 @@ impl Gazetteer {
 
     /// Every place name mentioned in a text.
     pub fn find_in(&self, text: &str) -> Vec<Mention<'_>> {
-        let toks = tokens(text);
+        self.find_in_tokens(&tokens(text))
+    }
+
+    /// As [`Gazetteer::find_in`], on the text's tokens already made.
+    pub fn find_in_tokens(&self, toks: &[String]) -> Vec<Mention<'_>> {
         self.index
-            .find_tokens(&toks)
+            .find_tokens(toks)
             .into_iter()
             .map(|h: Hit<'_, PlaceRef>| Mention {
                 common_word: h.end - h.start == 1 && self.common.contains(&h.text),

@@ -154,8 +154,13 @@ impl LifeStages {
 
     /// The rule that best fits a name: the most confident match, then the longest.
     pub fn find(&self, name: &str) -> Option<StageMatch<'_>> {
+        self.find_tokens(&super::phrase::tokens(name))
+    }
+
+    /// As [`LifeStages::find`], on the name's tokens already made.
+    pub fn find_tokens(&self, toks: &[String]) -> Option<StageMatch<'_>> {
         self.index
-            .find(name)
+            .find_tokens(toks)
             .into_iter()
             .flat_map(|h| {
                 h.values.iter().map(move |&r| StageMatch {

@@ -388,6 +388,15 @@ fn select_longest<T>(mut hits: Vec<Hit<'_, T>>) -> Vec<Hit<'_, T>> {
 mod tests {
     use super::*;
 
+    proptest::proptest! {
+        /// The gazetteer indexes names by their name key directly: it must equal the
+        /// tokens joined by single spaces.
+        #[test]
+        fn a_name_key_is_its_tokens_joined(s in "\\PC{0,40}") {
+            proptest::prop_assert_eq!(name_key(&s), tokens(&s).join(" "));
+        }
+    }
+
     fn index(patterns: &[(&str, u32)]) -> PhraseIndex<u32> {
         let mut ix = PhraseIndex::new();
         for (p, v) in patterns {

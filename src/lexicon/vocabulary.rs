@@ -126,8 +126,13 @@ impl Vocabulary {
 
     /// Every term found in a name, in reading order.
     pub fn find(&self, name: &str) -> Vec<TermMatch<'_>> {
+        self.find_tokens(&super::phrase::tokens(name))
+    }
+
+    /// As [`Vocabulary::find`], on the name's tokens already made.
+    pub fn find_tokens(&self, toks: &[String]) -> Vec<TermMatch<'_>> {
         self.index
-            .find(name)
+            .find_tokens(toks)
             .into_iter()
             .flat_map(|h| {
                 h.values.iter().map(move |&t| TermMatch {
