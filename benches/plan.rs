@@ -97,8 +97,8 @@ fn random_exposure(priors: &Priors, n: usize, seed: u64) -> Exposure {
             set.push(Evidence {
                 subject: Subject::Item(i),
                 attribute: ai,
-                log_lr: l,
-                distribution: a.base_rates.clone(),
+                log_lr: l.into(),
+                distribution: a.base_rates.clone().into(),
                 homogeneity: 0.0,
                 info_bits: 0.0,
                 support: 100.0,

@@ -120,7 +120,7 @@ impl Exposure {
             }
             for &ei in list {
                 let e = &self.evidence.list[ei];
-                for (s, l) in self.sums[e.attribute].iter_mut().zip(&e.log_lr) {
+                for (s, l) in self.sums[e.attribute].iter_mut().zip(e.log_lr.iter()) {
                     *s += l;
                 }
                 self.feeding[e.attribute] += 1;
@@ -160,7 +160,7 @@ impl Exposure {
         let sign = if hidden { -1.0 } else { 1.0 };
         for &ei in &self.by_subject[s] {
             let e = &self.evidence.list[ei];
-            for (sum, l) in self.sums[e.attribute].iter_mut().zip(&e.log_lr) {
+            for (sum, l) in self.sums[e.attribute].iter_mut().zip(e.log_lr.iter()) {
                 *sum += sign * l;
             }
             if hidden {
@@ -205,7 +205,7 @@ impl Exposure {
         for &ei in &self.by_subject[s] {
             let e = &self.evidence.list[ei];
             if e.attribute == a {
-                for (x, l) in sum.iter_mut().zip(&e.log_lr) {
+                for (x, l) in sum.iter_mut().zip(e.log_lr.iter()) {
                     *x += sign * l;
                 }
             }

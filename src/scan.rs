@@ -85,8 +85,11 @@ impl Scan {
                 Mapping::parse(&found.text, &found.origin)?
             }
         };
-        let mut footprint =
-            import::import_with_progress(&mut archive, &mapping, &input.limits, progress)?;
+        // The bundled lexicons are parsed on a second thread while the archive is read.
+        let mut footprint = std::thread::scope(|scope| {
+            scope.spawn(|| input.sources.prepare());
+            import::import_with_progress(&mut archive, &mapping, &input.limits, progress)
+        })?;
         if let Some(path) = &input.friends_file {
             merge_friends_file(&mut footprint, path, priors)?;
         }

@@ -32,8 +32,8 @@ pub fn exposure(n: usize, attrs: &[Attr]) -> Exposure {
             set.push(Evidence {
                 subject: Subject::Item(i),
                 attribute: ai,
-                log_lr: l.clone(),
-                distribution: a.base.clone(),
+                log_lr: l.clone().into(),
+                distribution: a.base.clone().into(),
                 homogeneity: 0.0,
                 info_bits: 0.0,
                 support: 1.0,

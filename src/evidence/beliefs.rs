@@ -118,7 +118,7 @@ pub(crate) fn vocabulary_item(
                 1.0,
                 Origin::Lexicon {
                     rule: SourceKind::Vocabulary.id().into(),
-                    detail: format!("'{}' → {} (rule of thumb)", m.text, leans.join(", ")),
+                    detail: format!("'{}' → {} (rule of thumb)", m.text, leans.join(", ")).into(),
                 },
             ));
         }

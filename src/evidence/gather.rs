@@ -10,8 +10,8 @@ use super::beliefs::vocabulary_item;
 use super::friends::from_friends;
 use super::life_stage::{LifeStageSource, newest_date};
 use super::model::{EvidenceSet, Subject};
-use super::places::PlaceSource;
-use super::sources::Sources;
+use super::places::{PlaceMemo, PlaceSource};
+use super::sources::{Lexicon, Sources};
 use super::table::from_table;
 use crate::footprint::Footprint;
 use crate::lexicon::{Vocabulary, tokens};
@@ -62,11 +62,11 @@ fn gather_on(
             table[i * n_attrs + e.attribute] = true;
         }
     }
-    let places = sources
-        .places
-        .as_deref()
-        .map(|g| PlaceSource::new(priors, g));
-    let life = sources.life_stages.as_deref().and_then(|rules| {
+    let gazetteer = sources.places.as_ref().map(Lexicon::get);
+    let rules = sources.life_stages.as_ref().map(Lexicon::get);
+    let vocabulary = sources.vocabulary.as_ref().map(Lexicon::get);
+    let places = gazetteer.as_deref().map(|g| PlaceSource::new(priors, g));
+    let life = rules.as_deref().and_then(|rules| {
         let reference = sources
             .reference_time
             .or_else(|| newest_date(footprint))
@@ -77,7 +77,7 @@ fn gather_on(
     let lexicons = Lexicons {
         places,
         life,
-        vocabulary: sources.vocabulary.as_deref(),
+        vocabulary: vocabulary.as_deref(),
         priors,
     };
     if lexicons.any() {
@@ -100,8 +100,9 @@ fn gather_on(
                     .collect()
             })
         };
+        // Room for the friend list's evidence too, so the list is not reallocated.
         let total: usize = pieces.iter().flatten().map(|p| p.list.len()).sum();
-        set.list.reserve(total);
+        set.list.reserve_exact(total + n_attrs);
         for source in 0..3 {
             for piece in pieces.iter_mut() {
                 let piece = std::mem::take(&mut piece[source]);
@@ -144,11 +145,12 @@ impl Lexicons<'_> {
             EvidenceSet::new(n),
         ];
         let covered = |i: usize, a: usize| table[i * n_attrs + a];
+        let mut memo = PlaceMemo::default();
         for i in run {
             let item = &footprint.items[i];
             let toks = tokens(&item.name);
             if let Some(p) = &self.places {
-                p.item(i, &toks, &covered, &mut out[0]);
+                p.item(i, &toks, &covered, &mut memo, &mut out[0]);
             }
             if let Some(l) = &self.life {
                 l.item(i, item, &toks, &covered, &mut out[1]);

@@ -254,8 +254,8 @@ impl<'a> LifeStageSource<'a> {
             &attr.base_rates,
             1.0,
             Origin::Lexicon {
-                rule: format!("{}: {}", SourceKind::LifeStages.id(), m.rule.id),
-                detail,
+                rule: format!("{}: {}", SourceKind::LifeStages.id(), m.rule.id).into(),
+                detail: detail.into(),
             },
         ));
     }

@@ -23,5 +23,5 @@ pub use model::{Evidence, EvidenceSet, FriendStats, Origin, SpecialFlag, Subject
 pub use places::{
     LOCALITY_SHARE, LocationValues, PlaceCode, location_attributes, place_likelihoods, value_code,
 };
-pub use sources::{SourceKind, Sources};
+pub use sources::{Lexicon, SourceKind, Sources};
 pub use table::from_table;

@@ -1,5 +1,7 @@
 //! The evidence record shared by every source.
 
+use std::sync::Arc;
+
 use serde::Serialize;
 
 use crate::lexicon::SpecialCategory;
@@ -25,7 +27,9 @@ pub enum Origin {
         reference: String,
     },
     /// A lexicon rule (place names, life-stage dates, vocabulary).
-    Lexicon { rule: String, detail: String },
+    /// The rule and the description are shared between the many items that match
+    /// the same way.
+    Lexicon { rule: Arc<str>, detail: Arc<str> },
     /// Friends whose attributes are known (weighted-vote relational neighbour).
     Friends { known: usize, total: usize },
     /// The user's own statement.
@@ -68,10 +72,11 @@ pub struct Evidence {
     pub subject: Subject,
     /// Index into the priors' attributes.
     pub attribute: usize,
-    /// Natural-log likelihood ratio per value, `ln(p(v)/μ(v))`.
-    pub log_lr: Vec<f64>,
+    /// Natural-log likelihood ratio per value, `ln(p(v)/μ(v))` (shared between
+    /// items whose evidence is the same, such as names mentioning the same place).
+    pub log_lr: Arc<[f64]>,
     /// The implied member distribution `p(v)`.
-    pub distribution: Vec<f64>,
+    pub distribution: Arc<[f64]>,
     /// `1 − H(p)/log₂|V|`.
     pub homogeneity: f64,
     /// `KL(p ‖ μ)` in bits: how far the members are from everyone's memberships.
@@ -103,9 +108,17 @@ impl Evidence {
             log_lr,
             homogeneity: homogeneity(&distribution),
             info_bits: kl_bits(&distribution, base),
-            distribution,
+            distribution: distribution.into(),
             support,
             origin,
+        }
+    }
+
+    /// The same evidence about another subject, sharing its numbers and description.
+    pub fn about(&self, subject: Subject) -> Evidence {
+        Evidence {
+            subject,
+            ..self.clone()
         }
     }
 

@@ -18,6 +18,8 @@
 //! places in the same region add up (naive Bayes), which is why a footprint full of
 //! one town's groups gives the town away.
 
+use std::collections::HashMap;
+
 use super::model::{Evidence, EvidenceSet, Origin, Subject};
 use super::sources::SourceKind;
 use crate::lexicon::{Candidate, Gazetteer, Mention, PlaceRef};
@@ -240,12 +242,15 @@ impl<'a> PlaceSource<'a> {
         }
     }
 
-    /// Add the evidence of item `i`, whose name has the tokens `toks`.
+    /// Add the evidence of item `i`, whose name has the tokens `toks`. Names that
+    /// mention the same places get the same evidence, so it is worked out once per
+    /// run of items (`memo`) and shared.
     pub(crate) fn item(
         &self,
         i: usize,
         toks: &[String],
         covered: &dyn Fn(usize, usize) -> bool,
+        memo: &mut PlaceMemo,
         set: &mut EvidenceSet,
     ) {
         if self.locations.is_empty() {
@@ -255,30 +260,52 @@ impl<'a> PlaceSource<'a> {
         if mentions.is_empty() {
             return;
         }
-        for lv in &self.locations {
-            if covered(i, lv.attribute) {
-                continue;
+        let key = mentions
+            .iter()
+            .map(|m| m.text.as_str())
+            .collect::<Vec<_>>()
+            .join("\u{1f}");
+        let known = memo
+            .0
+            .entry(key)
+            .or_insert_with(|| self.work_out(&mentions));
+        for (lv, evidence) in self.locations.iter().zip(known.iter()) {
+            if let Some(e) = evidence
+                && !covered(i, lv.attribute)
+            {
+                set.push(e.about(Subject::Item(i)));
             }
-            let attr = &self.priors.attributes[lv.attribute];
-            let Some(lr) = place_likelihoods(&mentions, lv, &attr.base_rates) else {
-                continue;
-            };
-            let dist = normalise(lr.iter().zip(&attr.base_rates).map(|(l, b)| l * b));
-            let detail = describe(&mentions, &lr, attr);
-            set.push(Evidence::from_distribution(
-                Subject::Item(i),
-                lv.attribute,
-                dist,
-                &attr.base_rates,
-                mentions.len() as f64,
-                Origin::Lexicon {
-                    rule: SourceKind::Places.id().into(),
-                    detail,
-                },
-            ));
         }
     }
+
+    /// The evidence a set of mentions gives each location attribute.
+    fn work_out(&self, mentions: &[Mention<'_>]) -> Vec<Option<Evidence>> {
+        self.locations
+            .iter()
+            .map(|lv| {
+                let attr = &self.priors.attributes[lv.attribute];
+                let lr = place_likelihoods(mentions, lv, &attr.base_rates)?;
+                let dist = normalise(lr.iter().zip(&attr.base_rates).map(|(l, b)| l * b));
+                let detail = describe(mentions, &lr, attr);
+                Some(Evidence::from_distribution(
+                    Subject::Item(0),
+                    lv.attribute,
+                    dist,
+                    &attr.base_rates,
+                    mentions.len() as f64,
+                    Origin::Lexicon {
+                        rule: SourceKind::Places.id().into(),
+                        detail: detail.into(),
+                    },
+                ))
+            })
+            .collect()
+    }
 }
+
+/// Place evidence already worked out, by the mentions that gave it.
+#[derive(Default)]
+pub(crate) struct PlaceMemo(HashMap<String, Vec<Option<Evidence>>>);
 
 pub(crate) fn normalise(x: impl Iterator<Item = f64>) -> Vec<f64> {
     let v: Vec<f64> = x.collect();

@@ -94,13 +94,32 @@ impl fmt::Display for SourceKind {
     }
 }
 
+/// A lexicon a source reads: one the caller loaded, or a bundled one that is parsed
+/// on first use (once per process), so that choosing the sources costs nothing and
+/// the parsing can run beside the import ([`Sources::prepare`]).
+#[derive(Debug, Clone)]
+pub enum Lexicon<T> {
+    Given(Arc<T>),
+    Bundled(fn() -> Arc<T>),
+}
+
+impl<T> Lexicon<T> {
+    /// The lexicon, parsing a bundled one if this is its first use.
+    pub fn get(&self) -> Arc<T> {
+        match self {
+            Lexicon::Given(l) => l.clone(),
+            Lexicon::Bundled(load) => load(),
+        }
+    }
+}
+
 /// The sources to run, with the lexicons they need.
 #[derive(Debug, Clone)]
 pub struct Sources {
     pub table: bool,
-    pub places: Option<Arc<Gazetteer>>,
-    pub life_stages: Option<Arc<LifeStages>>,
-    pub vocabulary: Option<Arc<Vocabulary>>,
+    pub places: Option<Lexicon<Gazetteer>>,
+    pub life_stages: Option<Lexicon<LifeStages>>,
+    pub vocabulary: Option<Lexicon<Vocabulary>>,
     pub friends: bool,
     /// "Now" for ages, in Unix seconds. `None`: the newest date in the archive (or
     /// the clock, when nothing in it is dated).
@@ -129,9 +148,10 @@ impl Sources {
         let on = |k| kinds.contains(&k);
         Sources {
             table: on(SourceKind::Table),
-            places: on(SourceKind::Places).then(bundled_gazetteer),
-            life_stages: on(SourceKind::LifeStages).then(bundled_life_stages),
-            vocabulary: on(SourceKind::Vocabulary).then(bundled_vocabulary),
+            places: on(SourceKind::Places).then_some(Lexicon::Bundled(bundled_gazetteer)),
+            life_stages: on(SourceKind::LifeStages)
+                .then_some(Lexicon::Bundled(bundled_life_stages)),
+            vocabulary: on(SourceKind::Vocabulary).then_some(Lexicon::Bundled(bundled_vocabulary)),
             friends: on(SourceKind::Friends),
             reference_time: None,
         }
@@ -159,6 +179,20 @@ impl Sources {
             return Err("no evidence source named".into());
         }
         Ok(Sources::only(&kinds))
+    }
+
+    /// Parse the lexicons these sources read, if they are not parsed already (a scan
+    /// calls this on a second thread while it imports).
+    pub fn prepare(&self) {
+        if let Some(l) = &self.places {
+            l.get();
+        }
+        if let Some(l) = &self.life_stages {
+            l.get();
+        }
+        if let Some(l) = &self.vocabulary {
+            l.get();
+        }
     }
 
     /// The sources that will run.

@@ -198,7 +198,7 @@ impl Problem {
                     let e = &exposure.evidence().list[e];
                     if e.attribute == t.attribute {
                         any = true;
-                        for (x, l) in w[ci * k..(ci + 1) * k].iter_mut().zip(&e.log_lr) {
+                        for (x, l) in w[ci * k..(ci + 1) * k].iter_mut().zip(e.log_lr.iter()) {
                             *x += l;
                         }
                     }

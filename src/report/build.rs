@@ -1,12 +1,13 @@
 //! The report data: what every renderer shows, and exactly what `--format json` writes.
 //! Field names here are a public interface (format 1): add fields, never rename them.
 
-use std::collections::BTreeMap;
+use std::collections::{BTreeMap, HashMap};
+use std::sync::Arc;
 
 use serde::Serialize;
 
 use crate::cautions::CAUTIONS;
-use crate::evidence::Subject;
+use crate::evidence::{Origin, Subject};
 use crate::footprint::{Footprint, ItemKind};
 use crate::infer::Exposure;
 use crate::priors::Priors;
@@ -110,12 +111,12 @@ pub struct AttributeReport {
 pub struct ItemReport {
     pub name: String,
     /// like, group, follow, event, or friends (the friend list as a whole).
-    pub kind: String,
-    /// Attribute id.
-    pub attribute: String,
+    pub kind: &'static str,
+    /// Attribute id. (Strings that many rows repeat are shared, not copied.)
+    pub attribute: Arc<str>,
     /// The value this item points to most (its highest likelihood ratio).
-    pub reveals: String,
-    pub reveals_label: String,
+    pub reveals: Arc<str>,
+    pub reveals_label: Arc<str>,
     /// KL(p‖π) in bits: how far the item's members are from the population.
     pub bits: f64,
     /// 1 − H(p)/log₂|V|.
@@ -128,8 +129,8 @@ pub struct ItemReport {
     /// Members behind the estimate.
     pub support: f64,
     /// priors, lexicon, friends or mark.
-    pub source: String,
-    pub source_detail: String,
+    pub source: &'static str,
+    pub source_detail: Arc<str>,
     #[serde(skip_serializing_if = "Option::is_none")]
     pub date: Option<i64>,
 }
@@ -177,6 +178,7 @@ pub fn build(
 
     let mut attributes = Vec::new();
     let mut items = Vec::new();
+    let mut described = Described::default();
     for (ai, attr) in priors.attributes.iter().enumerate() {
         let post = exposure.posterior(ai);
         let base = attr.base_rates[post.best];
@@ -216,40 +218,51 @@ pub fn build(
                 })
                 .collect(),
         });
+        let attribute: Arc<str> = attr.id.as_str().into();
+        let value_ids: Vec<Arc<str>> = attr.values.iter().map(|v| v.id.as_str().into()).collect();
+        let value_labels: Vec<Arc<str>> = attr
+            .values
+            .iter()
+            .map(|v| v.label.as_str().into())
+            .collect();
         for c in exposure.contributions(ai) {
             let e = &exposure.evidence().list[c.evidence];
             let (name, kind, date) = match c.subject {
                 Subject::Item(i) => {
                     let it = &footprint.items[i];
-                    (it.name.clone(), it.kind.as_str().to_string(), it.date)
+                    (it.name.clone(), it.kind.as_str(), it.date)
                 }
-                Subject::FriendList => {
-                    ("your friend list".to_string(), "friends".to_string(), None)
-                }
+                Subject::FriendList => ("your friend list".to_string(), "friends", None),
             };
             let leaning = e.leaning();
             items.push(ItemReport {
                 name,
                 kind,
-                attribute: attr.id.clone(),
-                reveals: attr.values[leaning].id.clone(),
-                reveals_label: attr.values[leaning].label.clone(),
+                attribute: attribute.clone(),
+                reveals: value_ids[leaning].clone(),
+                reveals_label: value_labels[leaning].clone(),
                 bits: e.info_bits,
                 homogeneity: e.homogeneity,
                 contribution_bits: c.toward_best_bits,
                 if_hidden_drop: c.loo_drop,
                 support: e.support,
-                source: e.origin.kind().to_string(),
-                source_detail: e.origin.describe(),
+                source: e.origin.kind(),
+                source_detail: described.get(&e.origin),
                 date,
             });
         }
     }
-    items.sort_by(|a, b| {
-        b.contribution_bits
-            .total_cmp(&a.contribution_bits)
-            .then(b.bits.total_cmp(&a.bits))
+    // Sorted through a list of positions (ties keep their order, as a stable sort
+    // would), then put in place without a second copy of the rows.
+    let mut order: Vec<usize> = (0..items.len()).collect();
+    order.sort_unstable_by(|&a, &b| {
+        let (x, y) = (&items[a], &items[b]);
+        y.contribution_bits
+            .total_cmp(&x.contribution_bits)
+            .then(y.bits.total_cmp(&x.bits))
+            .then(a.cmp(&b))
     });
+    permute(&mut items, &order);
 
     let mut has_evidence = vec![false; footprint.items.len()];
     for e in &exposure.evidence().list {
@@ -295,5 +308,44 @@ pub fn build(
         friends: friends_report(priors, exposure),
         warnings,
         cautions: CAUTIONS.iter().map(|s| s.to_string()).collect(),
+    }
+}
+
+/// Descriptions of evidence origins; lexicon origins shared by many items (the same
+/// place, the same rule) are described once.
+#[derive(Default)]
+struct Described(HashMap<(*const u8, *const u8), Arc<str>>);
+
+impl Described {
+    fn get(&mut self, origin: &Origin) -> Arc<str> {
+        match origin {
+            Origin::Lexicon { rule, detail } => self
+                .0
+                .entry((Arc::as_ptr(rule).cast(), Arc::as_ptr(detail).cast()))
+                .or_insert_with(|| origin.describe().into())
+                .clone(),
+            other => other.describe().into(),
+        }
+    }
+}
+
+/// Reorder `items` so that position `i` holds what was at `order[i]` (`order` is a
+/// permutation), following each cycle with swaps.
+fn permute<T>(items: &mut [T], order: &[usize]) {
+    let mut done = vec![false; items.len()];
+    for start in 0..items.len() {
+        if done[start] {
+            continue;
+        }
+        let mut j = start;
+        loop {
+            done[j] = true;
+            let k = order[j];
+            if k == start {
+                break;
+            }
+            items.swap(j, k);
+            j = k;
+        }
     }
 }

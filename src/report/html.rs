@@ -278,7 +278,7 @@ fn write_items(r: &ScanReport, top: usize, out: &mut dyn Write) -> io::Result<()
         let attr_label = r
             .attributes
             .iter()
-            .find(|a| a.id == i.attribute)
+            .find(|a| *a.id == *i.attribute)
             .map(|a| a.label.as_str())
             .unwrap_or(&i.attribute);
         writeln!(
@@ -287,7 +287,7 @@ fn write_items(r: &ScanReport, top: usize, out: &mut dyn Write) -> io::Result<()
              <td class=\"n\">{:.2}</td><td class=\"n\">{:.2}</td><td class=\"n\">{:+.2}</td><td class=\"n\">−{}</td></tr>",
             n + 1,
             escape(&i.name),
-            escape(&i.kind),
+            escape(i.kind),
             escape(attr_label),
             escape(&i.reveals_label),
             i.bits,

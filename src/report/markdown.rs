@@ -108,7 +108,7 @@ pub fn write_markdown(r: &ScanReport, top: usize, out: &mut dyn Write) -> io::Re
             let attr_label = r
                 .attributes
                 .iter()
-                .find(|a| a.id == i.attribute)
+                .find(|a| *a.id == *i.attribute)
                 .map(|a| a.label.as_str())
                 .unwrap_or(&i.attribute);
             writeln!(

@@ -179,7 +179,7 @@ pub fn write_text(r: &ScanReport, opts: TextOptions, out: &mut dyn Write) -> io:
             let attr_label = r
                 .attributes
                 .iter()
-                .find(|a| a.id == i.attribute)
+                .find(|a| *a.id == *i.attribute)
                 .map(|a| a.label.as_str())
                 .unwrap_or(&i.attribute);
             writeln!(
@@ -187,7 +187,7 @@ pub fn write_text(r: &ScanReport, opts: TextOptions, out: &mut dyn Write) -> io:
                 "  {:>2}  {} {} {} {:>5.2} {:>6.2} {:>+7.2}",
                 n + 1,
                 pad_to_width(&i.name, 28),
-                pad_to_width(&i.kind, 7),
+                pad_to_width(i.kind, 7),
                 pad_to_width(
                     &truncate_to_width(&format!("{attr_label}: {}", i.reveals_label), 22),
                     22

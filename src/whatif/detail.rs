@@ -97,7 +97,7 @@ pub fn item_detail(s: &Session, subject: Subject) -> ItemDetail {
         let mut bars: Vec<ValueBar> = e
             .distribution
             .iter()
-            .zip(&e.log_lr)
+            .zip(e.log_lr.iter())
             .enumerate()
             .map(|(v, (&p, &l))| ValueBar {
                 value: v,
