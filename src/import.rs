@@ -92,57 +92,75 @@ pub fn import_with_progress(
     let mut done = 0u64;
     progress(done, total);
     let mut hasher = Sha256::new();
-    for (e_idx, sources) in &wanted {
-        let entry = &entries[*e_idx];
-        done += entry.size;
-        let bytes = match archive.read(entry, &mut budget) {
-            Ok(b) => b,
-            Err(e @ archive::Error::Limit { .. }) => return Err(e.into()),
-            Err(e) => {
-                let text = e.to_string();
-                let prefix = format!("{}: ", entry.path);
-                let text = text.strip_prefix(&prefix).unwrap_or(&text);
-                state
-                    .footprint
-                    .warnings
-                    .push(Warning::new(format!("{text}; file skipped")).in_file(&entry.path));
-                continue;
+    let archive_name = archive.display_name();
+    // The entries are read (and inflated) on a second thread while this one parses
+    // the one before: a rendezvous channel hands each over, so at most two entries
+    // are held at once.
+    std::thread::scope(|scope| -> Result<(), Error> {
+        let (send, received) = std::sync::mpsc::sync_channel(0);
+        let (wanted, entries) = (&wanted, &entries);
+        scope.spawn(move || {
+            for (e_idx, _) in wanted {
+                let read = archive.read(&entries[*e_idx], &mut budget);
+                let stop = matches!(read, Err(archive::Error::Limit { .. }));
+                if send.send(read).is_err() || stop {
+                    break;
+                }
             }
-        };
-        hasher.update(entry.path.as_bytes());
-        hasher.update([0]);
-        hasher.update(&bytes);
-        hasher.update([0]);
-        state.footprint.stats.files_read += 1;
-        state.footprint.stats.bytes_read += bytes.len() as u64;
-        let (text, bad) = decode_text(&bytes);
-        if bad > 0 {
-            state.footprint.warnings.push(
-                Warning::new(format!(
-                    "not valid UTF-8 text: {bad} invalid byte sequence(s) replaced with �"
-                ))
-                .in_file(&entry.path),
-            );
-        }
-        for s_idx in sources {
-            let source = &mapping.sources[*s_idx];
-            let mut sink = SourceSink {
-                state: &mut state,
-                source,
-                file: &entry.path,
+        });
+        for ((e_idx, sources), read) in wanted.iter().zip(received) {
+            let entry = &entries[*e_idx];
+            done += entry.size;
+            let bytes = match read {
+                Ok(b) => b,
+                Err(e @ archive::Error::Limit { .. }) => return Err(e.into()),
+                Err(e) => {
+                    let text = e.to_string();
+                    let prefix = format!("{}: ", entry.path);
+                    let text = text.strip_prefix(&prefix).unwrap_or(&text);
+                    state
+                        .footprint
+                        .warnings
+                        .push(Warning::new(format!("{text}; file skipped")).in_file(&entry.path));
+                    continue;
+                }
             };
-            if let Err(w) = read_records(&text, &entry.path, source, limits, &mut sink) {
-                state.footprint.warnings.push(w);
+            hasher.update(entry.path.as_bytes());
+            hasher.update([0]);
+            hasher.update(&bytes);
+            hasher.update([0]);
+            state.footprint.stats.files_read += 1;
+            state.footprint.stats.bytes_read += bytes.len() as u64;
+            let (text, bad) = decode_text(&bytes);
+            if bad > 0 {
+                state.footprint.warnings.push(
+                    Warning::new(format!(
+                        "not valid UTF-8 text: {bad} invalid byte sequence(s) replaced with �"
+                    ))
+                    .in_file(&entry.path),
+                );
             }
-            if state.over_limit {
-                return Err(Error::TooManyRecords {
-                    archive: archive.display_name(),
-                    limit: limits.get(LimitName::Records),
-                });
+            for s_idx in sources {
+                let source = &mapping.sources[*s_idx];
+                let mut sink = SourceSink {
+                    state: &mut state,
+                    source,
+                    file: &entry.path,
+                };
+                if let Err(w) = read_records(&text, &entry.path, source, limits, &mut sink) {
+                    state.footprint.warnings.push(w);
+                }
+                if state.over_limit {
+                    return Err(Error::TooManyRecords {
+                        archive: archive_name,
+                        limit: limits.get(LimitName::Records),
+                    });
+                }
             }
+            progress(done, total);
         }
-        progress(done, total);
-    }
+        Ok(())
+    })?;
     let digest = hasher.finalize();
     state.footprint.fingerprint = digest[..16].iter().map(|b| format!("{b:02x}")).collect();
     Ok(state.finish())

@@ -90,7 +90,8 @@ impl Folder {
             entry: entry.path.clone(),
             detail: e.to_string(),
         })?;
-        read_capped(file, cap, &entry.path, None)
+        let declared = file.metadata().map(|m| m.len()).unwrap_or(0);
+        read_capped(file, cap, &entry.path, None, declared)
     }
 }
 

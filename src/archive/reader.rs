@@ -166,17 +166,24 @@ pub(crate) fn limit_error(context: &str, name: LimitName, limit: u64) -> Error {
 /// "over it" without reading an unbounded stream. With `inflate_limit`, stop with an
 /// error as soon as more than that many bytes come out (a compression bomb is refused
 /// after reading at most that much, whatever sizes its headers claim).
+///
+/// `size_hint` is the size the file or zip header declares: that much is reserved up
+/// front (never more than the limits allow), so a large entry is read into one buffer
+/// of its own size rather than one that doubled its way there.
 pub(crate) fn read_capped(
     mut reader: impl Read,
     cap: u64,
     entry: &str,
     inflate_limit: Option<(u64, u64)>,
+    size_hint: u64,
 ) -> Result<Vec<u8>> {
     let io = |e: std::io::Error| Error::Read {
         entry: entry.to_string(),
         detail: e.to_string(),
     };
-    let mut out = Vec::new();
+    let allowed = inflate_limit.map_or(cap, |(allowed, _)| allowed.min(cap));
+    let reserve = usize::try_from(size_hint.min(allowed)).unwrap_or(0);
+    let mut out = Vec::with_capacity(reserve);
     let mut chunk = vec![0u8; 64 * 1024];
     let stop = cap.saturating_add(1);
     while (out.len() as u64) < stop {

@@ -148,7 +148,8 @@ impl Zipped {
         })?;
         // Small entries may compress very well by chance; only refuse past 1 MiB.
         let allowed = file.compressed_size().saturating_mul(ratio).max(1 << 20);
-        read_capped(file, cap, &entry.path, Some((allowed, ratio)))
+        let declared = file.size();
+        read_capped(file, cap, &entry.path, Some((allowed, ratio)), declared)
     }
 }
 
