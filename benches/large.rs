@@ -8,7 +8,10 @@
 //! TELLTALE_LARGE_PRIORS=/tmp/telltale-perf/priors-large.json cargo bench --bench large
 //! ```
 //!
-//! Without `TELLTALE_LARGE` it says so and does nothing. Without
+//! With `TELLTALE_LARGE_PRIORS` it first times loading that priors file three ways,
+//! each with its own peak RSS: from JSON without the cache, from JSON writing a fresh
+//! cache (in a temporary folder), and from the cache (best of `TELLTALE_REPEAT`).
+//! Without `TELLTALE_LARGE` it stops there (or, without either, says so). Without
 //! `TELLTALE_LARGE_PRIORS` it scores against the bundled demo priors. Each phase runs
 //! once per repetition (`TELLTALE_REPEAT`, default 3); the shortest time is printed, as
 //! the least disturbed by other work on the machine.
@@ -22,6 +25,7 @@ use telltale::import::import;
 use telltale::infer::Exposure;
 use telltale::limits::Limits;
 use telltale::mapping::{Mapping, locate};
+use telltale::priors::Priors;
 use telltale::scan::load_priors;
 
 /// Peak resident memory so far, from the kernel's accounting (Linux).
@@ -32,18 +36,79 @@ fn peak_rss_mb() -> Option<f64> {
     Some(kb / 1024.0)
 }
 
-fn main() {
-    let Some(archive_path) = std::env::var_os("TELLTALE_LARGE").map(PathBuf::from) else {
-        println!("large: set TELLTALE_LARGE to an archive made by `telltale synth large`");
-        return;
+/// Start a new peak-RSS measurement (Linux: writing 5 to clear_refs resets VmHWM).
+fn reset_peak() {
+    let _ = std::fs::write("/proc/self/clear_refs", "5");
+}
+
+/// Load the priors file without cache, writing a cache, and from the cache.
+fn priors_phases(path: &std::path::Path, repeat: usize) -> Option<Priors> {
+    let report = |what: &str, t: Duration, items: usize| {
+        println!(
+            "priors {what}: {items} items in {:.3} s, peak RSS {:.0} MB",
+            t.as_secs_f64(),
+            peak_rss_mb().unwrap_or(f64::NAN)
+        );
     };
+    let dir = tempfile::tempdir().ok()?;
+    let cache = dir.path().join("priors");
+    reset_peak();
+    let t = Instant::now();
+    let p = Priors::load(path)
+        .map_err(|e| eprintln!("large: {e}"))
+        .ok()?;
+    report("JSON, no cache", t.elapsed(), p.len_items());
+    drop(p);
+    reset_peak();
+    let t = Instant::now();
+    let p = Priors::load_cached(path, Some(&cache)).ok()?;
+    report("JSON, writing the cache", t.elapsed(), p.len_items());
+    println!("  {}", p.cache_notes.join("; "));
+    drop(p);
+    reset_peak();
+    let mut best = Duration::MAX;
+    let mut last = None;
+    for _ in 0..repeat.max(1) {
+        drop(last.take());
+        let t = Instant::now();
+        let p = Priors::load_cached(path, Some(&cache)).ok()?;
+        best = best.min(t.elapsed());
+        last = Some(p);
+    }
+    let p = last?;
+    let bytes: u64 = std::fs::read_dir(&cache)
+        .ok()?
+        .filter_map(|e| e.ok()?.metadata().ok())
+        .map(|m| m.len())
+        .sum();
+    report(
+        &format!("from the cache ({} MB), best of {repeat}", bytes >> 20),
+        best,
+        p.len_items(),
+    );
+    Some(p)
+}
+
+fn main() {
     let priors_path = std::env::var_os("TELLTALE_LARGE_PRIORS").map(PathBuf::from);
     let repeat: usize = std::env::var("TELLTALE_REPEAT")
         .ok()
         .and_then(|s| s.parse().ok())
         .unwrap_or(3);
+    let loaded = priors_path
+        .as_deref()
+        .and_then(|p| priors_phases(p, repeat));
+    let Some(archive_path) = std::env::var_os("TELLTALE_LARGE").map(PathBuf::from) else {
+        println!("large: set TELLTALE_LARGE to an archive made by `telltale synth large`");
+        return;
+    };
+    reset_peak();
     let t = Instant::now();
-    let priors = match load_priors(priors_path.as_deref()) {
+    // The cached priors from above, or (never writing a cache here) the JSON.
+    let priors = match loaded.map(Ok).unwrap_or_else(|| match &priors_path {
+        Some(p) => Priors::load(p),
+        None => load_priors(None),
+    }) {
         Ok(p) => p,
         Err(e) => {
             eprintln!("large: {e}");
@@ -52,8 +117,8 @@ fn main() {
     };
     let load = t.elapsed();
     println!(
-        "priors: {} items loaded and indexed in {:.3} s (peak RSS so far {:.0} MB)",
-        priors.items.len(),
+        "priors: {} items ready in {:.3} s (peak RSS so far {:.0} MB)",
+        priors.len_items(),
         load.as_secs_f64(),
         peak_rss_mb().unwrap_or(f64::NAN)
     );

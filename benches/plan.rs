@@ -41,15 +41,14 @@ pub fn member_footprint(priors: &Priors, seed: u64, n: usize) -> Footprint {
         })
         .collect();
     let mut keyed: Vec<(f64, usize)> = priors
-        .items
-        .iter()
+        .items()
         .enumerate()
         .map(|(i, it)| {
             let mut logw = it.support().max(1.0).ln();
-            for (ai, counts) in &it.members {
-                let a = &priors.attributes[*ai];
-                let (p, q) = smooth_against(counts, &a.member_rates, a.smoothing, a.pseudocount);
-                logw += (p[values[*ai]] / q[values[*ai]]).ln();
+            for (ai, counts) in it.members() {
+                let a = &priors.attributes[ai];
+                let (p, q) = smooth_against(&counts, &a.member_rates, a.smoothing, a.pseudocount);
+                logw += (p[values[ai]] / q[values[ai]]).ln();
             }
             let u: f64 = rng.random_range(f64::MIN_POSITIVE..1.0);
             (u.ln() / logw.exp(), i)
@@ -60,10 +59,10 @@ pub fn member_footprint(priors: &Priors, seed: u64, n: usize) -> Footprint {
         .iter()
         .take(n)
         .map(|&(_, i)| {
-            let r = &priors.items[i];
+            let r = priors.item(i);
             Item {
-                kind: r.kind.unwrap_or(ItemKind::Like),
-                name: r.name.clone(),
+                kind: r.kind().unwrap_or(ItemKind::Like),
+                name: r.name().to_string(),
                 id: None,
                 category: None,
                 date: None,

@@ -21,10 +21,12 @@ pub const DEMO_PRIORS_JSON: &str = include_str!("../reference-priors/demo-priors
 /// Name shown for the bundled priors.
 pub const DEMO_PRIORS_NAME: &str = "demo-priors.json (bundled)";
 
-/// Load priors from a file, or the bundled demo priors when no file is named.
+/// Load priors from a file (through the binary cache of large files unless
+/// [`priors::disable_cache`] was called), or the bundled demo priors when no file is
+/// named.
 pub fn load_priors(path: Option<&Path>) -> Result<Priors, priors::Error> {
     match path {
-        Some(p) => Priors::load(p),
+        Some(p) => Priors::load_cached(p, priors::cache_dir().as_deref()),
         None => Priors::parse(DEMO_PRIORS_JSON, DEMO_PRIORS_NAME),
     }
 }

@@ -36,7 +36,7 @@ fn fold_chars(chars: impl Iterator<Item = char>) -> String {
     let mut out = String::new();
     let mut pending_space = false;
     for c in chars {
-        if is_combining_mark(c) {
+        if !c.is_ascii() && is_combining_mark(c) {
             continue;
         }
         if c.is_alphanumeric() {

@@ -169,8 +169,8 @@ fn priors_build_records_privacy_and_leaks_no_names() {
     assert_eq!(priors.provenance.created, "2026-12-02");
     let n = priors.provenance.contributors.expect("contributors");
     assert!((60..=180).contains(&n), "noisy contributor count {n}");
-    for item in &priors.items {
-        for (_, counts) in &item.members {
+    for item in priors.items() {
+        for (_, counts) in item.members() {
             assert!(counts.iter().all(|c| *c >= 0.0 && c.fract() == 0.0));
         }
     }
@@ -179,13 +179,12 @@ fn priors_build_records_privacy_and_leaks_no_names() {
     // schema itself lists it (the invented network's followed accounts are named like
     // people, so an invented friend can share a name with one).
     let schema = demo_schema();
-    for item in &priors.items {
+    for item in priors.items() {
         assert!(
             schema
                 .priors
-                .items
-                .iter()
-                .any(|c| c.name == item.name && c.id == item.id)
+                .items()
+                .any(|c| c.name() == item.name() && c.id() == item.id())
         );
     }
     let public = |name: &str| DEMO_PRIORS_JSON.contains(name);

@@ -1,6 +1,7 @@
 //! What telltale promises about the machine it runs on (docs/promises.md): symbolic
 //! links are not followed out of an archive folder, the archive is never written to,
-//! and nothing is sent over a network.
+//! nothing is sent over a network, a scan writes nothing but its report unless a large
+//! priors file is cached, and a cached priors load reports exactly what the JSON gives.
 
 use std::collections::BTreeMap;
 use std::path::Path;
@@ -242,4 +243,163 @@ fn nothing_is_sent_over_a_network() {
             Some(calls) => assert!(calls.is_empty(), "{args:?} made network calls: {calls:#?}"),
         }
     }
+}
+
+/// Every file under `dir` (none when it does not exist).
+fn files_under(dir: &Path) -> Vec<std::path::PathBuf> {
+    walkdir::WalkDir::new(dir)
+        .into_iter()
+        .filter_map(Result::ok)
+        .filter(|e| e.file_type().is_file())
+        .map(|e| e.into_path())
+        .collect()
+}
+
+fn telltale_in(home: &Path, cache: &Path, args: &[&str]) -> std::process::Output {
+    let out = Command::new(env!("CARGO_BIN_EXE_telltale"))
+        .args(args)
+        .env("HOME", home)
+        .env("XDG_CACHE_HOME", home.join(".cache"))
+        .env("TELLTALE_CACHE_DIR", cache)
+        .output()
+        .expect("run telltale");
+    assert!(
+        out.status.success(),
+        "{args:?}: {}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    out
+}
+
+/// docs/promises.md: a priors file too small to cache (the bundled demo priors, here
+/// as a file) makes a scan write nothing but its report — no cache, nothing in the
+/// home or cache folders.
+#[test]
+fn a_scan_with_a_small_priors_file_writes_only_its_report() {
+    let work = tempfile::tempdir().expect("tempdir");
+    let (home, cache, out) = (
+        work.path().join("home"),
+        work.path().join("cache"),
+        work.path().join("out"),
+    );
+    for d in [&home, &out] {
+        std::fs::create_dir_all(d).expect("mkdir");
+    }
+    let priors = out.join("priors.json");
+    std::fs::copy(
+        Path::new(env!("CARGO_MANIFEST_DIR")).join("reference-priors/demo-priors.json"),
+        &priors,
+    )
+    .expect("copy priors");
+    let archive = Path::new(env!("CARGO_MANIFEST_DIR")).join("demo-exports/reporter");
+    let report = out.join("report.json");
+    telltale_in(
+        &home,
+        &cache,
+        &[
+            "scan",
+            archive.to_str().unwrap(),
+            "--priors",
+            priors.to_str().unwrap(),
+            "--format",
+            "json",
+            "-o",
+            report.to_str().unwrap(),
+        ],
+    );
+    assert!(files_under(&home).is_empty(), "{:?}", files_under(&home));
+    assert!(!cache.exists(), "{:?}", files_under(&cache));
+    let mut written = files_under(&out);
+    written.sort();
+    assert_eq!(written, vec![priors, report]);
+}
+
+/// docs/promises.md and docs/priors.md: a large priors file is cached (one owner-only
+/// file in the cache folder, nowhere else), and a scan through the cache reports
+/// exactly what a scan of the JSON does (same posteriors, byte for byte), as does
+/// `--no-cache`, which writes nothing.
+#[test]
+fn a_cached_priors_load_gives_the_same_report() {
+    let work = tempfile::tempdir().expect("tempdir");
+    let (home, cache) = (work.path().join("home"), work.path().join("cache"));
+    std::fs::create_dir_all(&home).expect("mkdir");
+    let priors = work.path().join("priors.json");
+    let archive = work.path().join("large.zip");
+    let p = |p: &Path| p.to_str().unwrap().to_string();
+    telltale_in(
+        &home,
+        &cache,
+        &["synth", "priors-large", &p(&priors), "--items", "25000"],
+    );
+    telltale_in(
+        &home,
+        &cache,
+        &[
+            "synth",
+            "large",
+            &p(&archive),
+            "--likes",
+            "400",
+            "--groups",
+            "60",
+            "--friends",
+            "20",
+            "--media-mb",
+            "0",
+            "--table-items",
+            "25000",
+        ],
+    );
+    let scan = |out: &str, extra: &[&str]| {
+        let report = work.path().join(out);
+        let mut args = vec![
+            "scan".to_string(),
+            p(&archive),
+            "--priors".into(),
+            p(&priors),
+            "--sources".into(),
+            "table".into(),
+            "--format".into(),
+            "json".into(),
+            "-o".into(),
+            p(&report),
+        ];
+        args.extend(extra.iter().map(|s| s.to_string()));
+        let args: Vec<&str> = args.iter().map(String::as_str).collect();
+        telltale_in(&home, &cache, &args);
+        std::fs::read_to_string(report).expect("report")
+    };
+    let plain = scan("plain.json", &["--no-cache"]);
+    assert!(
+        !cache.exists(),
+        "--no-cache wrote {:?}",
+        files_under(&cache)
+    );
+    let first = scan("first.json", &[]);
+    let cached = files_under(&cache);
+    assert_eq!(cached.len(), 1, "{cached:?}");
+    assert!(cached[0].starts_with(cache.join("priors")));
+    #[cfg(unix)]
+    {
+        use std::os::unix::fs::PermissionsExt;
+        let mode = std::fs::metadata(&cached[0]).unwrap().permissions().mode();
+        assert_eq!(mode & 0o777, 0o600);
+    }
+    let second = scan("second.json", &[]);
+    assert!(files_under(&home).is_empty());
+    // The second load came from the cache.
+    let loaded =
+        telltale::priors::Priors::load_cached(&priors, Some(&cache.join("priors"))).expect("load");
+    assert!(
+        loaded
+            .cache_notes
+            .iter()
+            .any(|n| n.starts_with("read from the cache")),
+        "{:?}",
+        loaded.cache_notes
+    );
+    let report: serde_json::Value = serde_json::from_str(&plain).expect("json");
+    assert!(report["priors"]["items_matched"].as_u64().unwrap() > 100);
+    assert_eq!(plain, first);
+    assert_eq!(plain, second);
 }

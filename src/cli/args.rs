@@ -294,6 +294,11 @@ pub struct SourceArgs {
     /// are used for matching only and never reported.
     #[arg(long, value_name = "FILE")]
     pub friends: Option<PathBuf>,
+
+    /// Neither read nor write the binary cache that makes a large priors file load
+    /// fast (see docs/priors.md).
+    #[arg(long)]
+    pub no_cache: bool,
 }
 
 #[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]

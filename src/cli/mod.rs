@@ -23,6 +23,16 @@ const EXIT_ERROR: u8 = 1;
 
 pub fn main() -> ExitCode {
     let cli = Cli::parse();
+    let no_cache = match &cli.command {
+        Some(Command::Scan(a)) => a.input.no_cache,
+        Some(Command::Plan(a)) => a.input.no_cache,
+        Some(Command::Explore(a)) => a.input.no_cache,
+        Some(_) => false,
+        None => cli.input.no_cache,
+    };
+    if no_cache {
+        telltale::priors::disable_cache();
+    }
     let result = match cli.command {
         Some(Command::Scan(args)) => scan::run(&args),
         Some(Command::Plan(args)) => plan::run(&args),

@@ -15,7 +15,7 @@ use telltale::scan::{Scan, load_priors};
 
 use super::args::{PlanArgs, PlanMethod, ReportFormat};
 use super::output::emit;
-use super::scan::input;
+use super::scan::{input, note_cache};
 
 fn split_pair<'a>(flag: &str, s: &'a str) -> Result<(&'a str, &'a str)> {
     s.rsplit_once('=')
@@ -110,6 +110,7 @@ pub fn run(args: &PlanArgs) -> Result<ExitCode> {
         );
     }
     let priors = load_priors(args.input.priors.as_deref()).context("cannot use the priors")?;
+    note_cache(&priors);
     let input = input(args.archive.clone(), &args.input)?;
     let scan = Scan::run(&input, &priors)?;
     let req = request(args, &priors, &scan.footprint)?;

@@ -33,8 +33,19 @@ pub fn input(archive: PathBuf, src: &SourceArgs) -> Result<ScanInput> {
     })
 }
 
+/// What the priors cache did, on a terminal only (scripts stay quiet).
+pub fn note_cache(priors: &telltale::priors::Priors) {
+    use std::io::IsTerminal;
+    if std::io::stderr().is_terminal() {
+        for n in &priors.cache_notes {
+            eprintln!("priors: {n}");
+        }
+    }
+}
+
 pub fn run(args: &ScanArgs) -> Result<ExitCode> {
     let priors = load_priors(args.input.priors.as_deref()).context("cannot use the priors")?;
+    note_cache(&priors);
     let input = input(args.archive.clone(), &args.input)?;
     let pb = super::cohort::byte_bar("importing");
     let scan = Scan::run_with_progress(&input, &priors, &mut |done, total| {

@@ -19,7 +19,7 @@ use crate::priors::{Priors, PriorsFile};
 pub struct Schema {
     /// As read (attributes are copied into the output; items are the candidates).
     pub file: PriorsFile,
-    /// Checked, with the match index; `priors.items` is the candidate list.
+    /// Checked, with the match index; `priors.items()` are the candidates.
     pub priors: Priors,
 }
 
@@ -34,7 +34,7 @@ impl Schema {
     }
 
     pub fn n_items(&self) -> usize {
-        self.priors.items.len()
+        self.priors.len_items()
     }
 }
 

@@ -194,7 +194,7 @@ pub fn build_file(schema: &Schema, table: &Table, params: &BuildParams) -> Built
         })
         .collect();
     let mut items = Vec::new();
-    for (i, item) in schema.priors.items.iter().enumerate() {
+    for (i, item) in schema.priors.items().enumerate() {
         if !table.keep[i] {
             continue;
         }
@@ -206,16 +206,16 @@ pub fn build_file(schema: &Schema, table: &Table, params: &BuildParams) -> Built
             );
         }
         items.push(ItemSpec {
-            id: item.id.clone(),
-            name: item.name.clone(),
-            kind: item.kind,
+            id: item.id().map(str::to_string),
+            name: item.name().to_string(),
+            kind: item.kind(),
             aliases: Vec::new(),
             members,
         });
     }
     let contributors = table.contributors.round() as u64;
     let kept = items.len();
-    let dropped = schema.priors.items.len() - kept;
+    let dropped = schema.priors.len_items() - kept;
     let (privacy, how) = match &params.budget {
         Some(b) => (
             Some(PrivacySpec {
@@ -239,7 +239,7 @@ pub fn build_file(schema: &Schema, table: &Table, params: &BuildParams) -> Built
     };
     let method = format!(
         "{how}{kept} of {} candidate items kept (at least {} members); base and membership rates from the same release.{}",
-        schema.priors.items.len(),
+        schema.priors.len_items(),
         params.min_members,
         params.method_note
     );

@@ -141,13 +141,12 @@ fn item_lrs(schema: &Schema, priors: &Priors) -> Vec<Vec<Option<Vec<f64>>>> {
     let footprint = Footprint {
         items: schema
             .priors
-            .items
-            .iter()
+            .items()
             .enumerate()
             .map(|(i, it)| Item {
-                kind: it.kind.unwrap_or(ItemKind::Like),
-                name: it.name.clone(),
-                id: it.id.clone(),
+                kind: it.kind().unwrap_or(ItemKind::Like),
+                name: it.name().to_string(),
+                id: it.id().map(str::to_string),
                 category: None,
                 date: None,
                 origin: Origin {

@@ -14,26 +14,32 @@ use crate::stats::smooth_against;
 
 /// Add the priors-table evidence for every matched item.
 pub fn from_table(footprint: &Footprint, priors: &Priors, set: &mut EvidenceSet) {
+    let mut counts = Vec::new();
     for (i, item) in footprint.items.iter().enumerate() {
         let Some((ri, matched_by)) = priors.find(item) else {
             continue;
         };
         set.matched_items += 1;
-        let reference = &priors.items[ri];
-        for (ai, counts) in &reference.members {
-            let attr = &priors.attributes[*ai];
-            let (p, q) =
-                smooth_against(counts, &attr.member_rates, attr.smoothing, attr.pseudocount);
+        let reference = priors.item(ri);
+        for ai in reference.attributes() {
+            reference.counts_into(ai, &mut counts);
+            let attr = &priors.attributes[ai];
+            let (p, q) = smooth_against(
+                &counts,
+                &attr.member_rates,
+                attr.smoothing,
+                attr.pseudocount,
+            );
             let support = counts.iter().sum();
             set.push(Evidence::from_distribution(
                 Subject::Item(i),
-                *ai,
+                ai,
                 p,
                 &q,
                 support,
                 Origin::Table {
                     matched_by,
-                    reference: reference.name.clone(),
+                    reference: reference.name().to_string(),
                 },
             ));
         }

@@ -172,7 +172,7 @@ pub fn build(
         source: priors.provenance.source.clone(),
         licence: priors.provenance.licence.clone(),
         synthetic: priors.provenance.synthetic,
-        reference_items: priors.items.len(),
+        reference_items: priors.len_items(),
         items_matched: exposure.evidence().matched_items,
     };
 

@@ -1,0 +1,343 @@
+//! The binary cache of checked priors, so a large priors file is parsed once: after a
+//! JSON load of a file of at least [`MIN_CACHED_BYTES`] or [`MIN_CACHED_ITEMS`] items,
+//! the checked attributes, item columns, warnings and match index are written to
+//! `<cache folder>/priors/<BLAKE3 of the JSON>.bin` (owner-only, through a temporary
+//! file and a rename). Every later load reads and hashes the JSON file, and uses a
+//! cache only when its name and header carry that same hash. The cache holds nothing
+//! the priors file does not: derived reference statistics, never archive data.
+//!
+//! Nothing in a cache is trusted: the magic, [`CACHE_VERSION`], the JSON hash, a
+//! BLAKE3 checksum of the whole payload (so a flipped or lost byte is caught), every
+//! length, offset and span (in bounds, in order, on UTF-8 character boundaries), every
+//! count coding and its byte length, raw counts (finite, not below 0), the index
+//! (sorted, every entry pointing at an item or alias that exists) are checked before
+//! use, so no cache can make telltale read out of bounds or panic. Any problem means the JSON is read instead, with a note; a cache
+//! that cannot be written is also only a note.
+
+use std::io::Read;
+use std::path::{Path, PathBuf};
+use std::sync::atomic::{AtomicBool, Ordering};
+
+use super::bin::{Reader, Writer};
+use super::error::{Error, Result};
+use super::index::{Index, Keyed};
+use super::model::Priors;
+use super::store::{HAS_ID, Items, KIND_MASK, TAG_F64, width};
+use crate::footprint::ItemKind;
+
+/// Bumped whenever the layout below changes; a cache of another version is refused.
+pub const CACHE_VERSION: u32 = 1;
+
+/// Environment variable naming telltale's cache folder (the priors caches go in its
+/// `priors/` folder). Empty or unset: the platform's cache folder.
+pub const CACHE_DIR_ENV: &str = "TELLTALE_CACHE_DIR";
+
+/// Priors files at least this big are cached (8 MiB; the bundled demo priors are
+/// about 0.5 MB). Below it a JSON load takes well under a tenth of a second.
+pub const MIN_CACHED_BYTES: usize = 8 << 20;
+
+/// …or with at least this many reference items.
+pub const MIN_CACHED_ITEMS: usize = 20_000;
+
+const MAGIC: &[u8; 8] = b"TTPRIORC";
+const HEADER_LEN: usize = 8 + 4 + 32 + 8 + 32;
+
+static DISABLED: AtomicBool = AtomicBool::new(false);
+
+/// Turn the cache off for this process (`--no-cache`): nothing is read or written.
+pub fn disable_cache() {
+    DISABLED.store(true, Ordering::Relaxed);
+}
+
+/// The folder priors caches go in, unless caching is off: `$TELLTALE_CACHE_DIR/priors`
+/// when set, else the platform's cache folder for telltale (e.g.
+/// `~/.cache/telltale/priors` on Linux).
+pub fn cache_dir() -> Option<PathBuf> {
+    if DISABLED.load(Ordering::Relaxed) {
+        return None;
+    }
+    let base = match std::env::var_os(CACHE_DIR_ENV).filter(|v| !v.is_empty()) {
+        Some(dir) => PathBuf::from(dir),
+        None => directories::ProjectDirs::from("", "", "telltale")?
+            .cache_dir()
+            .to_path_buf(),
+    };
+    Some(base.join("priors"))
+}
+
+/// Where the cache of a JSON text with this hash lives.
+pub fn cache_path(dir: &Path, hash: &blake3::Hash) -> PathBuf {
+    dir.join(format!("{}.bin", hash.to_hex()))
+}
+
+impl Priors {
+    /// Load a priors file, through the cache in `cache` when given (see the module
+    /// notes); `Priors::cache_notes` says what happened.
+    pub fn load_cached(path: &Path, cache: Option<&Path>) -> Result<Priors> {
+        let Some(dir) = cache else {
+            return Priors::load(path);
+        };
+        let origin = path.display().to_string();
+        let read_err = |source| Error::Read {
+            file: origin.clone(),
+            source,
+        };
+        let mut notes = Vec::new();
+        let hash = hash_file(path).map_err(read_err)?;
+        let cached = cache_path(dir, &hash);
+        match std::fs::read(&cached) {
+            Ok(bytes) => match decode(&bytes, &hash, &origin) {
+                Ok(mut priors) => {
+                    priors
+                        .cache_notes
+                        .push(format!("read from the cache {}", cached.display()));
+                    return Ok(priors);
+                }
+                Err(why) => notes.push(format!(
+                    "the cache {} was not used ({why}); read the JSON instead",
+                    cached.display()
+                )),
+            },
+            Err(e) if e.kind() == std::io::ErrorKind::NotFound => {}
+            Err(e) => notes.push(format!("cannot read the cache {}: {e}", cached.display())),
+        }
+        let text = std::fs::read_to_string(path).map_err(read_err)?;
+        let mut priors = Priors::parse(&text, &origin)?;
+        if text.len() >= MIN_CACHED_BYTES || priors.len_items() >= MIN_CACHED_ITEMS {
+            // The key is the hash of the text actually parsed (the file may have
+            // changed since it was hashed above).
+            let hash = blake3::hash(text.as_bytes());
+            drop(text);
+            let target = cache_path(dir, &hash);
+            match write(&priors, &hash, dir, &target) {
+                Ok(()) => notes.push(format!("wrote the cache {}", target.display())),
+                Err(e) => notes.push(format!("cannot write the cache {}: {e}", target.display())),
+            }
+        }
+        priors.cache_notes = notes;
+        Ok(priors)
+    }
+}
+
+/// BLAKE3 of a file, read in 1 MiB steps.
+pub fn hash_file(path: &Path) -> std::io::Result<blake3::Hash> {
+    let mut f = std::fs::File::open(path)?;
+    let mut hasher = blake3::Hasher::new();
+    let mut buf = vec![0u8; 1 << 20];
+    loop {
+        match f.read(&mut buf) {
+            Ok(0) => return Ok(hasher.finalize()),
+            Ok(n) => {
+                hasher.update(&buf[..n]);
+            }
+            Err(e) if e.kind() == std::io::ErrorKind::Interrupted => {}
+            Err(e) => return Err(e),
+        }
+    }
+}
+
+fn write(priors: &Priors, hash: &blake3::Hash, dir: &Path, target: &Path) -> std::io::Result<()> {
+    let mut builder = std::fs::DirBuilder::new();
+    builder.recursive(true);
+    #[cfg(unix)]
+    {
+        use std::os::unix::fs::DirBuilderExt;
+        builder.mode(0o700);
+    }
+    builder.create(dir)?;
+    let bytes = encode(priors, hash);
+    crate::safe_write::write_atomic(target, |w| w.write_all(&bytes))
+}
+
+/// The cache bytes of `priors` read from a JSON text with hash `json_hash`.
+pub(crate) fn encode(priors: &Priors, json_hash: &blake3::Hash) -> Vec<u8> {
+    let mut w = Writer::default();
+    w.provenance(&priors.provenance);
+    w.u64(priors.attributes.len() as u64);
+    priors.attributes.iter().for_each(|a| w.attribute(a));
+    w.u64(priors.warnings.len() as u64);
+    priors.warnings.iter().for_each(|s| w.str(s));
+    let s = &priors.store;
+    w.bytes(s.text.as_bytes());
+    w.u32s(&s.spans);
+    w.bytes(&s.flags);
+    w.u32s(&s.entry_start);
+    w.u16s(&s.entry_attr);
+    w.bytes(&s.entry_tag);
+    w.u64s(&s.counts_start);
+    w.bytes(&s.counts);
+    w.f64s(&s.support);
+    let x = &priors.index;
+    for k in [&x.ids, &x.names, &x.aliases] {
+        w.u64s(&k.hash);
+        w.u32s(&k.at);
+    }
+    w.bytes(x.alias_text.as_bytes());
+    w.u32s(&x.alias_spans);
+    w.u32s(&x.alias_item);
+    let payload = w.buf;
+    let mut out = Vec::with_capacity(HEADER_LEN + payload.len());
+    out.extend_from_slice(MAGIC);
+    out.extend_from_slice(&CACHE_VERSION.to_le_bytes());
+    out.extend_from_slice(json_hash.as_bytes());
+    out.extend_from_slice(&(payload.len() as u64).to_le_bytes());
+    out.extend_from_slice(blake3::hash(&payload).as_bytes());
+    out.extend_from_slice(&payload);
+    out
+}
+
+/// Read and check cache bytes; the reason when they cannot be used.
+pub(crate) fn decode(
+    bytes: &[u8],
+    json_hash: &blake3::Hash,
+    origin: &str,
+) -> std::result::Result<Priors, &'static str> {
+    if bytes.len() < HEADER_LEN || &bytes[..8] != MAGIC {
+        return Err("not a telltale priors cache");
+    }
+    if bytes[8..12] != CACHE_VERSION.to_le_bytes() {
+        return Err("made by another version of telltale");
+    }
+    if &bytes[12..44] != json_hash.as_bytes() {
+        return Err("made from another priors file");
+    }
+    let payload = &bytes[HEADER_LEN..];
+    if bytes[44..52] != (payload.len() as u64).to_le_bytes() {
+        return Err("cut short or padded");
+    }
+    if &bytes[52..84] != blake3::hash(payload).as_bytes() {
+        return Err("damaged: its checksum does not match");
+    }
+    read_payload(payload, origin).ok_or("its contents are inconsistent")
+}
+
+fn read_payload(payload: &[u8], origin: &str) -> Option<Priors> {
+    let mut r = Reader::new(payload);
+    let provenance = r.provenance()?;
+    let n_attr = usize::try_from(r.u64()?).ok()?;
+    if n_attr == 0 || n_attr > payload.len() / 64 || n_attr > u16::MAX as usize + 1 {
+        return None;
+    }
+    let attributes = (0..n_attr)
+        .map(|_| r.attribute())
+        .collect::<Option<Vec<_>>>()?;
+    let n_warn = usize::try_from(r.u64()?).ok()?;
+    if n_warn > payload.len() / 8 {
+        return None;
+    }
+    let warnings = (0..n_warn)
+        .map(|_| r.string())
+        .collect::<Option<Vec<_>>>()?;
+    let store = Items {
+        text: r.str()?.to_string(),
+        spans: r.u32s()?,
+        flags: r.bytes()?.to_vec(),
+        entry_start: r.u32s()?,
+        entry_attr: r.u16s()?,
+        entry_tag: r.bytes()?.to_vec(),
+        counts_start: r.u64s()?,
+        counts: r.bytes()?.to_vec(),
+        support: r.f64s()?,
+        value_counts: attributes.iter().map(|a| a.values.len() as u32).collect(),
+    };
+    let mut keyed = || -> Option<Keyed> {
+        Some(Keyed {
+            hash: r.u64s()?,
+            at: r.u32s()?,
+        })
+    };
+    let (ids, names, aliases) = (keyed()?, keyed()?, keyed()?);
+    let index = Index {
+        ids,
+        names,
+        aliases,
+        alias_text: r.str()?.to_string(),
+        alias_spans: r.u32s()?,
+        alias_item: r.u32s()?,
+    };
+    if !r.at_end() || !items_ok(&store) || !index_ok(&index, store.len()) {
+        return None;
+    }
+    Some(Priors {
+        provenance,
+        attributes,
+        warnings,
+        origin: origin.to_string(),
+        cache_notes: Vec::new(),
+        store,
+        index,
+    })
+}
+
+/// Offsets start at 0, never go down, end at `len`, and (for text) fall on character
+/// boundaries.
+fn spans_ok(spans: &[u32], len: usize, text: Option<&str>) -> bool {
+    spans.first() == Some(&0)
+        && spans.last().is_some_and(|&e| e as usize == len)
+        && spans.windows(2).all(|w| w[0] <= w[1])
+        && text.is_none_or(|t| spans.iter().all(|&s| t.is_char_boundary(s as usize)))
+}
+
+fn items_ok(s: &Items) -> bool {
+    let n = s.flags.len();
+    let n_attr = s.value_counts.len();
+    let kinds = ItemKind::ALL.len() as u8;
+    if s.spans.len() != 2 * n + 1
+        || !spans_ok(&s.spans, s.text.len(), Some(&s.text))
+        || s.flags
+            .iter()
+            .any(|&f| f & !(HAS_ID | KIND_MASK) != 0 || f & KIND_MASK > kinds)
+        || s.entry_start.len() != n + 1
+        || !spans_ok(&s.entry_start, s.entry_attr.len(), None)
+        || s.entry_tag.len() != s.entry_attr.len()
+        || s.counts_start.len() != n + 1
+        || s.counts_start.first() != Some(&0)
+        || s.counts_start.last() != Some(&(s.counts.len() as u64))
+        || s.support.len() != n
+    {
+        return false;
+    }
+    for i in 0..n {
+        let mut at = s.counts_start[i];
+        let mut last = None;
+        for e in s.entry_start[i] as usize..s.entry_start[i + 1] as usize {
+            let a = s.entry_attr[e] as usize;
+            if a >= n_attr || last.is_some_and(|l| l >= a) || width(s.entry_tag[e]) == 0 {
+                return false;
+            }
+            last = Some(a);
+            let len = s.entry_bytes(e);
+            // Raw counts are what the checks leave: finite, not below 0.
+            if s.entry_tag[e] == TAG_F64 {
+                let Some(raw) = s.counts.get(at as usize..(at as usize).saturating_add(len)) else {
+                    return false;
+                };
+                if !raw.chunks_exact(8).all(|c| {
+                    let v = f64::from_le_bytes([c[0], c[1], c[2], c[3], c[4], c[5], c[6], c[7]]);
+                    v.is_finite() && v >= 0.0
+                }) {
+                    return false;
+                }
+            }
+            let Some(next) = at.checked_add(len as u64) else {
+                return false;
+            };
+            at = next;
+        }
+        if at != s.counts_start[i + 1] || !(s.support[i].is_finite() && s.support[i] >= 0.0) {
+            return false;
+        }
+    }
+    true
+}
+
+fn index_ok(x: &Index, n: usize) -> bool {
+    let m = x.alias_item.len();
+    [&x.ids, &x.names, &x.aliases].iter().all(|k| k.is_sorted())
+        && x.ids.at.iter().all(|&i| (i as usize) < n)
+        && x.names.at.iter().all(|&i| (i as usize) < n)
+        && x.aliases.at.iter().all(|&a| (a as usize) < m)
+        && x.alias_item.iter().all(|&i| (i as usize) < n)
+        && x.alias_spans.len() == m + 1
+        && spans_ok(&x.alias_spans, x.alias_text.len(), Some(&x.alias_text))
+}
