@@ -8,7 +8,7 @@
 //! token. Among overlapping matches the longest wins, so "new york city" is not also
 //! read as "york".
 
-use std::collections::{HashMap, HashSet};
+use foldhash::{HashMap, HashMapExt, HashSet, HashSetExt};
 
 use crate::text::name_key;
 
@@ -162,9 +162,10 @@ pub struct PhraseIndex<T> {
     other_by_prefix: HashMap<String, Vec<usize>>,
     /// Positions in `other` of the patterns that start with a year slot.
     other_year: Vec<usize>,
-    /// First tokens of the exact keys: a name is looked up from a token only if some
-    /// key starts there.
-    first_tokens: HashSet<String>,
+    /// The proper prefixes of the exact keys, whole tokens at a time ("new", "new
+    /// york" for "new york city"): a run of tokens is extended only while it can
+    /// still become a key.
+    prefixes: HashSet<String>,
     max_tokens: usize,
     /// Longest key (in characters) among keys made of unspaced script.
     max_unspaced_chars: usize,
@@ -178,7 +179,7 @@ impl<T> Default for PhraseIndex<T> {
             other_by_word: HashMap::new(),
             other_by_prefix: HashMap::new(),
             other_year: Vec::new(),
-            first_tokens: HashSet::new(),
+            prefixes: HashSet::new(),
             max_tokens: 0,
             max_unspaced_chars: 0,
         }
@@ -207,7 +208,7 @@ impl<T> PhraseIndex<T> {
             if key.chars().any(is_unspaced) {
                 self.max_unspaced_chars = self.max_unspaced_chars.max(key.chars().count());
             }
-            self.note_first_token(&key);
+            self.note_prefixes(&key);
             self.exact.entry(key).or_default().push(value);
         } else if let Some((_, values)) = self.other.iter_mut().find(|(p, _)| p == pattern) {
             values.push(value);
@@ -234,14 +235,16 @@ impl<T> PhraseIndex<T> {
         if key.chars().any(is_unspaced) {
             self.max_unspaced_chars = self.max_unspaced_chars.max(key.chars().count());
         }
-        self.note_first_token(&key);
+        self.note_prefixes(&key);
         self.exact.entry(key).or_default().push(value);
     }
 
-    fn note_first_token(&mut self, key: &str) {
-        let first = key.split(' ').next().unwrap_or_default();
-        if !self.first_tokens.contains(first) {
-            self.first_tokens.insert(first.to_string());
+    fn note_prefixes(&mut self, key: &str) {
+        for (at, _) in key.match_indices(' ') {
+            let prefix = &key[..at];
+            if !self.prefixes.contains(prefix) {
+                self.prefixes.insert(prefix.to_string());
+            }
         }
     }
 
@@ -260,22 +263,27 @@ impl<T> PhraseIndex<T> {
     pub fn find_tokens(&self, toks: &[String]) -> Vec<Hit<'_, T>> {
         let mut hits: Vec<Hit<'_, T>> = Vec::new();
         for start in 0..toks.len() {
-            let longest = if self.first_tokens.contains(&toks[start]) {
-                self.max_tokens.min(toks.len() - start)
-            } else {
-                0
-            };
-            for n in (1..=longest).rev() {
-                let key = toks[start..start + n].join(" ");
+            // Exact keys starting here, shortest first, extended while the run of
+            // tokens is still the start of some key.
+            let longest = self.max_tokens.min(toks.len() - start);
+            let mut key = toks[start].clone();
+            for n in 1..=longest {
+                if n > 1 {
+                    key.push(' ');
+                    key.push_str(&toks[start + n - 1]);
+                }
                 if let Some(values) = self.exact.get(&key) {
                     hits.push(Hit {
                         start,
                         end: start + n,
                         offset: 0,
-                        text: key,
+                        text: key.clone(),
                         values,
                         year: None,
                     });
+                }
+                if !self.prefixes.contains(&key) {
+                    break;
                 }
             }
             // The patterns that can start here, in insertion order (ties between hits
