@@ -631,3 +631,20 @@ fn export_includes_the_plan_only_when_it_answers_the_current_state() {
             .contains("Hiding plan")
     );
 }
+
+/// After hides, keeps, undo and redo, the item list updated in place equals a list
+/// rebuilt from scratch (order, figures and marks), in every sort order.
+#[test]
+fn item_list_updated_in_place_equals_a_rebuild() {
+    let mut app = app();
+    press(&mut app, "2");
+    for order in 0..5 {
+        for keys in ["x", "jjx", "jm", "u", "jjjx", "r", "kkx", "jjm"] {
+            press(&mut app, keys);
+            let rebuilt = telltale::whatif::item_rows(&app.session, &app.query);
+            assert_eq!(app.rows, rebuilt, "after {keys:?} in order {order}");
+        }
+        press(&mut app, "o");
+    }
+    assert!(app.session.hidden_count() > 0 && app.session.kept_count() > 0);
+}
