@@ -77,6 +77,9 @@ pub struct Exposure {
     hidden: Vec<bool>,
     sums: Vec<Vec<f64>>,
     feeding: Vec<usize>,
+    /// Per attribute and value: visible pieces of evidence whose likelihood ratio for
+    /// that value is above 1 (they point toward it).
+    pointing: Vec<Vec<usize>>,
 }
 
 impl Exposure {
@@ -98,6 +101,7 @@ impl Exposure {
         let mut x = Exposure {
             sums: models.iter().map(|m| vec![0.0; m.log_base.len()]).collect(),
             feeding: vec![0; models.len()],
+            pointing: models.iter().map(|m| vec![0; m.log_base.len()]).collect(),
             models,
             evidence,
             by_subject,
@@ -114,6 +118,9 @@ impl Exposure {
             s.iter_mut().for_each(|v| *v = 0.0);
         }
         self.feeding.iter_mut().for_each(|f| *f = 0);
+        for p in &mut self.pointing {
+            p.iter_mut().for_each(|v| *v = 0);
+        }
         for (slot, list) in self.by_subject.iter().enumerate() {
             if self.hidden[slot] {
                 continue;
@@ -122,6 +129,9 @@ impl Exposure {
                 let e = &self.evidence.list[ei];
                 for (s, l) in self.sums[e.attribute].iter_mut().zip(e.log_lr.iter()) {
                     *s += l;
+                }
+                for (n, l) in self.pointing[e.attribute].iter_mut().zip(e.log_lr.iter()) {
+                    *n += usize::from(*l > 0.0);
                 }
                 self.feeding[e.attribute] += 1;
             }
@@ -163,6 +173,15 @@ impl Exposure {
             for (sum, l) in self.sums[e.attribute].iter_mut().zip(e.log_lr.iter()) {
                 *sum += sign * l;
             }
+            for (n, l) in self.pointing[e.attribute].iter_mut().zip(e.log_lr.iter()) {
+                if *l > 0.0 {
+                    if hidden {
+                        *n -= 1;
+                    } else {
+                        *n += 1;
+                    }
+                }
+            }
             if hidden {
                 self.feeding[e.attribute] -= 1;
             } else {
@@ -195,6 +214,13 @@ impl Exposure {
     /// How many visible pieces of evidence feed attribute `a`.
     pub fn feeding(&self, a: usize) -> usize {
         self.feeding[a]
+    }
+
+    /// How many visible pieces of evidence for attribute `a` point toward value `v`
+    /// (likelihood ratio above 1). Kept up to date by [`Exposure::set_hidden`], so a
+    /// front end can show it after every change without walking all the evidence.
+    pub fn pointing_to(&self, a: usize, v: usize) -> usize {
+        self.pointing[a][v]
     }
 
     /// The posterior for `a` if `subject` were hidden too (or shown, if hidden now).
@@ -336,10 +362,25 @@ mod tests {
             x.set_hidden(Subject::Item(i), !hidden);
         }
         let inc = x.posterior(0);
+        let pointing: Vec<usize> = (0..3).map(|v| x.pointing_to(0, v)).collect();
         x.recompute();
         let full = x.posterior(0);
         for (a, b) in inc.probs.iter().zip(&full.probs) {
             assert!((a - b).abs() < 1e-12);
+        }
+        assert_eq!(
+            pointing,
+            (0..3).map(|v| x.pointing_to(0, v)).collect::<Vec<_>>()
+        );
+        // Counted directly: visible evidence with a likelihood ratio above 1 per value.
+        for (v, &n) in pointing.iter().enumerate() {
+            let direct = x
+                .evidence()
+                .list
+                .iter()
+                .filter(|e| !x.is_hidden(e.subject) && e.log_lr[v] > 0.0)
+                .count();
+            assert_eq!(n, direct);
         }
     }
 }

@@ -3,7 +3,11 @@
 //! capture-pane. Open → cautions shown once → item list → filter → hide an item → the
 //! overview changes → quit; the decisions file is then on disk and the terminal has
 //! left the alternate screen. A second run checks SIGTERM restores the terminal and
-//! keeps the decisions too, a third that SIGINT does the same, and a fourth that a panic (switched on by a test-only environment variable) does too. Skipped, with a message saying so, where tmux is absent.
+//! keeps the decisions too, a third that SIGINT does the same, and a fourth that a panic (switched on by a test-only environment variable) does too. A second test covers
+//! the loading screen: it is up at once, Esc and Ctrl-C leave it with the terminal
+//! restored (a test-only variable makes the load slow), and a load error ends the
+//! explorer with the error's message. Skipped, with a message saying so, where tmux is
+//! absent.
 
 use std::path::Path;
 use std::process::Command;
@@ -27,6 +31,11 @@ impl Tmux {
 
     fn screen(&self) -> String {
         self.run(&["capture-pane", "-p", "-t", &self.target])
+    }
+
+    /// The pane with its scrollback, wrapped lines joined.
+    fn history(&self) -> String {
+        self.run(&["capture-pane", "-p", "-J", "-S", "-200", "-t", &self.target])
     }
 
     fn keys(&self, keys: &[&str]) {
@@ -65,9 +74,14 @@ impl Tmux {
 
     /// [`Tmux::start`] with extra `NAME=value` environment settings.
     fn start_with(&mut self, name: &str, data_dir: &Path, env: &str) {
+        let archive = concat!(env!("CARGO_MANIFEST_DIR"), "/demo-exports/reporter");
+        self.start_on(name, data_dir, env, archive);
+    }
+
+    /// [`Tmux::start_with`] on another archive path.
+    fn start_on(&mut self, name: &str, data_dir: &Path, env: &str, archive: &str) {
         self.target = name.to_string();
         let bin = env!("CARGO_BIN_EXE_telltale");
-        let archive = concat!(env!("CARGO_MANIFEST_DIR"), "/demo-exports/reporter");
         let cmd = format!(
             "exec env {env} TELLTALE_DATA_DIR='{}' NO_COLOR=1 TERM=xterm-256color '{bin}' '{archive}'",
             data_dir.display()
@@ -232,4 +246,60 @@ fn explorer_in_a_real_terminal() {
     assert!(screen.contains("deliberate panic"), "{screen}");
     let status = t.pane("#{pane_dead_status}");
     assert!(status == "101" || status.is_empty(), "status {status:?}");
+}
+
+#[test]
+fn loading_screen_keys_and_load_errors() {
+    if !tmux_available() {
+        println!(
+            "SKIPPED loading_screen_keys_and_load_errors: tmux is not installed, so the loading screen was not driven in a real terminal"
+        );
+        return;
+    }
+    let data = tempfile::tempdir().unwrap();
+    let mut t = Tmux {
+        socket: format!("telltale-load-{}", std::process::id()),
+        target: String::new(),
+    };
+    // A slow load: the loading screen names the first step and the keys that stop.
+    for (name, key) in [("esc", "Escape"), ("ctrlc", "C-c"), ("q", "q")] {
+        t.start_with(name, data.path(), "TELLTALE_TEST_SLOW_LOAD=1");
+        let s = t.wait_for("the loading screen", |s| {
+            s.contains("Loading the reference statistics")
+        });
+        assert!(s.contains("q, Esc or Ctrl-C stops"), "{s}");
+        assert!(s.contains("Reading reporter"), "{s}");
+        assert_eq!(t.pane("#{alternate_on}"), "1", "{s}");
+        t.keys(&[key]);
+        t.wait_for("the program to end on a key while loading", |_| {
+            t.pane("#{pane_dead}") == "1"
+        });
+        assert_eq!(
+            t.pane("#{alternate_on}"),
+            "0",
+            "{key} on the loading screen left the alternate screen on"
+        );
+        let status = t.pane("#{pane_dead_status}");
+        assert!(status == "0" || status.is_empty(), "status {status:?}");
+    }
+    // A load error: the terminal is restored and the message is the scan's own.
+    let missing = data.path().join("no-such-archive.zip");
+    t.start_on("missing", data.path(), "", &missing.display().to_string());
+    t.wait_for("the program to end on a load error", |_| {
+        t.pane("#{pane_dead}") == "1"
+    });
+    assert_eq!(t.pane("#{alternate_on}"), "0");
+    // The same words as off a terminal (where the text report's scan fails the same way).
+    let piped = Command::new(env!("CARGO_BIN_EXE_telltale"))
+        .arg(&missing)
+        .stdin(std::process::Stdio::null())
+        .output()
+        .unwrap();
+    let expected = String::from_utf8_lossy(&piped.stderr).trim().to_string();
+    assert!(expected.starts_with("telltale: "), "{expected}");
+    assert!(expected.contains("no-such-archive.zip"), "{expected}");
+    let screen = t.history();
+    assert!(screen.contains(&expected), "{screen}\nexpected: {expected}");
+    let status = t.pane("#{pane_dead_status}");
+    assert!(status == "1" || status.is_empty(), "status {status:?}");
 }

@@ -14,10 +14,14 @@ pub fn run(archive: PathBuf, src: SourceArgs) -> Result<ExitCode> {
     if !tui::interactive() {
         return scan::run_default(archive, src);
     }
-    let input = scan::input(archive, &src)?;
+    // Built on the explorer's loading thread: the bundled word lists take a noticeable
+    // moment to read, and the loading screen should be up first. A bad option still
+    // ends the explorer with the same message.
+    let priors = src.priors.clone();
     tui::run(tui::Options {
-        input,
-        priors: src.priors.clone(),
+        archive: archive.clone(),
+        input: Box::new(move || scan::input(archive, &src)),
+        priors,
     })?;
     Ok(ExitCode::SUCCESS)
 }

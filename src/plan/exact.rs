@@ -10,8 +10,14 @@
 //! pruned when its lower bound reaches the best plan's cost. When the stack empties the
 //! best plan is optimal (or, with none, no plan exists); when the budget stops the
 //! search, the smallest bound on the stack is the lower bound still open.
+//!
+//! A node with many helpers (a hundred thousand on a large archive) does not build its
+//! children up front: the stack holds one [`Siblings`] entry that makes the next child
+//! when it is its turn, so memory stays proportional to the depth of the search, not
+//! to the helpers times the candidates, and the order of the search is unchanged.
 
-use std::time::Instant;
+use std::rc::Rc;
+use std::time::{Duration, Instant};
 
 use serde::Serialize;
 
@@ -60,8 +66,86 @@ struct Node {
     lb: f64,
 }
 
+/// What the children of one expanded node share.
+struct Parent {
+    hidden: Vec<usize>,
+    state: Vec<f64>,
+}
+
+/// The children of an expanded node that are still to come, made one at a time.
+/// Child `t` hides helper `order[t]` and keeps `order[..t]` visible (fixed).
+struct Siblings {
+    parent: Rc<Parent>,
+    /// The helpers in branching order (up to the last one that can make a child).
+    order: Vec<usize>,
+    /// The positions in `order` that make a child, ascending; `made` of them are made.
+    children: Vec<u32>,
+    made: usize,
+    /// The candidates fixed so far: the parent's, plus `order[..fixed_upto]`.
+    fixed: Bits,
+    fixed_upto: usize,
+    /// Per child: its cost and its lower bound.
+    cost: Vec<f64>,
+    lb: Vec<f64>,
+    /// `min(lb[j..])`: the lower bound over the children still to come.
+    lb_rest: Vec<f64>,
+}
+
+impl Siblings {
+    /// The smallest lower bound of the children still to come.
+    fn lb(&self) -> f64 {
+        self.lb_rest[self.made]
+    }
+
+    fn is_done(&self) -> bool {
+        self.made == self.children.len()
+    }
+
+    /// Make the next child.
+    fn next_child(&mut self) -> Node {
+        let j = self.made;
+        let t = self.children[j] as usize;
+        for &i in &self.order[self.fixed_upto..t] {
+            self.fixed.set(i);
+        }
+        let i = self.order[t];
+        self.fixed.set(i);
+        self.fixed_upto = t + 1;
+        self.made += 1;
+        let mut hidden = self.parent.hidden.clone();
+        hidden.push(i);
+        Node {
+            hidden,
+            fixed: self.fixed.clone(),
+            state: self.parent.state.clone(),
+            cost: self.cost[j],
+            lb: self.lb[j],
+        }
+    }
+}
+
+/// An entry of the search stack.
+enum Entry {
+    Node(Node),
+    Siblings(Siblings),
+}
+
+impl Entry {
+    fn lb(&self) -> f64 {
+        match self {
+            Entry::Node(n) => n.lb,
+            Entry::Siblings(s) => s.lb(),
+        }
+    }
+}
+
 /// How often (in nodes) the clock, the cancel flag and progress are looked at.
 const CHECK_EVERY: u64 = 256;
+
+/// On large problems one node can take long (its bound walks every free candidate):
+/// after a node that took at least this long, the clock and the cancel flag are looked
+/// at before the next one, so a deadline or a stop is seen within about one node.
+const SLOW_NODE: Duration = Duration::from_secs(1);
 
 const EPS: f64 = 1e-9;
 
@@ -88,28 +172,51 @@ pub(crate) fn search(
     }
     let mut best = incumbent;
     let mut nodes: u64 = 0;
-    let mut stack = vec![Node {
+    let mut stack = vec![Entry::Node(Node {
         hidden: Vec::new(),
         fixed: Bits::new(n),
         state: p.start.clone(),
         cost: 0.0,
         lb: 0.0,
-    }];
+    })];
     let mut root_lb: f64 = 0.0;
     let best_cost = |b: &Option<(Vec<usize>, f64)>| b.as_ref().map_or(f64::INFINITY, |x| x.1);
-    let open_bound = |stack: &[Node], best: &Option<(Vec<usize>, f64)>, root_lb: f64| {
+    let open_bound = |stack: &[Entry], best: &Option<(Vec<usize>, f64)>, root_lb: f64| {
         stack
             .iter()
-            .map(|x| x.lb)
+            .map(Entry::lb)
             .fold(best_cost(best), f64::min)
             .max(root_lb)
     };
-    while let Some(node) = stack.pop() {
+    // A deadline already passed stops the search before its first node.
+    if budget.past_deadline() {
+        return finish(best, Some(StopReason::Deadline), &stack, root_lb, nodes);
+    }
+    let mut last_pop = Instant::now();
+    // Classes of the helpers seen while branching (one flag per class, reset after).
+    let mut class_seen = vec![false; p.class.iter().max().map_or(0, |&c| c + 1)];
+    while let Some(entry) = stack.pop() {
+        let node = match entry {
+            Entry::Node(node) => node,
+            Entry::Siblings(mut sib) => {
+                let child = sib.next_child();
+                if !sib.is_done() {
+                    stack.push(Entry::Siblings(sib));
+                }
+                let mut child = child;
+                let i = *child.hidden.last().expect("a child hides one helper");
+                p.hide(&mut child.state, i);
+                child
+            }
+        };
         if nodes >= budget.node_limit {
-            stack.push(node);
+            stack.push(Entry::Node(node));
             return finish(best, Some(StopReason::NodeLimit), &stack, root_lb, nodes);
         }
-        if nodes.is_multiple_of(CHECK_EVERY) && nodes > 0 {
+        let every = nodes.is_multiple_of(CHECK_EVERY) && nodes > 0;
+        let slow = last_pop.elapsed() >= SLOW_NODE && nodes > 0;
+        last_pop = Instant::now();
+        if every || slow {
             let stop = if budget.cancelled() {
                 Some(StopReason::Cancelled)
             } else if budget.past_deadline() {
@@ -118,7 +225,7 @@ pub(crate) fn search(
                 None
             };
             if stop.is_some() {
-                stack.push(node);
+                stack.push(Entry::Node(node));
                 return finish(best, stop, &stack, root_lb, nodes);
             }
             progress(&Progress {
@@ -178,17 +285,15 @@ pub(crate) fn search(
         let v = c.value;
         let f_now = lse_except(&c.gaps, v);
         // Order helpers by what hiding each alone does to the gap, per unit cost.
+        let mut moved = vec![0.0; c.gaps.len()];
         let mut order: Vec<(usize, f64, f64)> = c
             .helpers
             .iter()
             .map(|&(i, g)| {
                 let w = a.w(i);
-                let moved: Vec<f64> = c
-                    .gaps
-                    .iter()
-                    .enumerate()
-                    .map(|(u, &du)| du + a.lambda * (w[v] - w[u]))
-                    .collect();
+                for (u, (m, &du)) in moved.iter_mut().zip(&c.gaps).enumerate() {
+                    *m = du + a.lambda * (w[v] - w[u]);
+                }
                 let gain = lse_except(&moved, v) - f_now;
                 (i, gain / p.cost[i], g)
             })
@@ -200,35 +305,47 @@ pub(crate) fn search(
         for t in (0..order.len()).rev() {
             suffix[t] = suffix[t + 1] + order[t].2;
         }
+        // Which helpers make a child: not a twin of an earlier helper, and cheap enough.
         let mut children = Vec::new();
-        let mut fixed = node.fixed.clone();
-        let mut classes_seen: Vec<usize> = Vec::new();
+        let (mut costs, mut lbs) = (Vec::new(), Vec::new());
+        let mut last = 0;
         for (t, &(i, _, _)) in order.iter().enumerate() {
             if suffix[t] < c.deficit - 1e-9 {
                 break;
             }
-            let class = p.class[i];
-            let twin_skipped = classes_seen.contains(&class);
-            classes_seen.push(class);
+            last = t + 1;
+            let twin_skipped = std::mem::replace(&mut class_seen[p.class[i]], true);
             let cost = node.cost + p.cost[i];
             if !twin_skipped && cost.max(lb) < incumbent_cost - EPS {
-                let mut child_fixed = fixed.clone();
-                child_fixed.set(i);
-                let mut state = node.state.clone();
-                p.hide(&mut state, i);
-                let mut hidden = node.hidden.clone();
-                hidden.push(i);
-                children.push(Node {
-                    hidden,
-                    fixed: child_fixed,
-                    state,
-                    cost,
-                    lb: lb.max(cost),
-                });
+                children.push(t as u32);
+                costs.push(cost);
+                lbs.push(lb.max(cost));
             }
-            fixed.set(i);
         }
-        stack.extend(children.into_iter().rev());
+        for &(i, _, _) in &order[..last] {
+            class_seen[p.class[i]] = false;
+        }
+        if children.is_empty() {
+            continue;
+        }
+        let mut lb_rest = vec![f64::INFINITY; lbs.len() + 1];
+        for j in (0..lbs.len()).rev() {
+            lb_rest[j] = lb_rest[j + 1].min(lbs[j]);
+        }
+        stack.push(Entry::Siblings(Siblings {
+            parent: Rc::new(Parent {
+                hidden: node.hidden,
+                state: node.state,
+            }),
+            order: order[..last].iter().map(|o| o.0).collect(),
+            children,
+            made: 0,
+            fixed: node.fixed,
+            fixed_upto: 0,
+            cost: costs,
+            lb: lbs,
+            lb_rest,
+        }));
     }
     finish(best, None, &stack, root_lb, nodes)
 }
@@ -236,7 +353,7 @@ pub(crate) fn search(
 fn finish(
     best: Option<(Vec<usize>, f64)>,
     stopped: Option<StopReason>,
-    stack: &[Node],
+    stack: &[Entry],
     root_lb: f64,
     nodes: u64,
 ) -> Search {
@@ -245,7 +362,7 @@ fn finish(
         None => best_cost,
         Some(_) => stack
             .iter()
-            .map(|x| x.lb)
+            .map(Entry::lb)
             .fold(best_cost, f64::min)
             .max(root_lb.min(best_cost)),
     };

@@ -30,7 +30,10 @@ fn excess_with(a: &PAttr, sums: &[f64], z: &mut Vec<f64>) -> f64 {
     let m = z.iter().copied().fold(f64::NEG_INFINITY, f64::max);
     let mut total = 0.0;
     for x in z.iter_mut() {
-        *x = (*x - m).exp();
+        // Below −746 the exponential is exactly 0; skipping the call avoids the C
+        // library's slow underflow path (hot on saturated guesses), same result.
+        let d = *x - m;
+        *x = if d < -746.0 { 0.0 } else { d.exp() };
         total += *x;
     }
     let mut out = 0.0;
@@ -50,11 +53,113 @@ fn excess_with(a: &PAttr, sums: &[f64], z: &mut Vec<f64>) -> f64 {
                 .map(|(_, x)| x)
                 .sum()
         };
-        // logit P(v) = ln e_v − ln Σ_{u≠v} e_u (both scaled by e^{−m}).
-        let logit = ev.ln() - others.ln();
+        // logit P(v) = ln e_v − ln Σ_{u≠v} e_u (both scaled by e^{−m}). When v so
+        // dominates that the others' sum underflows (a guess at 100% on a large
+        // footprint), the same difference is taken in log space, so the excess stays
+        // finite and still falls as evidence is hidden.
+        let logit = if others >= f64::MIN_POSITIVE {
+            ev.ln() - others.ln()
+        } else {
+            log_odds(z_logits(a, sums), v)
+        };
         out += (logit + a.kappa).max(0.0);
     }
     out
+}
+
+/// The logits of an attribute's values in a state (`ln π + λ·sum`).
+fn z_logits<'a>(a: &'a PAttr, sums: &'a [f64]) -> impl Iterator<Item = f64> + Clone + 'a {
+    a.log_base.iter().zip(sums).map(|(b, s)| b + a.lambda * s)
+}
+
+/// `z_v − ln Σ_{u≠v} e^{z_u}`, the log-odds of value `v`, computed without leaving
+/// log space.
+fn log_odds(z: impl Iterator<Item = f64> + Clone, v: usize) -> f64 {
+    let others = || {
+        z.clone()
+            .enumerate()
+            .filter(|(u, _)| *u != v)
+            .map(|(_, x)| x)
+    };
+    let m = others().fold(f64::NEG_INFINITY, f64::max);
+    let zv = z.clone().nth(v).unwrap_or(f64::NEG_INFINITY);
+    if m == f64::NEG_INFINITY {
+        return f64::INFINITY;
+    }
+    zv - (m + others().map(|x| (x - m).exp()).sum::<f64>().ln())
+}
+
+/// `ln Σ_{u∈set} e^{x_u}` over the values `set` picks (`-∞` for none).
+fn lse_where(x: &[f64], set: impl Fn(usize) -> bool) -> f64 {
+    let picked = || {
+        x.iter()
+            .enumerate()
+            .filter(|(u, _)| set(*u))
+            .map(|(_, &v)| v)
+    };
+    let m = picked().fold(f64::NEG_INFINITY, f64::max);
+    if m == f64::NEG_INFINITY {
+        return m;
+    }
+    m + picked().map(|v| (v - m).exp()).sum::<f64>().ln()
+}
+
+/// When no single hide lowers the total excess — two or more values over the line
+/// share almost all the probability, so hiding an item only moves it between them
+/// (the excess summed over them stays put) — what has to happen is that the values
+/// under the line gain on them. Ranks the visible candidates by how much hiding each
+/// raises the log-odds of "some value under the line" against "a value over it", per
+/// unit cost, summed over the attributes still over; best first, helpful ones only.
+fn lift_order(p: &Problem, state: &[f64], hidden: &[bool], per_attr: &[f64]) -> Vec<usize> {
+    let mut scored: Vec<(f64, usize)> = Vec::new();
+    let over: Vec<(usize, Vec<bool>)> = p
+        .attrs
+        .iter()
+        .enumerate()
+        .filter(|(ai, _)| per_attr[*ai] > 0.0)
+        .map(|(ai, a)| {
+            let post = p.posterior(ai, state);
+            let v = (0..a.k)
+                .map(|v| a.constrains(v) && post.probs[v] > a.threshold * 0.999)
+                .collect();
+            (ai, v)
+        })
+        .collect();
+    let odds =
+        |z: &[f64], is_over: &[bool]| lse_where(z, |u| !is_over[u]) - lse_where(z, |u| is_over[u]);
+    let now: Vec<f64> = over
+        .iter()
+        .map(|(ai, is_over)| {
+            let a = &p.attrs[*ai];
+            let z: Vec<f64> = z_logits(a, p.sums(a, state)).collect();
+            odds(&z, is_over)
+        })
+        .collect();
+    let mut moved = Vec::new();
+    for i in (0..p.n()).filter(|&i| !hidden[i]) {
+        let mut gain = 0.0;
+        for ((ai, is_over), &now) in over.iter().zip(&now) {
+            let a = &p.attrs[*ai];
+            if !a.touches[i] {
+                continue;
+            }
+            moved.clear();
+            moved.extend(
+                z_logits(a, p.sums(a, state))
+                    .zip(a.w(i))
+                    .map(|(x, wi)| x - a.lambda * wi),
+            );
+            let then = odds(&moved, is_over);
+            if now.is_finite() && then.is_finite() {
+                gain += then - now;
+            }
+        }
+        if gain > 1e-12 {
+            scored.push((gain / p.cost[i], i));
+        }
+    }
+    scored.sort_by(|x, y| y.0.total_cmp(&x.0).then(x.1.cmp(&y.1)));
+    scored.into_iter().map(|(_, i)| i).collect()
 }
 
 /// Candidates above which greedy re-evaluates lazily. Below it a full scan per step
@@ -182,11 +287,52 @@ pub(crate) fn greedy(p: &Problem, budget: &Budget) -> Option<Vec<usize>> {
                         fallback_after.clone_from(&after);
                     }
                 }
-                let (i, _) = match best {
-                    Some(b) => b,
-                    None => {
+                let (i, _) = match (best, fallback) {
+                    (Some(b), _) => b,
+                    (None, Some(f)) => {
                         best_after = fallback_after;
-                        fallback?
+                        f
+                    }
+                    (None, None) => {
+                        // The values over the line only trade places: lift the others,
+                        // until the excess moves (they start to count) and plain steps
+                        // can go on. Every round hides at least one candidate.
+                        let stuck: f64 = per_attr.iter().sum();
+                        let order = lift_order(p, &state, &hidden, &per_attr);
+                        if order.is_empty() {
+                            return None;
+                        }
+                        for i in order {
+                            hidden[i] = true;
+                            plan.push(i);
+                            p.hide(&mut state, i);
+                            let now: f64 =
+                                p.attrs.iter().map(|a| excess(a, p.sums(a, &state))).sum();
+                            if (now - stuck).abs() > 1e-9 || p.feasible(&state) {
+                                break;
+                            }
+                        }
+                        per_attr = p
+                            .attrs
+                            .iter()
+                            .map(|a| excess(a, p.sums(a, &state)))
+                            .collect();
+                        if lazy {
+                            queue.clear();
+                            for i in (0..n).filter(|&i| !hidden[i]) {
+                                let (gain, _) = effect(
+                                    p,
+                                    &state,
+                                    &per_attr,
+                                    i,
+                                    &mut after,
+                                    &mut scratch,
+                                    &mut z,
+                                );
+                                queue.push(Scored(gain / p.cost[i], i));
+                            }
+                        }
+                        continue;
                     }
                 };
                 if lazy {
@@ -202,4 +348,88 @@ pub(crate) fn greedy(p: &Problem, budget: &Budget) -> Option<Vec<usize>> {
     }
     p.trim(&mut plan);
     Some(plan)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::evidence::{Evidence, EvidenceSet, Origin, Subject};
+    use crate::infer::{AttrModel, Exposure};
+    use crate::plan::{Budget, Method, PlanRequest, Status, Target, solve};
+    use crate::priors::Calibration;
+
+    /// `n` items on one three-valued attribute (uniform base rates, λ = 1), each with
+    /// members split evenly between values 0 and 1 and almost none with value 2.
+    fn two_way_tie(n: usize) -> Exposure {
+        let base = [1.0 / 3.0; 3];
+        let mut set = EvidenceSet::new(n);
+        for i in 0..n {
+            let p = vec![0.4999, 0.4999, 0.0002];
+            set.push(Evidence::from_distribution(
+                Subject::Item(i),
+                0,
+                p,
+                &base,
+                1000.0,
+                Origin::Mark,
+            ));
+        }
+        let model = AttrModel {
+            log_base: base.iter().map(|b: &f64| b.ln()).collect(),
+            calibration: Calibration::Temperature { lambda: 1.0 },
+        };
+        Exposure::with_models(vec![model], set)
+    }
+
+    fn request(threshold: f64) -> PlanRequest {
+        PlanRequest {
+            targets: vec![Target {
+                attribute: 0,
+                threshold,
+                true_value: None,
+            }],
+            keep: Default::default(),
+            costs: Default::default(),
+            method: Method::Greedy,
+            budget: Budget::unlimited(),
+            moves: Vec::new(),
+        }
+    }
+
+    // By hand: with two values at ~50% and the third at e^(−7.4·n)·…, every value's
+    // probability is at most 40% only once the third value has come back up; hiding
+    // one item moves nothing between values 0 and 1 (their shares stay equal), so the
+    // summed excess is flat and plain greedy used to give up. Pigeonhole: 3 × 0.4 ≥ 1,
+    // so a plan exists (hiding everything gives the base rates, 1/3 each).
+    #[test]
+    fn greedy_walks_out_of_a_tie_between_values_over_the_line() {
+        let x = two_way_tie(40);
+        let post = x.posterior(0);
+        assert!(post.probs[0] > 0.49 && post.probs[1] > 0.49 && post.probs[2] < 1e-100);
+        let mut req = request(0.4);
+        req.budget = Budget::unlimited();
+        let out = solve(&x, &req).unwrap();
+        assert_eq!(out.status, Status::Feasible);
+        let plan = out.plan.expect("greedy finds a plan");
+        assert!(!plan.hide.is_empty());
+        for a in &out.after {
+            assert!(a.meets, "{a:?}");
+        }
+    }
+
+    // Worked by hand: two values, base rates ½ each, λ = 1, summed log-likelihood ratio
+    // 2000 for value 0: logit P(v0) = 2000 exactly, so its excess over a 50% line
+    // (logit 0) is 2000 — finite, where exp(−2000) underflows to 0.
+    #[test]
+    fn excess_stays_finite_when_a_guess_saturates() {
+        let x = two_way_tie(1);
+        let p = Problem::build(&x, &request(0.5));
+        let mut a = p.attrs[0].clone();
+        a.k = 2;
+        a.log_base = vec![0.5f64.ln(); 2];
+        a.kappa = 0.0;
+        assert!((excess(&a, &[2000.0, 0.0]) - 2000.0).abs() < 1e-9);
+        assert!((excess(&a, &[1999.0, 0.0]) - 1999.0).abs() < 1e-9);
+        assert_eq!(excess(&a, &[0.0, 2000.0]), 2000.0);
+    }
 }

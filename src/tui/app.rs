@@ -171,6 +171,11 @@ pub struct App {
     /// Typing into the search field.
     pub searching: bool,
     pub rows: Vec<ItemRow>,
+    /// Per subject slot (items, then the friend list): its position in `rows`.
+    row_at: Vec<Option<u32>>,
+    /// The best guess per attribute when `rows` was built: the rows' order and
+    /// figures depend on nothing else that a mark can change.
+    rows_bests: Vec<usize>,
     pub item_cursor: usize,
     pub overview_cursor: usize,
     pub values_cursor: usize,
@@ -199,6 +204,8 @@ impl App {
             query: RowQuery::default(),
             searching: false,
             rows: Vec::new(),
+            row_at: Vec::new(),
+            rows_bests: Vec::new(),
             item_cursor: 0,
             overview_cursor: 0,
             values_cursor: 0,
@@ -221,13 +228,47 @@ impl App {
         self.overlay = Some(Overlay::Cautions { first_run: true });
     }
 
+    /// Rebuild the item list from scratch (after the query changed).
     pub fn refresh_rows(&mut self) {
         let keep = self.rows.get(self.item_cursor).map(|r| r.subject);
+        self.session.take_changed();
         self.rows = item_rows(&self.session, &self.query);
+        self.rows_bests = self.bests();
+        let n_items = self.session.footprint().items.len();
+        self.row_at.clear();
+        self.row_at.resize(n_items + 1, None);
+        for (i, r) in self.rows.iter().enumerate() {
+            self.row_at[slot(r.subject, n_items)] = Some(i as u32);
+        }
         self.item_cursor = keep
-            .and_then(|s| self.rows.iter().position(|r| r.subject == s))
-            .unwrap_or(self.item_cursor)
+            .and_then(|s| self.row_at[slot(s, n_items)])
+            .map_or(self.item_cursor, |i| i as usize)
             .min(self.rows.len().saturating_sub(1));
+    }
+
+    /// Bring the item list up to date after marks changed. A mark changes only its
+    /// own row's mark column unless some best guess moved (the rows' figures and order
+    /// follow the best guesses), so usually only the changed rows are touched; the
+    /// list is then the same as a rebuild would give.
+    fn update_rows(&mut self) {
+        let changed = self.session.take_changed();
+        match changed {
+            Some(list) if self.bests() == self.rows_bests => {
+                let n_items = self.session.footprint().items.len();
+                for s in list {
+                    if let Some(i) = self.row_at[slot(s, n_items)] {
+                        self.rows[i as usize].mark = self.session.mark(s);
+                    }
+                }
+            }
+            _ => self.refresh_rows(),
+        }
+    }
+
+    fn bests(&self) -> Vec<usize> {
+        (0..self.session.n_attributes())
+            .map(|a| self.session.posterior(a).best)
+            .collect()
     }
 
     /// The subject under the cursor (items list or detail).
@@ -510,7 +551,7 @@ impl App {
 
     /// After any change to marks, values or targets: refresh views and save.
     fn changed(&mut self) -> Vec<Effect> {
-        self.refresh_rows();
+        self.update_rows();
         let mut fx = vec![Effect::SaveDecisions];
         fx.extend(self.plan_effects());
         fx
@@ -793,5 +834,13 @@ impl App {
             }
         }
         Vec::new()
+    }
+}
+
+/// A subject's place in per-subject tables: items in order, then the friend list.
+fn slot(subject: Subject, n_items: usize) -> usize {
+    match subject {
+        Subject::Item(i) => i,
+        Subject::FriendList => n_items,
     }
 }

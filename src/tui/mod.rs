@@ -2,13 +2,15 @@
 //! session. The only part of telltale that knows about terminals (ratatui and
 //! crossterm). State and key handling live in `app` (no I/O), drawing in `view` (pure),
 //! key bindings in `keys` (data), and the loop with its worker threads in `run`.
+//! `app`, `theme` and `view` are visible crate-wide so that `benches/explorer.rs`, which
+//! compiles this folder into the bench, can time a key press up to the drawn frame.
 
-mod app;
+pub(crate) mod app;
 mod keys;
 mod run;
 mod terminal;
-mod theme;
-mod view;
+pub(crate) mod theme;
+pub(crate) mod view;
 
 pub use run::{Options, run};
 pub use terminal::interactive;

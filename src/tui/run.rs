@@ -12,7 +12,6 @@ use anyhow::{Context, Result};
 use crossterm::event::{self, Event, KeyCode, KeyEventKind, KeyModifiers};
 use telltale::decisions::Store;
 use telltale::plan::{self, PlanOutcome, Progress, solve_with_progress};
-use telltale::priors::Priors;
 use telltale::report::{write_html_with, write_markdown};
 use telltale::safe_write::write_atomic;
 use telltale::scan::{Scan, ScanInput, load_priors};
@@ -28,11 +27,40 @@ const EXPORT_TOP: usize = 25;
 
 /// What the explorer needs to start.
 pub struct Options {
-    pub input: ScanInput,
+    /// The archive, for the loading screen.
+    pub archive: PathBuf,
+    /// What to scan, built on the loading thread (building it reads the bundled word
+    /// lists); its error ends the explorer like any load error.
+    pub input: Box<dyn FnOnce() -> Result<ScanInput> + Send>,
     pub priors: Option<PathBuf>,
 }
 
-type Loaded = Result<(Scan, Priors), String>;
+/// Where the loading worker is, for the loading screen.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub(crate) enum Stage {
+    /// Loading the word lists and the reference statistics (priors).
+    Priors,
+    /// Reading the archive's mapped files: bytes done of the total.
+    Reading { done: u64, total: u64 },
+    /// Every mapped file is read; matching items and working out the posteriors.
+    Scoring,
+    /// Restoring saved decisions and building the first screen.
+    Opening,
+}
+
+/// The explorer, ready to show, and where its decisions are saved.
+struct Ready {
+    app: App,
+    store: Result<Store, telltale::decisions::Error>,
+    can_save: bool,
+}
+
+/// What the loading worker sends: where it is, then the explorer or an error message.
+enum LoadMsg {
+    Stage(Stage),
+    Ready(Box<Ready>),
+    Failed(String),
+}
 
 /// What the plan worker sends: progress now and then, and the answer at the end.
 enum PlanMsg {
@@ -46,69 +74,30 @@ type PlanJob = (Arc<AtomicBool>, mpsc::Receiver<PlanMsg>);
 /// How often the worker reports progress at most.
 const PROGRESS_EVERY: Duration = Duration::from_millis(100);
 
-/// Run the explorer until the person quits.
-pub fn run(opts: Options) -> Result<()> {
-    let stop = stop_flag().context("cannot watch for stop signals")?;
-    let theme = Theme::from_env();
-    let archive_label = opts
-        .input
-        .archive
-        .file_name()
-        .map(|n| n.to_string_lossy().into_owned())
-        .unwrap_or_else(|| opts.input.archive.display().to_string());
-
-    let (tx, rx) = mpsc::channel::<Loaded>();
-    let input = opts.input.clone();
-    let priors_path = opts.priors.clone();
-    std::thread::Builder::new()
-        .name("telltale-import".into())
-        .spawn(move || {
-            let result = (|| -> Result<(Scan, Priors)> {
-                let priors =
-                    load_priors(priors_path.as_deref()).context("cannot use the priors")?;
-                let scan = Scan::run(&input, &priors)?;
-                Ok((scan, priors))
-            })()
-            .map_err(|e| format!("{e:#}"));
-            let _ = tx.send(result);
-        })
-        .context("cannot start the import worker")?;
-
-    let mut guard = Guard::enter().context("cannot set up the terminal")?;
-    let started = Instant::now();
-    // Loading: progress until the worker answers.
-    let (scan, priors) = loop {
-        if stop.load(Ordering::Relaxed) {
-            return Ok(());
-        }
-        guard
-            .terminal
-            .draw(|f| view::render_loading(f, &archive_label, started.elapsed(), theme))?;
-        match rx.recv_timeout(Duration::from_millis(100)) {
-            Ok(Ok(loaded)) => break loaded,
-            Ok(Err(message)) => {
-                drop(guard);
-                anyhow::bail!(message);
-            }
-            Err(mpsc::RecvTimeoutError::Timeout) => {}
-            Err(mpsc::RecvTimeoutError::Disconnected) => {
-                drop(guard);
-                anyhow::bail!("the import stopped unexpectedly");
-            }
-        }
-        while poll(Duration::ZERO)? {
-            if let Some(Event::Key(k)) = read()?
-                && k.kind == KeyEventKind::Press
-                && (k.code == KeyCode::Char('q')
-                    || (k.code == KeyCode::Char('c')
-                        && k.modifiers.contains(KeyModifiers::CONTROL)))
-            {
-                return Ok(());
-            }
-        }
+/// Everything between starting and the first screen, on a worker thread: the priors,
+/// the import and scan (reporting bytes read), the saved decisions and the first
+/// screen's state. The terminal is never touched here.
+fn load(opts: Options, tx: &mpsc::Sender<LoadMsg>) -> Result<Ready> {
+    let stage = |s| {
+        let _ = tx.send(LoadMsg::Stage(s));
     };
-
-    // Saved decisions.
+    stage(Stage::Priors);
+    let input = (opts.input)()?;
+    let priors = load_priors(opts.priors.as_deref()).context("cannot use the priors")?;
+    let mut last: Option<(Instant, bool)> = None;
+    let scan = Scan::run_with_progress(&input, &priors, &mut |done, total| {
+        // The import reports after each file; once all bytes are in, scoring starts.
+        let scoring = done >= total;
+        if last.is_none_or(|(t, was)| was != scoring || t.elapsed() >= PROGRESS_EVERY) {
+            last = Some((Instant::now(), scoring));
+            stage(if scoring {
+                Stage::Scoring
+            } else {
+                Stage::Reading { done, total }
+            });
+        }
+    })?;
+    stage(Stage::Opening);
     let store = Store::locate();
     let mut notes = Vec::new();
     let mut can_save = true;
@@ -145,9 +134,100 @@ pub fn run(opts: Options) -> Result<()> {
     if let Some(n) = notes.first() {
         app.status = Some(n.clone());
     }
+    Ok(Ready {
+        app,
+        store,
+        can_save,
+    })
+}
+
+/// Whether a key asks to leave the loading screen: q, Esc or Ctrl-C.
+pub(crate) fn quits_loading(k: &crossterm::event::KeyEvent) -> bool {
+    k.kind == KeyEventKind::Press
+        && (matches!(k.code, KeyCode::Char('q') | KeyCode::Esc)
+            || (k.code == KeyCode::Char('c') && k.modifiers.contains(KeyModifiers::CONTROL)))
+}
+
+/// Run the explorer until the person quits.
+pub fn run(opts: Options) -> Result<()> {
+    let stop = stop_flag().context("cannot watch for stop signals")?;
+    let theme = Theme::from_env();
+    let archive_label = opts
+        .archive
+        .file_name()
+        .map(|n| n.to_string_lossy().into_owned())
+        .unwrap_or_else(|| opts.archive.display().to_string());
+
+    // The terminal first, so the loading screen is the first thing on it.
+    let mut guard = Guard::enter().context("cannot set up the terminal")?;
+    let started = Instant::now();
+    let (tx, rx) = mpsc::channel::<LoadMsg>();
+    std::thread::Builder::new()
+        .name("telltale-import".into())
+        .spawn(move || {
+            // Test hook (tests/explorer_tmux.rs): a load that takes long, to prove that
+            // keys stop the explorer on the loading screen.
+            if std::env::var_os("TELLTALE_TEST_SLOW_LOAD").is_some() {
+                let _ = tx.send(LoadMsg::Stage(Stage::Priors));
+                std::thread::sleep(Duration::from_secs(60));
+            }
+            let msg = match load(opts, &tx) {
+                Ok(ready) => LoadMsg::Ready(Box::new(ready)),
+                Err(e) => LoadMsg::Failed(format!("{e:#}")),
+            };
+            let _ = tx.send(msg);
+        })
+        .context("cannot start the import worker")?;
+
+    // Loading: progress until the worker answers; q, Esc or Ctrl-C leave at once (the
+    // worker is abandoned; it only reads).
+    let mut stage = Stage::Priors;
+    let Ready {
+        mut app,
+        store,
+        can_save,
+    } = loop {
+        if stop.load(Ordering::Relaxed) {
+            return Ok(());
+        }
+        guard
+            .terminal
+            .draw(|f| view::render_loading(f, &archive_label, stage, started.elapsed(), theme))?;
+        if poll(Duration::from_millis(100))?
+            && let Some(Event::Key(k)) = read()?
+            && quits_loading(&k)
+        {
+            return Ok(());
+        }
+        let mut ready = None;
+        loop {
+            match rx.try_recv() {
+                Ok(LoadMsg::Stage(s)) => stage = s,
+                Ok(LoadMsg::Ready(r)) => {
+                    ready = Some(*r);
+                    break;
+                }
+                Ok(LoadMsg::Failed(message)) => {
+                    drop(guard);
+                    anyhow::bail!(message);
+                }
+                Err(mpsc::TryRecvError::Empty) => break,
+                Err(mpsc::TryRecvError::Disconnected) => {
+                    drop(guard);
+                    anyhow::bail!("the import stopped unexpectedly");
+                }
+            }
+        }
+        if let Some(r) = ready {
+            break r;
+        }
+    };
 
     let mut plan_job: Option<PlanJob> = None;
     let mut dirty = true;
+    // A change asked for a save: done right after the next frame is drawn, so the
+    // screen answers the key first and the disk write (with its syncs) comes after.
+    let mut save_pending = false;
     let mut last_tick = Instant::now();
     while !app.quit {
         if stop.load(Ordering::Relaxed) {
@@ -168,6 +248,13 @@ pub fn run(opts: Options) -> Result<()> {
             if std::env::var_os("TELLTALE_TEST_PANIC").is_some() {
                 panic!("TELLTALE_TEST_PANIC set: a deliberate panic to test terminal restoring");
             }
+        }
+        if std::mem::take(&mut save_pending)
+            && let (Ok(store), true) = (&store, can_save)
+            && let Err(e) = store.save(&app.session.decisions())
+        {
+            app.status = Some(e.to_string());
+            dirty = true;
         }
         // Progress or a finished plan?
         if let Some((_, rx)) = &plan_job {
@@ -199,13 +286,7 @@ pub fn run(opts: Options) -> Result<()> {
         dirty = true;
         for effect in effects {
             match effect {
-                Effect::SaveDecisions => {
-                    if let (Ok(store), true) = (&store, can_save)
-                        && let Err(e) = store.save(&app.session.decisions())
-                    {
-                        app.status = Some(e.to_string());
-                    }
-                }
+                Effect::SaveDecisions => save_pending = true,
                 Effect::MarkCautionsSeen => {
                     if let Ok(store) = &store {
                         let _ = store.mark_cautions_seen();

@@ -631,3 +631,97 @@ fn export_includes_the_plan_only_when_it_answers_the_current_state() {
             .contains("Hiding plan")
     );
 }
+
+/// The loading screen drawn on the test backend.
+fn draw_loading(stage: super::run::Stage, w: u16, h: u16) -> String {
+    let mut t = Terminal::new(TestBackend::new(w, h)).unwrap();
+    t.draw(|f| {
+        view::render_loading(
+            f,
+            "big.zip",
+            stage,
+            std::time::Duration::from_millis(1500),
+            Theme::plain(),
+        )
+    })
+    .unwrap();
+    let buf = t.backend().buffer().clone();
+    (0..h)
+        .map(|y| {
+            let line: String = (0..w).map(|x| buf[(x, y)].symbol().to_string()).collect();
+            line.trim_end().to_string() + "\n"
+        })
+        .collect()
+}
+
+#[test]
+fn loading_screen_shows_each_step_and_the_bytes_read() {
+    use super::run::Stage;
+    let first = draw_loading(Stage::Priors, 80, 24);
+    assert!(
+        first.contains("Loading the reference statistics"),
+        "{first}"
+    );
+    assert!(first.contains("Reading big.zip\n"), "{first}");
+    assert!(first.contains("1.5 s"), "{first}");
+    assert!(first.contains("q, Esc or Ctrl-C stops"), "{first}");
+    // 60 of 240 MB read: a quarter, and a quarter of the 50-cell bar filled.
+    let reading = draw_loading(
+        Stage::Reading {
+            done: 60_000_000,
+            total: 240_000_000,
+        },
+        80,
+        24,
+    );
+    assert!(
+        reading.contains("✓ Loading the reference statistics"),
+        "{reading}"
+    );
+    assert!(
+        reading.contains("Reading big.zip: 60.0 MB of 240.0 MB (25%)"),
+        "{reading}"
+    );
+    let bar = reading.lines().find(|l| l.contains('[')).unwrap();
+    assert_eq!(bar.matches('█').count(), 13, "{bar}"); // 50 × ¼ = 12.5, rounded
+    let scoring = draw_loading(Stage::Scoring, 80, 24);
+    assert!(scoring.contains("✓ Reading big.zip"), "{scoring}");
+    assert!(!scoring.contains('['), "{scoring}");
+    let opening = draw_loading(Stage::Opening, 40, 10);
+    assert!(
+        opening.contains("✓ Matching the items and working out"),
+        "{opening}"
+    );
+    assert_fits(&opening, 40);
+}
+
+#[test]
+fn q_esc_and_ctrl_c_leave_the_loading_screen() {
+    use super::run::quits_loading;
+    assert!(quits_loading(&key('q')));
+    assert!(quits_loading(&code(KeyCode::Esc)));
+    assert!(quits_loading(&KeyEvent::new(
+        KeyCode::Char('c'),
+        KeyModifiers::CONTROL
+    )));
+    assert!(!quits_loading(&key('c')));
+    assert!(!quits_loading(&key('x')));
+    assert!(!quits_loading(&code(KeyCode::Enter)));
+}
+
+/// After hides, keeps, undo and redo, the item list updated in place equals a list
+/// rebuilt from scratch (order, figures and marks), in every sort order.
+#[test]
+fn item_list_updated_in_place_equals_a_rebuild() {
+    let mut app = app();
+    press(&mut app, "2");
+    for order in 0..5 {
+        for keys in ["x", "jjx", "jm", "u", "jjjx", "r", "kkx", "jjm"] {
+            press(&mut app, keys);
+            let rebuilt = telltale::whatif::item_rows(&app.session, &app.query);
+            assert_eq!(app.rows, rebuilt, "after {keys:?} in order {order}");
+        }
+        press(&mut app, "o");
+    }
+    assert!(app.session.hidden_count() > 0 && app.session.kept_count() > 0);
+}

@@ -1,4 +1,6 @@
-//! The overview: one summary per protected attribute, in plain words.
+//! The overview: one summary per protected attribute, in plain words. Its cost does
+//! not depend on the footprint's size: the counts come from the exposure's running
+//! tallies, so it can be redrawn after every key press.
 
 use super::session::Session;
 use crate::reading::{Level, attribute_sentence, level};
@@ -33,12 +35,6 @@ pub struct AttributeSummary {
 pub fn overview(s: &Session) -> Vec<AttributeSummary> {
     let x = s.exposure();
     let posteriors: Vec<_> = (0..s.n_attributes()).map(|a| s.posterior(a)).collect();
-    let mut supporting = vec![0usize; s.n_attributes()];
-    for e in &x.evidence().list {
-        if e.log_lr[posteriors[e.attribute].best] > 0.0 && !x.is_hidden(e.subject) {
-            supporting[e.attribute] += 1;
-        }
-    }
     s.priors
         .attributes
         .iter()
@@ -59,7 +55,7 @@ pub fn overview(s: &Session) -> Vec<AttributeSummary> {
                 target,
                 level: level(post.probability, base, target),
                 feeding: x.feeding(a),
-                supporting: supporting[a],
+                supporting: x.pointing_to(a, posteriors[a].best),
                 baseline_probability: baseline.probability,
                 baseline_guess_label: attr.values[baseline.best].label.clone(),
                 real: s
@@ -95,6 +91,19 @@ mod tests {
         assert_eq!(after[0].feeding + 1, fed);
         assert!(after[0].supporting < first[0].supporting);
         assert!(first[0].supporting <= first[0].feeding);
+        // The running tally equals a direct count over all visible evidence.
+        for o in &after {
+            let best = s.posterior(o.attribute).best;
+            let x = s.exposure();
+            let direct = x
+                .evidence()
+                .list
+                .iter()
+                .filter(|e| e.attribute == o.attribute && !x.is_hidden(e.subject))
+                .filter(|e| e.log_lr[best] > 0.0)
+                .count();
+            assert_eq!(o.supporting, direct);
+        }
         assert!((after[0].baseline_probability - first[0].probability).abs() < 1e-12);
         s.set_real_value(0, Some(0));
         assert!(overview(&s)[0].real.is_some());

@@ -36,7 +36,16 @@ pub struct Session {
     baseline: Vec<Posterior>,
     /// Saved marks whose items are not in this archive any more (kept, not lost).
     unmatched: Decisions,
+    /// Running counts of hide and keep marks.
+    hidden_n: usize,
+    kept_n: usize,
+    /// Subjects whose mark changed since [`Session::take_changed`] last ran; `None`
+    /// once more than [`CHANGED_LIST_MAX`] did (a front end then refreshes everything).
+    changed: Option<Vec<Subject>>,
 }
+
+/// Changed subjects listed one by one at most; beyond this, "everything changed".
+const CHANGED_LIST_MAX: usize = 4096;
 
 impl Session {
     /// Start a session and apply saved decisions. Marks for items this import does not
@@ -53,6 +62,9 @@ impl Session {
             redo: Vec::new(),
             baseline,
             unmatched: Decisions::new(&scan.footprint.fingerprint),
+            hidden_n: 0,
+            kept_n: 0,
+            changed: Some(Vec::new()),
             scan,
             priors,
         };
@@ -98,6 +110,18 @@ impl Session {
 
     pub fn n_attributes(&self) -> usize {
         self.priors.attributes.len()
+    }
+
+    /// Number of [`Session::subjects`], without walking them.
+    pub fn n_subjects(&self) -> usize {
+        self.scan.footprint.items.len()
+            + usize::from(
+                !self
+                    .scan
+                    .exposure
+                    .evidence_of(Subject::FriendList)
+                    .is_empty(),
+            )
     }
 
     /// Every subject: items in archive order, then the friend list if anything
@@ -158,25 +182,48 @@ impl Session {
         &self.real_values
     }
 
-    /// Number of hidden subjects.
+    /// Number of hidden subjects (a running count).
     pub fn hidden_count(&self) -> usize {
-        self.marks
-            .iter()
-            .filter(|m| **m == Some(Mark::Hide))
-            .count()
+        self.hidden_n
     }
 
-    /// Number of subjects marked keep.
+    /// Number of subjects marked keep (a running count).
     pub fn kept_count(&self) -> usize {
-        self.marks
-            .iter()
-            .filter(|m| **m == Some(Mark::Keep))
-            .count()
+        self.kept_n
+    }
+
+    /// The subjects whose mark changed since the last call, each once, and start a new
+    /// list; `None` when too many changed to list (treat every subject as changed).
+    /// Lets a front end update what it shows in proportion to what changed.
+    pub fn take_changed(&mut self) -> Option<Vec<Subject>> {
+        let mut list = self.changed.replace(Vec::new())?;
+        list.sort_unstable();
+        list.dedup();
+        Some(list)
     }
 
     fn apply_mark(&mut self, subject: Subject, mark: Option<Mark>) {
         let slot = self.slot(subject);
-        self.marks[slot] = mark;
+        let before = std::mem::replace(&mut self.marks[slot], mark);
+        for (m, delta) in [(before, false), (mark, true)] {
+            let count = match m {
+                Some(Mark::Hide) => &mut self.hidden_n,
+                Some(Mark::Keep) => &mut self.kept_n,
+                None => continue,
+            };
+            if delta {
+                *count += 1;
+            } else {
+                *count -= 1;
+            }
+        }
+        if let Some(list) = &mut self.changed {
+            if list.len() < CHANGED_LIST_MAX {
+                list.push(subject);
+            } else {
+                self.changed = None;
+            }
+        }
         self.scan
             .exposure
             .set_hidden(subject, mark == Some(Mark::Hide));
@@ -391,6 +438,34 @@ pub(crate) mod tests {
         assert_eq!(reopened.real_value(0), Some(2));
         assert!((reopened.target(1) - 0.3).abs() < 1e-12);
         assert_eq!(reopened.decisions(), saved);
+    }
+
+    #[test]
+    fn running_counts_and_changed_subjects_follow_every_change() {
+        let mut s = demo_session();
+        assert_eq!(s.n_subjects(), s.subjects().count());
+        assert_eq!(s.take_changed(), Some(Vec::new()));
+        let (a, b) = (Subject::Item(2), Subject::Item(4));
+        s.toggle_hidden(a);
+        s.toggle_kept(b);
+        s.toggle_kept(a); // hidden → kept
+        let direct = |s: &Session, m: Mark| s.subjects().filter(|&x| s.mark(x) == Some(m)).count();
+        assert_eq!((s.hidden_count(), s.kept_count()), (0, 2));
+        assert_eq!(direct(&s, Mark::Keep), 2);
+        assert_eq!(s.take_changed(), Some(vec![a, b]));
+        assert_eq!(s.take_changed(), Some(Vec::new()));
+        s.undo();
+        assert_eq!((s.hidden_count(), s.kept_count()), (1, 1));
+        assert_eq!(direct(&s, Mark::Hide), 1);
+        assert_eq!(s.take_changed(), Some(vec![a]));
+        // More changes than are worth listing: "everything changed", then a fresh list.
+        for _ in 0..=CHANGED_LIST_MAX {
+            s.toggle_hidden(b);
+        }
+        assert_eq!(s.take_changed(), None);
+        assert_eq!(s.take_changed(), Some(Vec::new()));
+        assert_eq!(s.hidden_count(), direct(&s, Mark::Hide));
+        assert_eq!(s.kept_count(), direct(&s, Mark::Keep));
     }
 
     #[test]

@@ -13,6 +13,7 @@ use super::widgets::{fit, wrap};
 use super::{detail, items, overlays, overview, plan, values};
 use crate::tui::app::{App, Screen};
 use crate::tui::keys::hints;
+use crate::tui::run::Stage;
 use crate::tui::theme::Theme;
 
 /// Smallest usable size; below it the screen says so instead of drawing garbage.
@@ -128,27 +129,78 @@ fn footer(app: &App, width: u16, theme: Theme) -> Line<'static> {
     Line::from(spans)
 }
 
-/// The loading screen while a worker reads the archive.
-pub fn render_loading(frame: &mut Frame, archive: &str, elapsed: Duration, theme: Theme) {
+/// The loading screen while a worker reads the archive: the four steps, the current
+/// one with a spinner (and, while reading, the bytes read of the mapped files and a
+/// bar), and the time so far.
+pub fn render_loading(
+    frame: &mut Frame,
+    archive: &str,
+    stage: Stage,
+    elapsed: Duration,
+    theme: Theme,
+) {
     let area = frame.area();
+    let w = area.width as usize;
     let spin = ['|', '/', '-', '\\'][(elapsed.as_millis() / 125) as usize % 4];
-    let lines = vec![
+    let current = match stage {
+        Stage::Priors => 0,
+        Stage::Reading { .. } => 1,
+        Stage::Scoring => 2,
+        Stage::Opening => 3,
+    };
+    let reading = match stage {
+        Stage::Reading { done, total } if total > 0 => format!(
+            "Reading {archive}: {} of {} ({}%)",
+            megabytes(done),
+            megabytes(total),
+            done * 100 / total
+        ),
+        _ => format!("Reading {archive}"),
+    };
+    let steps = [
+        "Loading the reference statistics".to_string(),
+        reading,
+        "Matching the items and working out the guesses".to_string(),
+        "Opening the explorer".to_string(),
+    ];
+    let mut lines = vec![
         Line::raw(""),
         Line::styled("  telltale".to_string(), theme.title()),
         Line::raw(""),
-        Line::raw(format!(
-            "  {spin} Reading {archive} and scoring it… {:.1} s",
-            elapsed.as_secs_f64()
-        )),
-        Line::raw(""),
-        Line::styled(
-            "  Everything stays on this computer. q or Ctrl-C stops.".to_string(),
-            theme.dim(),
-        ),
     ];
-    let w = area.width as usize;
+    for (i, step) in steps.iter().enumerate() {
+        let (mark, style) = match i.cmp(&current) {
+            std::cmp::Ordering::Less => ("✓".to_string(), theme.dim()),
+            std::cmp::Ordering::Equal => (spin.to_string(), theme.title()),
+            std::cmp::Ordering::Greater => (" ".to_string(), theme.dim()),
+        };
+        lines.push(Line::from(vec![
+            Span::raw(format!("  {mark} ")),
+            Span::styled(step.clone(), style),
+        ]));
+        if i == 1
+            && let Stage::Reading { done, total } = stage
+            && total > 0
+        {
+            let bar_w = w.saturating_sub(8).min(50);
+            let bar = super::widgets::share_bar(done as f64 / total as f64, bar_w, '█');
+            lines.push(Line::raw(format!("    [{bar}]")));
+        }
+    }
+    lines.push(Line::raw(""));
+    lines.push(Line::raw(format!("  {:.1} s", elapsed.as_secs_f64())));
+    lines.push(Line::raw(""));
+    lines.push(Line::styled(
+        "  Everything stays on this computer. q, Esc or Ctrl-C stops.".to_string(),
+        theme.dim(),
+    ));
     let lines: Vec<Line> = lines.into_iter().map(|l| fit(l, w)).collect();
     frame.render_widget(Paragraph::new(lines), area);
+}
+
+/// "12.3 MB" (decimal megabytes, one decimal).
+fn megabytes(bytes: u64) -> String {
+    format!("{:.1} MB", bytes as f64 / 1e6)
 }
 
 /// Rows a page of the current screen holds.

@@ -56,7 +56,7 @@ pub fn render(app: &App, frame: &mut Frame, area: Rect, theme: Theme) {
     };
     let mut filt = vec![
         Span::styled(
-            format!("{} of {} · ", app.rows.len(), s.subjects().count()),
+            format!("{} of {} · ", app.rows.len(), s.n_subjects()),
             theme.dim(),
         ),
         Span::styled("about ", theme.dim()),
