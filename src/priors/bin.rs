@@ -1,7 +1,9 @@
 //! The byte coding of the priors cache: little-endian numbers, length-prefixed strings
-//! and arrays, written into one buffer and read back by a cursor that refuses anything
-//! out of bounds (every read returns `None` rather than panic). Floats are stored as
-//! their bits, so every value comes back exactly.
+//! and arrays, written into one buffer. They are read back by a cursor over the small
+//! head (provenance, attributes) and by [`Stream`], which reads each column straight
+//! from the file into the `Vec` that is kept, hashing it on the way; both refuse
+//! anything out of bounds (every read returns `None` rather than panic). Floats are
+//! stored as their bits, so every value comes back exactly.
 
 use super::file::{Calibration, PrivacySpec, Provenance};
 use super::model::{AttrValue, Attribute};
@@ -167,30 +169,6 @@ impl<'b> Reader<'b> {
                 .collect(),
         )
     }
-    pub fn u64s(&mut self) -> Option<Vec<u64>> {
-        Some(
-            self.array(8)?
-                .chunks_exact(8)
-                .map(|c| u64::from_le_bytes(le8(c)))
-                .collect(),
-        )
-    }
-    pub fn u32s(&mut self) -> Option<Vec<u32>> {
-        Some(
-            self.array(4)?
-                .chunks_exact(4)
-                .map(|c| u32::from_le_bytes([c[0], c[1], c[2], c[3]]))
-                .collect(),
-        )
-    }
-    pub fn u16s(&mut self) -> Option<Vec<u16>> {
-        Some(
-            self.array(2)?
-                .chunks_exact(2)
-                .map(|c| u16::from_le_bytes([c[0], c[1]]))
-                .collect(),
-        )
-    }
 
     pub fn provenance(&mut self) -> Option<Provenance> {
         let (source, licence, created, method) = (
@@ -291,4 +269,105 @@ fn le8(c: &[u8]) -> [u8; 8] {
     let mut b = [0u8; 8];
     b.copy_from_slice(c);
     b
+}
+
+/// A fixed-width little-endian number the cache stores in arrays, read straight into
+/// its final `Vec` (its bytes as they are on disk) and put in native order after.
+pub(crate) trait Word: bytemuck::Pod {
+    fn le_to_native(&mut self);
+}
+
+macro_rules! word {
+    ($($t:ty),*) => {$(
+        impl Word for $t {
+            fn le_to_native(&mut self) {
+                *self = <$t>::from_le_bytes(self.to_ne_bytes());
+            }
+        }
+    )*};
+}
+word!(u8, u16, u32, u64, f64);
+
+/// Reads the cache payload section by section straight into the buffers that are kept,
+/// so nothing is held twice, hashing every byte (BLAKE3, over both cores for large
+/// sections) as it comes in. Never reads past the payload length it was given, and
+/// never reserves more than what is left of it; every read returns `None` rather than
+/// panic.
+pub(crate) struct Stream<R> {
+    from: R,
+    left: u64,
+    hasher: blake3::Hasher,
+}
+
+/// Sections are read and hashed in steps of this size, so a step is still in the
+/// processor's cache when it is hashed.
+const STEP: usize = 1 << 20;
+
+impl<R: std::io::Read> Stream<R> {
+    pub fn new(from: R, len: u64) -> Stream<R> {
+        Stream {
+            from,
+            left: len,
+            hasher: blake3::Hasher::new(),
+        }
+    }
+
+    /// Fill `out` from the payload and hash it.
+    fn fill(&mut self, out: &mut [u8]) -> Option<()> {
+        if out.len() as u64 > self.left {
+            return None;
+        }
+        for step in out.chunks_mut(STEP) {
+            self.from.read_exact(step).ok()?;
+            if step.len() >= STEP {
+                self.hasher.update_rayon(step);
+            } else {
+                self.hasher.update(step);
+            }
+        }
+        self.left -= out.len() as u64;
+        Some(())
+    }
+
+    pub fn u64(&mut self) -> Option<u64> {
+        let mut b = [0u8; 8];
+        self.fill(&mut b)?;
+        Some(u64::from_le_bytes(b))
+    }
+
+    /// A length-prefixed array of `T`, straight into its `Vec`.
+    pub fn array<T: Word>(&mut self) -> Option<Vec<T>> {
+        let n = usize::try_from(self.u64()?).ok()?;
+        let bytes = n.checked_mul(std::mem::size_of::<T>())?;
+        if bytes as u64 > self.left {
+            return None;
+        }
+        let mut v = vec![T::zeroed(); n];
+        self.fill(bytemuck::cast_slice_mut(&mut v))?;
+        if cfg!(target_endian = "big") {
+            v.iter_mut().for_each(Word::le_to_native);
+        }
+        Some(v)
+    }
+
+    /// A length-prefixed UTF-8 text (checked).
+    pub fn string(&mut self) -> Option<String> {
+        String::from_utf8(self.array::<u8>()?).ok()
+    }
+
+    pub fn at_end(&self) -> bool {
+        self.left == 0
+    }
+
+    /// Hash whatever is left of the payload (after a section that could not be read,
+    /// to tell a damaged cache from an inconsistent one) and return the checksum, or
+    /// `None` if the payload ends early.
+    pub fn finish(mut self) -> Option<blake3::Hash> {
+        let mut buf = vec![0u8; STEP];
+        while self.left > 0 {
+            let n = self.left.min(STEP as u64) as usize;
+            self.fill(&mut buf[..n])?;
+        }
+        Some(self.hasher.finalize())
+    }
 }

@@ -18,7 +18,7 @@ use std::io::Read;
 use std::path::{Path, PathBuf};
 use std::sync::atomic::{AtomicBool, Ordering};
 
-use super::bin::{Reader, Writer};
+use super::bin::{Reader, Stream, Writer};
 use super::error::{Error, Result};
 use super::index::{Index, Keyed};
 use super::model::Priors;
@@ -26,7 +26,7 @@ use super::store::{HAS_ID, Items, KIND_MASK, TAG_F64, width};
 use crate::footprint::ItemKind;
 
 /// Bumped whenever the layout below changes; a cache of another version is refused.
-pub const CACHE_VERSION: u32 = 1;
+pub const CACHE_VERSION: u32 = 2;
 
 /// Environment variable naming telltale's cache folder (the priors caches go in its
 /// `priors/` folder). Empty or unset: the platform's cache folder.
@@ -85,8 +85,8 @@ impl Priors {
         let mut notes = Vec::new();
         let hash = hash_file(path).map_err(read_err)?;
         let cached = cache_path(dir, &hash);
-        match std::fs::read(&cached) {
-            Ok(bytes) => match decode(&bytes, &hash, &origin) {
+        match open_cache(&cached) {
+            Ok((file, len)) => match decode_from(file, len, &hash, &origin) {
                 Ok(mut priors) => {
                     priors
                         .cache_notes
@@ -106,7 +106,9 @@ impl Priors {
         if text.len() >= MIN_CACHED_BYTES || priors.len_items() >= MIN_CACHED_ITEMS {
             // The key is the hash of the text actually parsed (the file may have
             // changed since it was hashed above).
-            let hash = blake3::hash(text.as_bytes());
+            let hash = blake3::Hasher::new()
+                .update_rayon(text.as_bytes())
+                .finalize();
             drop(text);
             let target = cache_path(dir, &hash);
             match write(&priors, &hash, dir, &target) {
@@ -119,19 +121,35 @@ impl Priors {
     }
 }
 
-/// BLAKE3 of a file, read in 1 MiB steps.
+/// A cache file, buffered for its few small fields (the columns are read past the
+/// buffer, straight into their own), and its length.
+fn open_cache(path: &Path) -> std::io::Result<(std::io::BufReader<std::fs::File>, u64)> {
+    let file = std::fs::File::open(path)?;
+    let len = file.metadata()?.len();
+    Ok((std::io::BufReader::with_capacity(64 << 10, file), len))
+}
+
+/// BLAKE3 of a file, read in 4 MiB steps, each hashed over all cores (BLAKE3's tree
+/// mode: the same hash as hashing it in one go on one core). The file is never held
+/// whole.
 pub fn hash_file(path: &Path) -> std::io::Result<blake3::Hash> {
     let mut f = std::fs::File::open(path)?;
     let mut hasher = blake3::Hasher::new();
-    let mut buf = vec![0u8; 1 << 20];
+    let mut buf = vec![0u8; 4 << 20];
     loop {
-        match f.read(&mut buf) {
-            Ok(0) => return Ok(hasher.finalize()),
-            Ok(n) => {
-                hasher.update(&buf[..n]);
+        // Fill the buffer (a read may return less), so every step but the last is whole.
+        let mut got = 0;
+        while got < buf.len() {
+            match f.read(&mut buf[got..]) {
+                Ok(0) => break,
+                Ok(n) => got += n,
+                Err(e) if e.kind() == std::io::ErrorKind::Interrupted => {}
+                Err(e) => return Err(e),
             }
-            Err(e) if e.kind() == std::io::ErrorKind::Interrupted => {}
-            Err(e) => return Err(e),
+        }
+        hasher.update_rayon(&buf[..got]);
+        if got < buf.len() {
+            return Ok(hasher.finalize());
         }
     }
 }
@@ -150,13 +168,21 @@ fn write(priors: &Priors, hash: &blake3::Hash, dir: &Path, target: &Path) -> std
 }
 
 /// The cache bytes of `priors` read from a JSON text with hash `json_hash`.
+///
+/// Layout: the header (magic, [`CACHE_VERSION`], the JSON hash, the payload length,
+/// the BLAKE3 checksum of the payload), then the payload: the length-prefixed head
+/// (provenance, attributes, warnings) and the item and index columns, each a count
+/// and its little-endian values. The counts' item offsets are not stored: the check
+/// of every entry's coding rebuilds them.
 pub(crate) fn encode(priors: &Priors, json_hash: &blake3::Hash) -> Vec<u8> {
+    let mut head = Writer::default();
+    head.provenance(&priors.provenance);
+    head.u64(priors.attributes.len() as u64);
+    priors.attributes.iter().for_each(|a| head.attribute(a));
+    head.u64(priors.warnings.len() as u64);
+    priors.warnings.iter().for_each(|s| head.str(s));
     let mut w = Writer::default();
-    w.provenance(&priors.provenance);
-    w.u64(priors.attributes.len() as u64);
-    priors.attributes.iter().for_each(|a| w.attribute(a));
-    w.u64(priors.warnings.len() as u64);
-    priors.warnings.iter().for_each(|s| w.str(s));
+    w.bytes(&head.buf);
     let s = &priors.store;
     w.bytes(s.text.as_bytes());
     w.u32s(&s.spans);
@@ -164,7 +190,6 @@ pub(crate) fn encode(priors: &Priors, json_hash: &blake3::Hash) -> Vec<u8> {
     w.u32s(&s.entry_start);
     w.u16s(&s.entry_attr);
     w.bytes(&s.entry_tag);
-    w.u64s(&s.counts_start);
     w.bytes(&s.counts);
     w.f64s(&s.support);
     let x = &priors.index;
@@ -181,69 +206,103 @@ pub(crate) fn encode(priors: &Priors, json_hash: &blake3::Hash) -> Vec<u8> {
     out.extend_from_slice(&CACHE_VERSION.to_le_bytes());
     out.extend_from_slice(json_hash.as_bytes());
     out.extend_from_slice(&(payload.len() as u64).to_le_bytes());
-    out.extend_from_slice(blake3::hash(&payload).as_bytes());
+    out.extend_from_slice(
+        blake3::Hasher::new()
+            .update_rayon(&payload)
+            .finalize()
+            .as_bytes(),
+    );
     out.extend_from_slice(&payload);
     out
 }
 
 /// Read and check cache bytes; the reason when they cannot be used.
+#[cfg(test)]
 pub(crate) fn decode(
     bytes: &[u8],
     json_hash: &blake3::Hash,
     origin: &str,
 ) -> std::result::Result<Priors, &'static str> {
-    if bytes.len() < HEADER_LEN || &bytes[..8] != MAGIC {
-        return Err("not a telltale priors cache");
-    }
-    if bytes[8..12] != CACHE_VERSION.to_le_bytes() {
-        return Err("made by another version of telltale");
-    }
-    if &bytes[12..44] != json_hash.as_bytes() {
-        return Err("made from another priors file");
-    }
-    let payload = &bytes[HEADER_LEN..];
-    if bytes[44..52] != (payload.len() as u64).to_le_bytes() {
-        return Err("cut short or padded");
-    }
-    if &bytes[52..84] != blake3::hash(payload).as_bytes() {
-        return Err("damaged: its checksum does not match");
-    }
-    read_payload(payload, origin).ok_or("its contents are inconsistent")
+    decode_from(bytes, bytes.len() as u64, json_hash, origin)
 }
 
-fn read_payload(payload: &[u8], origin: &str) -> Option<Priors> {
-    let mut r = Reader::new(payload);
-    let provenance = r.provenance()?;
-    let n_attr = usize::try_from(r.u64()?).ok()?;
-    if n_attr == 0 || n_attr > payload.len() / 64 || n_attr > u16::MAX as usize + 1 {
+/// Read and check a cache of `len` bytes from `from`, section by section into the
+/// buffers that are kept; the reason when it cannot be used.
+pub(crate) fn decode_from(
+    mut from: impl Read,
+    len: u64,
+    json_hash: &blake3::Hash,
+    origin: &str,
+) -> std::result::Result<Priors, &'static str> {
+    let mut header = [0u8; HEADER_LEN];
+    if from.read_exact(&mut header).is_err() || &header[..8] != MAGIC {
+        return Err("not a telltale priors cache");
+    }
+    if header[8..12] != CACHE_VERSION.to_le_bytes() {
+        return Err("made by another version of telltale");
+    }
+    if &header[12..44] != json_hash.as_bytes() {
+        return Err("made from another priors file");
+    }
+    let payload_len = u64::from_le_bytes(header[44..52].try_into().unwrap_or([0xff; 8]));
+    if len.checked_sub(HEADER_LEN as u64) != Some(payload_len) {
+        return Err("cut short or padded");
+    }
+    let mut stream = Stream::new(from, payload_len);
+    let read = read_payload(&mut stream, origin);
+    // What could not be read is still hashed, so a damaged cache is told from an
+    // inconsistent one.
+    let complete = read.is_some() && stream.at_end();
+    match stream.finish() {
+        None => return Err("cut short or padded"),
+        Some(sum) if sum.as_bytes() != &header[52..84] => {
+            return Err("damaged: its checksum does not match");
+        }
+        Some(_) => {}
+    }
+    let priors = read
+        .filter(|_| complete)
+        .ok_or("its contents are inconsistent")?;
+    Ok(priors)
+}
+
+fn read_payload<R: Read>(r: &mut Stream<R>, origin: &str) -> Option<Priors> {
+    let head = r.array::<u8>()?;
+    let mut h = Reader::new(&head);
+    let provenance = h.provenance()?;
+    let n_attr = usize::try_from(h.u64()?).ok()?;
+    if n_attr == 0 || n_attr > head.len() / 64 || n_attr > u16::MAX as usize + 1 {
         return None;
     }
     let attributes = (0..n_attr)
-        .map(|_| r.attribute())
+        .map(|_| h.attribute())
         .collect::<Option<Vec<_>>>()?;
-    let n_warn = usize::try_from(r.u64()?).ok()?;
-    if n_warn > payload.len() / 8 {
+    let n_warn = usize::try_from(h.u64()?).ok()?;
+    if n_warn > head.len() / 8 {
         return None;
     }
     let warnings = (0..n_warn)
-        .map(|_| r.string())
+        .map(|_| h.string())
         .collect::<Option<Vec<_>>>()?;
-    let store = Items {
-        text: r.str()?.to_string(),
-        spans: r.u32s()?,
-        flags: r.bytes()?.to_vec(),
-        entry_start: r.u32s()?,
-        entry_attr: r.u16s()?,
-        entry_tag: r.bytes()?.to_vec(),
-        counts_start: r.u64s()?,
-        counts: r.bytes()?.to_vec(),
-        support: r.f64s()?,
+    if !h.at_end() {
+        return None;
+    }
+    let mut store = Items {
+        text: r.string()?,
+        spans: r.array()?,
+        flags: r.array()?,
+        entry_start: r.array()?,
+        entry_attr: r.array()?,
+        entry_tag: r.array()?,
+        counts_start: Vec::new(),
+        counts: r.array()?,
+        support: r.array()?,
         value_counts: attributes.iter().map(|a| a.values.len() as u32).collect(),
     };
     let mut keyed = || -> Option<Keyed> {
         Some(Keyed {
-            hash: r.u64s()?,
-            at: r.u32s()?,
+            hash: r.array()?,
+            at: r.array()?,
         })
     };
     let (ids, names, aliases) = (keyed()?, keyed()?, keyed()?);
@@ -251,11 +310,11 @@ fn read_payload(payload: &[u8], origin: &str) -> Option<Priors> {
         ids,
         names,
         aliases,
-        alias_text: r.str()?.to_string(),
-        alias_spans: r.u32s()?,
-        alias_item: r.u32s()?,
+        alias_text: r.string()?,
+        alias_spans: r.array()?,
+        alias_item: r.array()?,
     };
-    if !r.at_end() || !items_ok(&store) || !index_ok(&index, store.len()) {
+    if !r.at_end() || !items_ok(&mut store) || !index_ok(&index, store.len()) {
         return None;
     }
     Some(Priors {
@@ -278,7 +337,9 @@ fn spans_ok(spans: &[u32], len: usize, text: Option<&str>) -> bool {
         && text.is_none_or(|t| spans.iter().all(|&s| t.is_char_boundary(s as usize)))
 }
 
-fn items_ok(s: &Items) -> bool {
+/// Check the item columns and rebuild `counts_start` (every entry's coding and byte
+/// length, in order, must account for the count bytes exactly).
+fn items_ok(s: &mut Items) -> bool {
     let n = s.flags.len();
     let n_attr = s.value_counts.len();
     let kinds = ItemKind::ALL.len() as u8;
@@ -290,15 +351,14 @@ fn items_ok(s: &Items) -> bool {
         || s.entry_start.len() != n + 1
         || !spans_ok(&s.entry_start, s.entry_attr.len(), None)
         || s.entry_tag.len() != s.entry_attr.len()
-        || s.counts_start.len() != n + 1
-        || s.counts_start.first() != Some(&0)
-        || s.counts_start.last() != Some(&(s.counts.len() as u64))
         || s.support.len() != n
     {
         return false;
     }
+    let mut counts_start = Vec::with_capacity(n + 1);
+    counts_start.push(0u64);
+    let mut at = 0u64;
     for i in 0..n {
-        let mut at = s.counts_start[i];
         let mut last = None;
         for e in s.entry_start[i] as usize..s.entry_start[i + 1] as usize {
             let a = s.entry_attr[e] as usize;
@@ -307,27 +367,35 @@ fn items_ok(s: &Items) -> bool {
             }
             last = Some(a);
             let len = s.entry_bytes(e);
-            // Raw counts are what the checks leave: finite, not below 0.
-            if s.entry_tag[e] == TAG_F64 {
-                let Some(raw) = s.counts.get(at as usize..(at as usize).saturating_add(len)) else {
-                    return false;
-                };
-                if !raw.chunks_exact(8).all(|c| {
-                    let v = f64::from_le_bytes([c[0], c[1], c[2], c[3], c[4], c[5], c[6], c[7]]);
-                    v.is_finite() && v >= 0.0
-                }) {
-                    return false;
-                }
-            }
-            let Some(next) = at.checked_add(len as u64) else {
+            let Some(end) = at
+                .checked_add(len as u64)
+                .filter(|&e| e <= s.counts.len() as u64)
+            else {
                 return false;
             };
-            at = next;
+            // Raw counts are what the checks leave: finite, not below 0.
+            if s.entry_tag[e] == TAG_F64
+                && !s.counts[at as usize..end as usize]
+                    .chunks_exact(8)
+                    .all(|c| {
+                        let v =
+                            f64::from_le_bytes([c[0], c[1], c[2], c[3], c[4], c[5], c[6], c[7]]);
+                        v.is_finite() && v >= 0.0
+                    })
+            {
+                return false;
+            }
+            at = end;
         }
-        if at != s.counts_start[i + 1] || !(s.support[i].is_finite() && s.support[i] >= 0.0) {
+        if !(s.support[i].is_finite() && s.support[i] >= 0.0) {
             return false;
         }
+        counts_start.push(at);
     }
+    if at != s.counts.len() as u64 {
+        return false;
+    }
+    s.counts_start = counts_start;
     true
 }
 
