@@ -6,7 +6,7 @@
 
 use proptest::prelude::*;
 
-use super::cache::{decode, encode};
+use super::cache::{cache_path, decode, decode_from, encode, hash_file};
 use super::{MatchedBy, Priors, PriorsFile, write_priors};
 use crate::footprint::{Item, ItemKind, Origin};
 
@@ -292,4 +292,94 @@ fn inconsistent_contents_are_refused_even_with_a_good_checksum() {
             Some("its contents are inconsistent")
         );
     }
+}
+
+/// A reader that hands out at most 7 bytes per call, as a pipe or a slow disk may: the
+/// section reader must still fill every column exactly.
+struct Trickle<'a>(&'a [u8]);
+
+impl std::io::Read for Trickle<'_> {
+    fn read(&mut self, buf: &mut [u8]) -> std::io::Result<usize> {
+        let n = buf.len().min(7).min(self.0.len());
+        buf[..n].copy_from_slice(&self.0[..n]);
+        self.0 = &self.0[n..];
+        Ok(n)
+    }
+}
+
+#[test]
+fn a_cache_read_in_small_pieces_is_the_same() {
+    let text = sample_json();
+    let a = Priors::parse(&text, "t").expect("parse");
+    let bytes = encode(&a, &hash_of(&text));
+    let b = decode_from(Trickle(&bytes), bytes.len() as u64, &hash_of(&text), "t")
+        .expect("decode in pieces");
+    assert_same(&a, &b, &probes(&a));
+    assert_eq!(a.store, b.store);
+    assert_eq!(a.index, b.index);
+}
+
+/// The file hash (4 MiB steps over all cores) is the plain BLAKE3 hash, at the step
+/// edges too. Reference: the BLAKE3 test vectors (github.com/BLAKE3-team/BLAKE3,
+/// test_vectors.json) give af1349b9… for the empty input; the rest are checked against
+/// the crate's one-call single-core `blake3::hash`.
+#[test]
+fn the_file_hash_is_plain_blake3() {
+    let dir = tempfile::tempdir().expect("tempdir");
+    let empty = dir.path().join("empty");
+    std::fs::write(&empty, b"").expect("write");
+    assert_eq!(
+        hash_file(&empty).expect("hash").to_hex().as_str(),
+        "af1349b9f5f9a1a6a0404dea36dcc9499bcb25c9adc112b7cc9a93cae41f3262"
+    );
+    for len in [
+        1,
+        1024,
+        (4 << 20) - 1,
+        4 << 20,
+        (4 << 20) + 1,
+        (8 << 20) + 4097,
+    ] {
+        let data: Vec<u8> = (0..len).map(|i| (i * 31 % 251) as u8).collect();
+        let path = dir.path().join(format!("f{len}"));
+        std::fs::write(&path, &data).expect("write");
+        assert_eq!(
+            hash_file(&path).expect("hash"),
+            blake3::hash(&data),
+            "{len}"
+        );
+    }
+}
+
+/// A cache on disk is used when it matches; the same cache with one byte changed is
+/// not: the JSON is read instead and a note says why.
+#[test]
+fn a_damaged_cache_file_falls_back_to_the_json() {
+    let dir = tempfile::tempdir().expect("tempdir");
+    let text = sample_json();
+    let json = dir.path().join("p.json");
+    std::fs::write(&json, &text).expect("write");
+    let cache = dir.path().join("cache");
+    std::fs::create_dir(&cache).expect("mkdir");
+    let a = Priors::parse(&text, "t").expect("parse");
+    let mut bytes = encode(&a, &hash_of(&text));
+    let target = cache_path(&cache, &hash_of(&text));
+    std::fs::write(&target, &bytes).expect("write cache");
+    let b = Priors::load_cached(&json, Some(&cache)).expect("load");
+    assert!(
+        b.cache_notes[0].starts_with("read from the cache"),
+        "{:?}",
+        b.cache_notes
+    );
+    assert_same(&a, &b, &probes(&a));
+    let last = bytes.len() - 1;
+    bytes[last] ^= 1;
+    std::fs::write(&target, &bytes).expect("write cache");
+    let c = Priors::load_cached(&json, Some(&cache)).expect("load");
+    assert!(
+        c.cache_notes[0].contains("damaged: its checksum does not match"),
+        "{:?}",
+        c.cache_notes
+    );
+    assert_same(&a, &c, &probes(&a));
 }
