@@ -4,7 +4,9 @@
 //! import goes on. Breaking a reading limit stops the import with an error that names
 //! the limit and how to raise it.
 
-use std::collections::{BTreeMap, HashMap};
+use std::collections::BTreeMap;
+
+use foldhash::{HashMap, HashMapExt};
 
 use sha2::{Digest, Sha256};
 
@@ -91,22 +93,32 @@ pub fn import_with_progress(
     let total: u64 = wanted.iter().map(|(e, _)| entries[*e].size).sum();
     let mut done = 0u64;
     progress(done, total);
-    let mut hasher = Sha256::new();
     let archive_name = archive.display_name();
     // The entries are read (and inflated) on a second thread while this one parses
     // the one before: a rendezvous channel hands each over, so at most two entries
     // are held at once.
-    std::thread::scope(|scope| -> Result<(), Error> {
+    let digest = std::thread::scope(|scope| -> Result<_, Error> {
         let (send, received) = std::sync::mpsc::sync_channel(0);
         let (wanted, entries) = (&wanted, &entries);
-        scope.spawn(move || {
+        // The reading thread also takes the fingerprint, which covers the path and
+        // bytes of every entry read, in order.
+        let reader = scope.spawn(move || {
+            let mut hasher = Sha256::new();
             for (e_idx, _) in wanted {
-                let read = archive.read(&entries[*e_idx], &mut budget);
+                let entry = &entries[*e_idx];
+                let read = archive.read(entry, &mut budget);
+                if let Ok(bytes) = &read {
+                    hasher.update(entry.path.as_bytes());
+                    hasher.update([0]);
+                    hasher.update(bytes);
+                    hasher.update([0]);
+                }
                 let stop = matches!(read, Err(archive::Error::Limit { .. }));
                 if send.send(read).is_err() || stop {
                     break;
                 }
             }
+            hasher
         });
         for ((e_idx, sources), read) in wanted.iter().zip(received) {
             let entry = &entries[*e_idx];
@@ -125,10 +137,6 @@ pub fn import_with_progress(
                     continue;
                 }
             };
-            hasher.update(entry.path.as_bytes());
-            hasher.update([0]);
-            hasher.update(&bytes);
-            hasher.update([0]);
             state.footprint.stats.files_read += 1;
             state.footprint.stats.bytes_read += bytes.len() as u64;
             let (text, bad) = decode_text(&bytes);
@@ -159,9 +167,11 @@ pub fn import_with_progress(
             }
             progress(done, total);
         }
-        Ok(())
+        let hasher = reader
+            .join()
+            .unwrap_or_else(|e| std::panic::resume_unwind(e));
+        Ok(hasher.finalize())
     })?;
-    let digest = hasher.finalize();
     state.footprint.fingerprint = digest[..16].iter().map(|b| format!("{b:02x}")).collect();
     Ok(state.finish())
 }

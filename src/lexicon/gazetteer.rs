@@ -8,7 +8,7 @@
 //! GeoNames' own first-level codes written `CC.code` (`DE.02`), which are not ISO
 //! codes, so only their country part is matched against ISO codes.
 
-use std::collections::HashSet;
+use foldhash::{HashSet, HashSetExt};
 
 use super::error::{Error, Result};
 use super::phrase::{Hit, PhraseIndex, tokens};
