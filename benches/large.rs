@@ -146,8 +146,17 @@ fn main() {
     }
     println!(
         "Scan::run: first (lexicons parsed) {:.3} s, best of {repeat} {:.3} s; peak RSS {:.0} MB",
-        scan_times.first().copied().unwrap_or_default().as_secs_f64(),
-        scan_times.iter().min().copied().unwrap_or_default().as_secs_f64(),
+        scan_times
+            .first()
+            .copied()
+            .unwrap_or_default()
+            .as_secs_f64(),
+        scan_times
+            .iter()
+            .min()
+            .copied()
+            .unwrap_or_default()
+            .as_secs_f64(),
         peak_rss_mb().unwrap_or(f64::NAN)
     );
     reset_peak();
