@@ -3,7 +3,9 @@
 //! filtered by attribute, kind and a search text, in the chosen order. Computing all
 //! rows touches each piece of evidence once and allocates only the rows.
 
-use super::session::{Session, subject_name};
+use super::session::Session;
+#[cfg(test)]
+use super::session::subject_name;
 use crate::decisions::Mark;
 use crate::evidence::Subject;
 use crate::footprint::ItemKind;
@@ -96,7 +98,7 @@ pub struct RowQuery {
     pub sort: SortBy,
 }
 
-/// One line of the item list (the name is [`subject_name`] of the subject).
+/// One line of the item list (the name is [`super::session::subject_name`] of the subject).
 #[derive(Debug, Clone, PartialEq)]
 pub struct ItemRow {
     pub subject: Subject,
@@ -137,8 +139,7 @@ pub fn item_rows(s: &Session, q: &RowQuery) -> Vec<ItemRow> {
         if !keep_kind {
             continue;
         }
-        let name = subject_name(fp, subject);
-        if !needle.is_empty() && !name_key(name).contains(&needle) {
+        if !needle.is_empty() && !s.name_key(subject).contains(&needle) {
             continue;
         }
         // The evidence to show: the filtered attribute's, or the largest contribution.
@@ -211,9 +212,11 @@ pub fn item_rows(s: &Session, q: &RowQuery) -> Vec<ItemRow> {
         SortBy::Date => {
             rows.sort_unstable_by(|a, b| b.date.cmp(&a.date).then(a.subject.cmp(&b.subject)))
         }
-        SortBy::Name => {
-            rows.sort_by_cached_key(|r| (name_key(subject_name(fp, r.subject)), r.subject))
-        }
+        SortBy::Name => rows.sort_unstable_by(|a, b| {
+            s.name_key(a.subject)
+                .cmp(s.name_key(b.subject))
+                .then(a.subject.cmp(&b.subject))
+        }),
     }
     rows
 }

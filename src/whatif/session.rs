@@ -42,12 +42,33 @@ pub struct Session {
     /// Subjects whose mark changed since [`Session::take_changed`] last ran; `None`
     /// once more than [`CHANGED_LIST_MAX`] did (a front end then refreshes everything).
     changed: Option<Vec<Subject>>,
+    /// Name keys of the items (then the friend list), made on first search or sort by
+    /// name and kept: the footprint does not change during a session.
+    name_keys: std::sync::OnceLock<Vec<String>>,
 }
 
 /// Changed subjects listed one by one at most; beyond this, "everything changed".
 const CHANGED_LIST_MAX: usize = 4096;
 
 impl Session {
+    /// The name key ([`crate::text::name_key`]) of a subject's name, for search and
+    /// sorting by name.
+    pub fn name_key(&self, subject: Subject) -> &str {
+        let keys = self.name_keys.get_or_init(|| {
+            let fp = &self.scan.footprint;
+            fp.items
+                .iter()
+                .map(|it| crate::text::name_key(&it.name))
+                .chain([crate::text::name_key(subject_name(fp, Subject::FriendList))])
+                .collect()
+        });
+        let slot = match subject {
+            Subject::Item(i) => i.min(keys.len() - 1),
+            Subject::FriendList => keys.len() - 1,
+        };
+        &keys[slot]
+    }
+
     /// Start a session and apply saved decisions. Marks for items this import does not
     /// have are carried along unchanged (so saving never drops them).
     pub fn open(scan: Scan, priors: Priors, saved: &Decisions) -> Session {
@@ -65,6 +86,7 @@ impl Session {
             hidden_n: 0,
             kept_n: 0,
             changed: Some(Vec::new()),
+            name_keys: std::sync::OnceLock::new(),
             scan,
             priors,
         };
