@@ -127,6 +127,26 @@ impl Scan {
     pub fn report(&self, priors: &Priors) -> ScanReport {
         report::build(&self.archive_name, &self.footprint, priors, &self.exposure)
     }
+
+    /// The report holding only as many item rows as `rows` says (the text, Markdown
+    /// and HTML reports show the first few).
+    pub fn report_with(&self, priors: &Priors, rows: report::RowCount) -> ScanReport {
+        report::build_with(
+            &self.archive_name,
+            &self.footprint,
+            priors,
+            &self.exposure,
+            rows,
+        )
+    }
+
+    /// Write the JSON report, making each item row as it is written (the same bytes as
+    /// [`report::write_json`] of [`Scan::report`], without holding every row).
+    pub fn write_json(&self, priors: &Priors, out: &mut dyn std::io::Write) -> std::io::Result<()> {
+        let head = self.report_with(priors, report::RowCount::Nothing);
+        let rows = report::Rows::new(&self.footprint, priors, &self.exposure);
+        report::write_json_streamed(&head, &rows, out)
+    }
 }
 
 /// Attribute ids and values the mapping produced (declared values, friends' public

@@ -6,7 +6,7 @@ use std::process::ExitCode;
 use anyhow::{Context, Result};
 use telltale::evidence::Sources;
 use telltale::limits::Limits;
-use telltale::report::{TextOptions, write_html, write_json, write_markdown, write_text};
+use telltale::report::{RowCount, TextOptions, write_html, write_markdown, write_text};
 use telltale::scan::{Scan, ScanInput, load_priors};
 
 use super::args::{ColourChoice, OutputArgs, ReportFormat, ScanArgs, SourceArgs};
@@ -54,16 +54,17 @@ pub fn run(args: &ScanArgs) -> Result<ExitCode> {
     });
     pb.finish_and_clear();
     let scan = scan?;
-    let report = scan.report(&priors);
     let to_file = args.output.output.is_some();
     let colour = use_colour(args.output.colour, to_file);
     let top = args.top;
+    // The JSON report streams every row; the others show only the first `top`.
+    let shown = || scan.report_with(&priors, RowCount::First(top));
     emit(args.output.output.as_deref(), |out| {
         match args.output.format {
-            ReportFormat::Text => write_text(&report, TextOptions { colour, top }, out),
-            ReportFormat::Json => write_json(&report, out),
-            ReportFormat::Markdown => write_markdown(&report, top, out),
-            ReportFormat::Html => write_html(&report, top, out),
+            ReportFormat::Text => write_text(&shown(), TextOptions { colour, top }, out),
+            ReportFormat::Json => scan.write_json(&priors, out),
+            ReportFormat::Markdown => write_markdown(&shown(), top, out),
+            ReportFormat::Html => write_html(&shown(), top, out),
         }
     })?;
     Ok(ExitCode::SUCCESS)

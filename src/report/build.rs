@@ -1,18 +1,19 @@
 //! The report data: what every renderer shows, and exactly what `--format json` writes.
 //! Field names here are a public interface (format 1): add fields, never rename them.
 
-use std::collections::{BTreeMap, HashMap};
+use std::collections::BTreeMap;
 use std::sync::Arc;
 
 use serde::Serialize;
 
 use crate::cautions::CAUTIONS;
-use crate::evidence::{Origin, Subject};
+use crate::evidence::Subject;
 use crate::footprint::{Footprint, ItemKind};
 use crate::infer::Exposure;
 use crate::priors::Priors;
 use crate::reading::{attribute_sentence, level};
 
+use super::rows::{RowCount, Rows};
 use super::sources::{
     FriendsReport, SourceReport, SpecialReport, friends_report, source_reports, special_report,
 };
@@ -143,12 +144,23 @@ pub struct UnmatchedItem {
     pub origin: String,
 }
 
-/// Build the report for the current state of an exposure.
+/// Build the report for the current state of an exposure, with every row.
 pub fn build(
     archive_name: &str,
     footprint: &Footprint,
     priors: &Priors,
     exposure: &Exposure,
+) -> ScanReport {
+    build_with(archive_name, footprint, priors, exposure, RowCount::All)
+}
+
+/// Build the report, holding as many of its item rows as `rows` says.
+pub fn build_with(
+    archive_name: &str,
+    footprint: &Footprint,
+    priors: &Priors,
+    exposure: &Exposure,
+    rows: RowCount,
 ) -> ScanReport {
     let mut by_kind = BTreeMap::new();
     for kind in ItemKind::ALL {
@@ -177,8 +189,6 @@ pub fn build(
     };
 
     let mut attributes = Vec::new();
-    let mut items = Vec::new();
-    let mut described = Described::default();
     for (ai, attr) in priors.attributes.iter().enumerate() {
         let post = exposure.posterior(ai);
         let base = attr.base_rates[post.best];
@@ -218,51 +228,15 @@ pub fn build(
                 })
                 .collect(),
         });
-        let attribute: Arc<str> = attr.id.as_str().into();
-        let value_ids: Vec<Arc<str>> = attr.values.iter().map(|v| v.id.as_str().into()).collect();
-        let value_labels: Vec<Arc<str>> = attr
-            .values
-            .iter()
-            .map(|v| v.label.as_str().into())
-            .collect();
-        for c in exposure.contributions(ai) {
-            let e = &exposure.evidence().list[c.evidence];
-            let (name, kind, date) = match c.subject {
-                Subject::Item(i) => {
-                    let it = &footprint.items[i];
-                    (it.name.clone(), it.kind.as_str(), it.date)
-                }
-                Subject::FriendList => ("your friend list".to_string(), "friends", None),
-            };
-            let leaning = e.leaning();
-            items.push(ItemReport {
-                name,
-                kind,
-                attribute: attribute.clone(),
-                reveals: value_ids[leaning].clone(),
-                reveals_label: value_labels[leaning].clone(),
-                bits: e.info_bits,
-                homogeneity: e.homogeneity,
-                contribution_bits: c.toward_best_bits,
-                if_hidden_drop: c.loo_drop,
-                support: e.support,
-                source: e.origin.kind(),
-                source_detail: described.get(&e.origin),
-                date,
-            });
-        }
     }
-    // Sorted through a list of positions (ties keep their order, as a stable sort
-    // would), then put in place without a second copy of the rows.
-    let mut order: Vec<usize> = (0..items.len()).collect();
-    order.sort_unstable_by(|&a, &b| {
-        let (x, y) = (&items[a], &items[b]);
-        y.contribution_bits
-            .total_cmp(&x.contribution_bits)
-            .then(y.bits.total_cmp(&x.bits))
-            .then(a.cmp(&b))
-    });
-    permute(&mut items, &order);
+    let items = match rows {
+        RowCount::Nothing => Vec::new(),
+        RowCount::First(n) => Rows::new(footprint, priors, exposure)
+            .iter()
+            .take(n)
+            .collect(),
+        RowCount::All => Rows::new(footprint, priors, exposure).iter().collect(),
+    };
 
     let mut has_evidence = vec![false; footprint.items.len()];
     for e in &exposure.evidence().list {
@@ -308,44 +282,5 @@ pub fn build(
         friends: friends_report(priors, exposure),
         warnings,
         cautions: CAUTIONS.iter().map(|s| s.to_string()).collect(),
-    }
-}
-
-/// Descriptions of evidence origins; lexicon origins shared by many items (the same
-/// place, the same rule) are described once.
-#[derive(Default)]
-struct Described(HashMap<(*const u8, *const u8), Arc<str>>);
-
-impl Described {
-    fn get(&mut self, origin: &Origin) -> Arc<str> {
-        match origin {
-            Origin::Lexicon { rule, detail } => self
-                .0
-                .entry((Arc::as_ptr(rule).cast(), Arc::as_ptr(detail).cast()))
-                .or_insert_with(|| origin.describe().into())
-                .clone(),
-            other => other.describe().into(),
-        }
-    }
-}
-
-/// Reorder `items` so that position `i` holds what was at `order[i]` (`order` is a
-/// permutation), following each cycle with swaps.
-fn permute<T>(items: &mut [T], order: &[usize]) {
-    let mut done = vec![false; items.len()];
-    for start in 0..items.len() {
-        if done[start] {
-            continue;
-        }
-        let mut j = start;
-        loop {
-            done[j] = true;
-            let k = order[j];
-            if k == start {
-                break;
-            }
-            items.swap(j, k);
-            j = k;
-        }
     }
 }

@@ -6,24 +6,22 @@
 
 mod build;
 mod html;
+mod json;
 mod markdown;
+mod rows;
 mod sources;
 mod text;
 
 pub use build::{
     ArchiveInfo, AttributeReport, ItemReport, PriorsInfo, REPORT_FORMAT, ScanReport, UnmatchedItem,
-    ValueShare, build,
+    ValueShare, build, build_with,
 };
 pub use html::{CONTENT_SECURITY_POLICY, escape as escape_html, write_html, write_html_with};
+pub use json::{write_json, write_json_streamed};
 pub use markdown::write_markdown;
+pub use rows::{RowCount, Rows};
 pub use sources::{
     FriendAttributeReport, FriendsReport, SourceReport, SpecialCategoryCount, SpecialItemReport,
     SpecialReport,
 };
 pub use text::{TextOptions, write_text};
-
-/// Write the JSON document (pretty-printed, newline-terminated).
-pub fn write_json(report: &ScanReport, out: &mut dyn std::io::Write) -> std::io::Result<()> {
-    serde_json::to_writer_pretty(&mut *out, report)?;
-    writeln!(out)
-}

@@ -359,7 +359,9 @@ fn read() -> std::io::Result<Option<Event>> {
 /// Write the report of the current state, with the hiding plan when one was worked
 /// out for it; returns the message for the footer.
 pub(super) fn export(app: &App, format: ExportFormat, path: &std::path::Path) -> String {
-    let report = app.session.report();
+    let report = app
+        .session
+        .report(telltale::report::RowCount::First(EXPORT_TOP));
     let plan = app.current_plan().map(|p| &p.report);
     let result = write_atomic(path, |w| match format {
         ExportFormat::Html => write_html_with(&report, EXPORT_TOP, w, &mut |out| match plan {

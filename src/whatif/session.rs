@@ -386,12 +386,14 @@ impl Session {
 
     /// The report of the current state (hidden items count as hidden). Real values
     /// are never part of it.
-    pub fn report(&self) -> ScanReport {
-        report::build(
+    /// `rows` says how many item rows it holds.
+    pub fn report(&self, rows: report::RowCount) -> ScanReport {
+        report::build_with(
             &self.scan.archive_name,
             &self.scan.footprint,
             &self.priors,
             &self.scan.exposure,
+            rows,
         )
     }
 }
