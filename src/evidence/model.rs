@@ -23,8 +23,9 @@ pub enum Origin {
     /// A reference item in the priors table.
     Table {
         matched_by: MatchedBy,
-        /// The reference item's name.
-        reference: String,
+        /// The reference item's name (shared by the item's evidence about each
+        /// attribute).
+        reference: Arc<str>,
     },
     /// A lexicon rule (place names, life-stage dates, vocabulary).
     /// The rule and the description are shared between the many items that match

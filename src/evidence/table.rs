@@ -7,20 +7,33 @@
 //! even where people with some values join more items overall. Smoothing is described
 //! at [`crate::stats::smooth_against`].
 
+use std::sync::Arc;
+
 use super::model::{Evidence, EvidenceSet, Origin, Subject};
 use crate::footprint::Footprint;
-use crate::priors::Priors;
+use crate::priors::{MatchedBy, Priors};
 use crate::stats::smooth_against;
 
 /// Add the priors-table evidence for every matched item.
 pub fn from_table(footprint: &Footprint, priors: &Priors, set: &mut EvidenceSet) {
+    // Match first, so that the evidence list is made at its final size (it is the
+    // largest thing a scan holds when a large reference table matches most items).
+    let matched: Vec<(usize, usize, MatchedBy)> = footprint
+        .items
+        .iter()
+        .enumerate()
+        .filter_map(|(i, item)| priors.find(item).map(|(ri, by)| (i, ri, by)))
+        .collect();
+    set.matched_items += matched.len();
+    let pieces: usize = matched
+        .iter()
+        .map(|&(_, ri, _)| priors.item(ri).attributes().count())
+        .sum();
+    set.list.reserve_exact(pieces);
     let mut counts = Vec::new();
-    for (i, item) in footprint.items.iter().enumerate() {
-        let Some((ri, matched_by)) = priors.find(item) else {
-            continue;
-        };
-        set.matched_items += 1;
+    for (i, ri, matched_by) in matched {
         let reference = priors.item(ri);
+        let name: Arc<str> = reference.name().into();
         for ai in reference.attributes() {
             reference.counts_into(ai, &mut counts);
             let attr = &priors.attributes[ai];
@@ -39,7 +52,7 @@ pub fn from_table(footprint: &Footprint, priors: &Priors, set: &mut EvidenceSet)
                 support,
                 Origin::Table {
                     matched_by,
-                    reference: reference.name().to_string(),
+                    reference: name.clone(),
                 },
             ));
         }
