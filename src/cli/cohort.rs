@@ -4,7 +4,7 @@
 use std::io::IsTerminal;
 
 use anyhow::{Context, Result};
-use indicatif::{ProgressBar, ProgressStyle};
+use indicatif::{ProgressBar, ProgressDrawTarget, ProgressStyle};
 use telltale::cohort::{Cohort, Schema, load_cohort};
 use telltale::limits::Limits;
 use telltale::priors::PriorsFile;
@@ -27,12 +27,13 @@ pub fn bar(total: usize, what: &str) -> ProgressBar {
 }
 
 /// A progress bar counting bytes on standard error when it is a terminal; hidden
-/// otherwise (scripts and redirected output stay silent).
+/// otherwise (scripts and redirected output stay silent). It stays out of sight until
+/// the first [`byte_progress`] with a known total, so it never shows "0 B/0 B".
 pub fn byte_bar(what: &str) -> ProgressBar {
     if !std::io::stderr().is_terminal() {
         return ProgressBar::hidden();
     }
-    let pb = ProgressBar::new(0);
+    let pb = ProgressBar::with_draw_target(Some(0), ProgressDrawTarget::hidden());
     if let Ok(style) =
         ProgressStyle::with_template("{msg:>12} [{bar:40}] {bytes}/{total_bytes} ({eta} left)")
     {
@@ -40,6 +41,19 @@ pub fn byte_bar(what: &str) -> ProgressBar {
     }
     pb.set_message(what.to_string());
     pb
+}
+
+/// Move a [`byte_bar`] to `done` of `total` bytes, drawing it from the first call
+/// with a total (on a terminal).
+pub fn byte_progress(pb: &ProgressBar, done: u64, total: u64) {
+    if total == 0 {
+        return;
+    }
+    if pb.length() == Some(0) && std::io::stderr().is_terminal() {
+        pb.set_draw_target(ProgressDrawTarget::stderr());
+    }
+    pb.set_length(total);
+    pb.set_position(done);
 }
 
 pub fn schema(args: &CohortArgs) -> Result<Schema> {

@@ -49,8 +49,7 @@ pub fn run(args: &ScanArgs) -> Result<ExitCode> {
     let input = input(args.archive.clone(), &args.input)?;
     let pb = super::cohort::byte_bar("importing");
     let scan = Scan::run_with_progress(&input, &priors, &mut |done, total| {
-        pb.set_length(total);
-        pb.set_position(done);
+        super::cohort::byte_progress(&pb, done, total)
     });
     pb.finish_and_clear();
     let scan = scan?;

@@ -64,7 +64,7 @@ pub fn write_html_section(r: &PlanReport, out: &mut dyn Write) -> io::Result<()>
         }
         writeln!(out, "</tbody></table></div>")?;
     }
-    if let Some(inf) = &r.infeasible {
+    if let Some(inf) = r.infeasible.as_ref().filter(|i| !i.is_empty()) {
         writeln!(out, "<h3>What stands in the way</h3>\n<ul>")?;
         for b in &inf.blocked {
             let kept: Vec<String> = b
@@ -208,5 +208,41 @@ mod tests {
             assert!(!html.contains(label.as_str()), "the true value was named");
         }
         assert!(html.contains("your value"));
+    }
+
+    #[test]
+    fn no_obstacle_heading_when_none_was_named() {
+        // A search stopped by its time limit names no obstacle: no empty heading.
+        let priors = load_priors(None).unwrap();
+        let input = ScanInput {
+            archive: concat!(env!("CARGO_MANIFEST_DIR"), "/demo-exports/reporter").into(),
+            ..ScanInput::default()
+        };
+        let scan = Scan::run(&input, &priors).unwrap();
+        let req = PlanRequest::for_footprint(&priors, &scan.footprint);
+        let o = solve(&scan.exposure, &req).unwrap();
+        let mut r = build_report(&scan.archive_name, &scan.footprint, &priors, &o);
+        r.infeasible = Some(crate::plan::report::InfeasibleReport {
+            blocked: Vec::new(),
+            conflicts: Vec::new(),
+        });
+        let mut html = Vec::new();
+        write_html_section(&r, &mut html).unwrap();
+        let mut text = Vec::new();
+        crate::plan::write_text(&r, &mut text).unwrap();
+        let mut md = Vec::new();
+        crate::plan::write_markdown(&r, &mut md).unwrap();
+        let first = &r.plan.as_ref().expect("the demo has a plan").items[0].name;
+        for out in [html, text, md] {
+            let out = String::from_utf8(out).unwrap();
+            assert!(
+                out.contains(&escape(first)) || out.contains(first.as_str()),
+                "{out}"
+            );
+            assert!(
+                !out.to_lowercase().contains("what stands in the way"),
+                "{out}"
+            );
+        }
     }
 }

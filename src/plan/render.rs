@@ -141,7 +141,7 @@ pub fn write_text(r: &PlanReport, out: &mut dyn Write) -> io::Result<()> {
             writeln!(out, "{}", wrap_words(&line, 76, "  "))?;
         }
     }
-    if let Some(inf) = &r.infeasible {
+    if let Some(inf) = r.infeasible.as_ref().filter(|i| !i.is_empty()) {
         writeln!(out, "\nWHAT STANDS IN THE WAY")?;
         for b in &inf.blocked {
             let mut line = format!(
@@ -312,7 +312,7 @@ fn write_markdown_body(r: &PlanReport, h: &str, out: &mut dyn Write) -> io::Resu
             )?;
         }
     }
-    if let Some(inf) = &r.infeasible {
+    if let Some(inf) = r.infeasible.as_ref().filter(|i| !i.is_empty()) {
         writeln!(out, "\n{h} What stands in the way\n")?;
         for b in &inf.blocked {
             let kept: Vec<String> = b.kept_items.iter().take(5).map(|(n, _)| esc(n)).collect();

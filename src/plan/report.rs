@@ -143,6 +143,13 @@ pub struct InfeasibleReport {
     pub conflicts: Vec<(String, String)>,
 }
 
+impl InfeasibleReport {
+    /// Nothing to say (the search ran out of time before it could name an obstacle).
+    pub fn is_empty(&self) -> bool {
+        self.blocked.is_empty() && self.conflicts.is_empty()
+    }
+}
+
 #[derive(Debug, Clone, Serialize)]
 pub struct SearchReport {
     pub candidates: usize,

@@ -285,7 +285,7 @@ fn detail_lines(r: &PlanReport, w: usize, theme: Theme) -> Vec<Line<'static>> {
         }
         lines.push(Line::raw(""));
     }
-    if let Some(inf) = &r.infeasible {
+    if let Some(inf) = r.infeasible.as_ref().filter(|i| !i.is_empty()) {
         para(&mut lines, "What stands in the way:", theme.title());
         for b in &inf.blocked {
             let mut t = format!(
