@@ -90,6 +90,8 @@ fn priors_phases(path: &std::path::Path, repeat: usize) -> Option<Priors> {
 }
 
 fn main() {
+    // As the binary does, so the peaks here are the CLI's.
+    telltale::resident::release_large_blocks();
     let priors_path = std::env::var_os("TELLTALE_LARGE_PRIORS").map(PathBuf::from);
     let repeat: usize = std::env::var("TELLTALE_REPEAT")
         .ok()

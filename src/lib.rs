@@ -28,6 +28,7 @@ pub mod priors;
 pub mod reading;
 pub mod records;
 pub mod report;
+pub mod resident;
 pub mod safe_write;
 pub mod scan;
 pub mod stats;
