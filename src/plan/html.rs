@@ -174,16 +174,23 @@ fn write_attribute(a: &AttrReport, out: &mut dyn Write) -> io::Result<()> {
 mod tests {
     use super::*;
     use crate::plan::{PlanRequest, build_report, solve};
+    use crate::priors::Priors;
     use crate::scan::{Scan, ScanInput, load_priors};
 
-    #[test]
-    fn the_section_names_the_plan_and_never_the_true_value() {
+    /// The reporter demo persona, scanned with the bundled priors.
+    fn reporter() -> (Priors, Scan) {
         let priors = load_priors(None).unwrap();
         let input = ScanInput {
             archive: concat!(env!("CARGO_MANIFEST_DIR"), "/demo-exports/reporter").into(),
             ..ScanInput::default()
         };
         let scan = Scan::run(&input, &priors).unwrap();
+        (priors, scan)
+    }
+
+    #[test]
+    fn the_section_names_the_plan_and_never_the_true_value() {
+        let (priors, scan) = reporter();
         let mut req = PlanRequest::for_footprint(&priors, &scan.footprint);
         // A value label that appears nowhere else on the page would leak if named.
         let religion = priors.attributes.len() - 1;
@@ -213,12 +220,7 @@ mod tests {
     #[test]
     fn no_obstacle_heading_when_none_was_named() {
         // A search stopped by its time limit names no obstacle: no empty heading.
-        let priors = load_priors(None).unwrap();
-        let input = ScanInput {
-            archive: concat!(env!("CARGO_MANIFEST_DIR"), "/demo-exports/reporter").into(),
-            ..ScanInput::default()
-        };
-        let scan = Scan::run(&input, &priors).unwrap();
+        let (priors, scan) = reporter();
         let req = PlanRequest::for_footprint(&priors, &scan.footprint);
         let o = solve(&scan.exposure, &req).unwrap();
         let mut r = build_report(&scan.archive_name, &scan.footprint, &priors, &o);
