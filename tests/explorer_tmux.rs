@@ -127,19 +127,31 @@ fn first_probability(screen: &str) -> String {
         .to_string()
 }
 
-#[test]
-fn explorer_in_a_real_terminal() {
+/// A tmux driver on a server of its own (socket `SOCKET-PID`), or `None` after a
+/// SKIPPED line naming the test when tmux is not installed.
+fn driver(test: &str, what: &str, socket: &str) -> Option<Tmux> {
     if !tmux_available() {
         println!(
-            "SKIPPED explorer_in_a_real_terminal: tmux is not installed, so the explorer was not driven in a real terminal"
+            "SKIPPED {test}: tmux is not installed, so {what} was not driven in a real terminal"
         );
-        return;
+        return None;
     }
-    let data = tempfile::tempdir().unwrap();
-    let mut t = Tmux {
-        socket: format!("telltale-test-{}", std::process::id()),
+    Some(Tmux {
+        socket: format!("{socket}-{}", std::process::id()),
         target: String::new(),
+    })
+}
+
+#[test]
+fn explorer_in_a_real_terminal() {
+    let Some(mut t) = driver(
+        "explorer_in_a_real_terminal",
+        "the explorer",
+        "telltale-test",
+    ) else {
+        return;
     };
+    let data = tempfile::tempdir().unwrap();
     t.start("first", data.path());
     // First run: the cautions come first.
     t.wait_for("the cautions", |s| s.contains("Before you act on this"));
@@ -250,17 +262,14 @@ fn explorer_in_a_real_terminal() {
 
 #[test]
 fn loading_screen_keys_and_load_errors() {
-    if !tmux_available() {
-        println!(
-            "SKIPPED loading_screen_keys_and_load_errors: tmux is not installed, so the loading screen was not driven in a real terminal"
-        );
+    let Some(mut t) = driver(
+        "loading_screen_keys_and_load_errors",
+        "the loading screen",
+        "telltale-load",
+    ) else {
         return;
-    }
-    let data = tempfile::tempdir().unwrap();
-    let mut t = Tmux {
-        socket: format!("telltale-load-{}", std::process::id()),
-        target: String::new(),
     };
+    let data = tempfile::tempdir().unwrap();
     // A slow load: the loading screen names the first step and the keys that stop.
     for (name, key) in [("esc", "Escape"), ("ctrlc", "C-c"), ("q", "q")] {
         t.start_with(name, data.path(), "TELLTALE_TEST_SLOW_LOAD=1");

@@ -364,22 +364,20 @@ fn a_damaged_cache_file_falls_back_to_the_json() {
     let a = Priors::parse(&text, "t").expect("parse");
     let mut bytes = encode(&a, &hash_of(&text));
     let target = cache_path(&cache, &hash_of(&text));
-    std::fs::write(&target, &bytes).expect("write cache");
-    let b = Priors::load_cached(&json, Some(&cache)).expect("load");
-    assert!(
-        b.cache_notes[0].starts_with("read from the cache"),
-        "{:?}",
+    // Load through a cache holding `bytes`: the priors are `a`; returns the notes.
+    let load_with = |bytes: &[u8]| {
+        std::fs::write(&target, bytes).expect("write cache");
+        let b = Priors::load_cached(&json, Some(&cache)).expect("load");
+        assert_same(&a, &b, &probes(&a));
         b.cache_notes
-    );
-    assert_same(&a, &b, &probes(&a));
+    };
+    let notes = load_with(&bytes);
+    assert!(notes[0].starts_with("read from the cache"), "{notes:?}");
     let last = bytes.len() - 1;
     bytes[last] ^= 1;
-    std::fs::write(&target, &bytes).expect("write cache");
-    let c = Priors::load_cached(&json, Some(&cache)).expect("load");
+    let notes = load_with(&bytes);
     assert!(
-        c.cache_notes[0].contains("damaged: its checksum does not match"),
-        "{:?}",
-        c.cache_notes
+        notes[0].contains("damaged: its checksum does not match"),
+        "{notes:?}"
     );
-    assert_same(&a, &c, &probes(&a));
 }
