@@ -190,6 +190,9 @@ impl Gazetteer {
             .filter(|l| !l.is_empty())
             .flat_map(tokens)
             .collect();
+        g.index.shrink_to_fit();
+        g.cities.shrink_to_fit();
+        g.region_codes.shrink_to_fit();
         Ok(g)
     }
 

@@ -7,6 +7,7 @@
 mod bundled;
 mod error;
 mod gazetteer;
+mod keys;
 mod life_stages;
 mod phrase;
 mod special;

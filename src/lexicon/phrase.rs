@@ -8,7 +8,9 @@
 //! token. Among overlapping matches the longest wins, so "new york city" is not also
 //! read as "york".
 
-use foldhash::{HashMap, HashMapExt, HashSet, HashSetExt};
+use foldhash::{HashMap, HashMapExt};
+
+use super::keys::KeyTable;
 
 use crate::text::name_key;
 
@@ -153,7 +155,10 @@ pub struct Hit<'a, T> {
 /// Patterns with values attached, indexed for matching names.
 #[derive(Debug, Clone)]
 pub struct PhraseIndex<T> {
-    exact: HashMap<String, Vec<T>>,
+    /// Plain phrases by key, with the proper prefixes of the keys, whole tokens at a
+    /// time ("new", "new york" for "new york city"): a run of tokens is extended only
+    /// while it can still become a key.
+    exact: KeyTable<T>,
     other: Vec<(Pattern, Vec<T>)>,
     /// Positions in `other` of the patterns whose first part is a given word, so a
     /// name is tried only against patterns that can start at each token.
@@ -162,10 +167,6 @@ pub struct PhraseIndex<T> {
     other_by_prefix: HashMap<String, Vec<usize>>,
     /// Positions in `other` of the patterns that start with a year slot.
     other_year: Vec<usize>,
-    /// The proper prefixes of the exact keys, whole tokens at a time ("new", "new
-    /// york" for "new york city"): a run of tokens is extended only while it can
-    /// still become a key.
-    prefixes: HashSet<String>,
     max_tokens: usize,
     /// Longest key (in characters) among keys made of unspaced script.
     max_unspaced_chars: usize,
@@ -174,12 +175,11 @@ pub struct PhraseIndex<T> {
 impl<T> Default for PhraseIndex<T> {
     fn default() -> Self {
         PhraseIndex {
-            exact: HashMap::new(),
+            exact: KeyTable::default(),
             other: Vec::new(),
             other_by_word: HashMap::new(),
             other_by_prefix: HashMap::new(),
             other_year: Vec::new(),
-            prefixes: HashSet::new(),
             max_tokens: 0,
             max_unspaced_chars: 0,
         }
@@ -208,8 +208,7 @@ impl<T> PhraseIndex<T> {
             if key.chars().any(is_unspaced) {
                 self.max_unspaced_chars = self.max_unspaced_chars.max(key.chars().count());
             }
-            self.note_prefixes(&key);
-            self.exact.entry(key).or_default().push(value);
+            self.exact.insert(&key, value);
         } else if let Some((_, values)) = self.other.iter_mut().find(|(p, _)| p == pattern) {
             values.push(value);
         } else {
@@ -235,22 +234,17 @@ impl<T> PhraseIndex<T> {
         if key.chars().any(is_unspaced) {
             self.max_unspaced_chars = self.max_unspaced_chars.max(key.chars().count());
         }
-        self.note_prefixes(&key);
-        self.exact.entry(key).or_default().push(value);
+        self.exact.insert(&key, value);
     }
 
-    fn note_prefixes(&mut self, key: &str) {
-        for (at, _) in key.match_indices(' ') {
-            let prefix = &key[..at];
-            if !self.prefixes.contains(prefix) {
-                self.prefixes.insert(prefix.to_string());
-            }
-        }
+    /// Release the room kept for growth (after the last insert).
+    pub fn shrink_to_fit(&mut self) {
+        self.exact.shrink_to_fit();
     }
 
     /// Values stored under an exact key (tokens joined by single spaces).
     pub fn get(&self, key: &str) -> &[T] {
-        self.exact.get(key).map(Vec::as_slice).unwrap_or(&[])
+        self.exact.get(key)
     }
 
     /// Every non-overlapping match in a name, longest first, then leftmost; returned in
@@ -272,17 +266,20 @@ impl<T> PhraseIndex<T> {
                     key.push(' ');
                     key.push_str(&toks[start + n - 1]);
                 }
-                if let Some(values) = self.exact.get(&key) {
+                let Some(found) = self.exact.lookup(&key) else {
+                    break;
+                };
+                if !found.values.is_empty() {
                     hits.push(Hit {
                         start,
                         end: start + n,
                         offset: 0,
                         text: key.clone(),
-                        values,
+                        values: found.values,
                         year: None,
                     });
                 }
-                if !self.prefixes.contains(&key) {
+                if !found.prefix {
                     break;
                 }
             }
@@ -347,7 +344,8 @@ impl<T> PhraseIndex<T> {
                 if !sub.chars().any(is_unspaced) {
                     continue;
                 }
-                if let Some(values) = self.exact.get(&sub) {
+                let values = self.exact.get(&sub);
+                if !values.is_empty() {
                     hits.push(Hit {
                         start: index,
                         end: index + 1,

@@ -1,0 +1,216 @@
+//! The exact keys of a phrase index, stored compactly. Every key's text sits in one
+//! string, a hash table holds only key numbers, and a key with one value keeps it
+//! inline, so the bundled gazetteer's ~90,000 names cost a few bytes each instead of
+//! two heap blocks apiece. The proper prefixes of the keys (whole tokens at a time)
+//! live in the same table, marked, so that matching a run of tokens needs one lookup
+//! to learn both whether it is a key and whether it can still grow into one.
+
+use std::hash::BuildHasher;
+
+use foldhash::fast::FixedState;
+use hashbrown::HashTable;
+
+/// The values stored under one key.
+#[derive(Debug, Clone)]
+enum Values<T> {
+    /// A prefix of other keys only.
+    None,
+    One(T),
+    Many(Box<[T]>),
+}
+
+#[derive(Debug, Clone)]
+struct Key<T> {
+    /// Byte span of the key in `KeyTable::text`.
+    start: u32,
+    len: u32,
+    /// The key is a proper prefix (whole tokens) of another key.
+    prefix: bool,
+    values: Values<T>,
+}
+
+/// What a lookup finds.
+#[derive(Debug, Clone, Copy)]
+pub struct Found<'a, T> {
+    /// The values stored under the key (empty when it is only a prefix).
+    pub values: &'a [T],
+    /// The key is the start of a longer key.
+    pub prefix: bool,
+}
+
+/// Keys (tokens joined by single spaces) with their values.
+#[derive(Debug, Clone)]
+pub struct KeyTable<T> {
+    text: String,
+    keys: Vec<Key<T>>,
+    table: HashTable<u32>,
+    hasher: FixedState,
+    /// Keys that carry values (not only prefixes).
+    with_values: usize,
+}
+
+impl<T> Default for KeyTable<T> {
+    fn default() -> Self {
+        KeyTable {
+            text: String::new(),
+            keys: Vec::new(),
+            table: HashTable::new(),
+            // A fixed seed: lookups need no randomness (the keys come from bundled or
+            // user-written lists, not from an adversary choosing collisions).
+            hasher: FixedState::with_seed(0x7e11_7a1e),
+            with_values: 0,
+        }
+    }
+}
+
+impl<T> KeyTable<T> {
+    /// Number of keys that carry values.
+    pub fn len(&self) -> usize {
+        self.with_values
+    }
+
+    fn position(&self, key: &str) -> Option<usize> {
+        let hash = self.hasher.hash_one(key);
+        self.table
+            .find(hash, |&i| {
+                let k = &self.keys[i as usize];
+                self.text[k.start as usize..(k.start + k.len) as usize] == *key
+            })
+            .map(|&i| i as usize)
+    }
+
+    /// The entry for `key`, made empty when missing.
+    fn entry(&mut self, key: &str) -> &mut Key<T> {
+        let at = match self.position(key) {
+            Some(at) => at,
+            None => {
+                let at = self.keys.len();
+                let start = self.text.len();
+                self.text.push_str(key);
+                self.keys.push(Key {
+                    start: start as u32,
+                    len: key.len() as u32,
+                    prefix: false,
+                    values: Values::None,
+                });
+                let (keys, text, hasher) = (&self.keys, &self.text, &self.hasher);
+                let hash = hasher.hash_one(key);
+                self.table.insert_unique(hash, at as u32, |&i| {
+                    let k = &keys[i as usize];
+                    hasher.hash_one(&text[k.start as usize..(k.start + k.len) as usize])
+                });
+                at
+            }
+        };
+        &mut self.keys[at]
+    }
+
+    /// Add a value under a key, and mark the key's proper prefixes.
+    pub fn insert(&mut self, key: &str, value: T) {
+        for (at, _) in key.match_indices(' ') {
+            self.entry(&key[..at]).prefix = true;
+        }
+        let k = self.entry(key);
+        let was_empty = matches!(k.values, Values::None);
+        k.values = match std::mem::replace(&mut k.values, Values::None) {
+            Values::None => Values::One(value),
+            Values::One(first) => Values::Many(Box::new([first, value])),
+            Values::Many(list) => {
+                let mut list = list.into_vec();
+                list.push(value);
+                Values::Many(list.into_boxed_slice())
+            }
+        };
+        if was_empty {
+            self.with_values += 1;
+        }
+    }
+
+    /// The values under a key and whether it is the start of a longer key.
+    pub fn lookup(&self, key: &str) -> Option<Found<'_, T>> {
+        let k = &self.keys[self.position(key)?];
+        let values = match &k.values {
+            Values::None => &[][..],
+            Values::One(v) => std::slice::from_ref(v),
+            Values::Many(list) => &list[..],
+        };
+        Some(Found {
+            values,
+            prefix: k.prefix,
+        })
+    }
+
+    /// The values under a key (empty when there are none).
+    pub fn get(&self, key: &str) -> &[T] {
+        self.lookup(key).map(|f| f.values).unwrap_or(&[])
+    }
+
+    /// Release the room kept for growth (after the last insert).
+    pub fn shrink_to_fit(&mut self) {
+        self.text.shrink_to_fit();
+        self.keys.shrink_to_fit();
+        let (keys, text, hasher) = (&self.keys, &self.text, &self.hasher);
+        self.table.shrink_to_fit(|&i| {
+            let k = &keys[i as usize];
+            hasher.hash_one(&text[k.start as usize..(k.start + k.len) as usize])
+        });
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use std::collections::{BTreeMap, BTreeSet};
+
+    use proptest::prelude::*;
+
+    use super::*;
+
+    #[test]
+    fn keys_values_and_prefixes() {
+        let mut t = KeyTable::default();
+        t.insert("new york city", 1u32);
+        t.insert("york", 2);
+        t.insert("york", 3);
+        t.insert("new york", 4);
+        t.shrink_to_fit();
+        assert_eq!(t.len(), 3);
+        assert_eq!(t.get("york"), &[2, 3]);
+        assert_eq!(t.get("new york city"), &[1]);
+        let new = t.lookup("new").unwrap();
+        assert!(new.prefix && new.values.is_empty());
+        let ny = t.lookup("new york").unwrap();
+        assert!(ny.prefix && ny.values == [4]);
+        assert!(!t.lookup("new york city").unwrap().prefix);
+        assert!(t.lookup("boston").is_none());
+    }
+
+    proptest! {
+        /// The table agrees with a plain map of keys to value lists and a set of
+        /// prefixes built the obvious way (the standard library's BTreeMap/BTreeSet
+        /// as the reference).
+        #[test]
+        fn agrees_with_a_plain_map(
+            entries in prop::collection::vec(("[a-c]{1,2}( [a-c]{1,2}){0,2}", 0u8..5), 0..60),
+            probes in prop::collection::vec("[a-c]{1,2}( [a-c]{1,2}){0,2}", 0..30),
+        ) {
+            let mut table = KeyTable::default();
+            let mut map: BTreeMap<String, Vec<u8>> = BTreeMap::new();
+            let mut prefixes = BTreeSet::new();
+            for (key, value) in &entries {
+                table.insert(key, *value);
+                map.entry(key.clone()).or_default().push(*value);
+                for (at, _) in key.match_indices(' ') {
+                    prefixes.insert(key[..at].to_string());
+                }
+            }
+            table.shrink_to_fit();
+            prop_assert_eq!(table.len(), map.len());
+            for key in probes.iter().chain(map.keys()).chain(prefixes.iter()) {
+                let expected = map.get(key).map(Vec::as_slice).unwrap_or(&[]);
+                prop_assert_eq!(table.get(key), expected);
+                let is_prefix = table.lookup(key).is_some_and(|f| f.prefix);
+                prop_assert_eq!(is_prefix, prefixes.contains(key));
+            }
+        }
+    }
+}
