@@ -23,6 +23,7 @@ pub mod infer;
 pub mod lexicon;
 pub mod limits;
 pub mod mapping;
+mod name_key;
 pub mod plan;
 pub mod priors;
 pub mod reading;

@@ -95,7 +95,21 @@ impl Gazetteer {
     /// Parse the gazetteer file and a common-word list (one word per line, `#`
     /// comments).
     pub fn parse(text: &str, common_words: &str, origin: &str) -> Result<Gazetteer> {
+        Gazetteer::parse_keyed(text, "", common_words, origin)
+    }
+
+    /// As [`Gazetteer::parse`], with the name keys worked out ahead of time: `keys` has
+    /// one line per line of `text`, the keys of its names joined by `|` (as build.rs
+    /// writes them for the bundled file). A line whose count of keys differs from its
+    /// count of names is folded here instead.
+    pub fn parse_keyed(
+        text: &str,
+        keys: &str,
+        common_words: &str,
+        origin: &str,
+    ) -> Result<Gazetteer> {
         let mut g = Gazetteer::default();
+        let mut key_lines = keys.lines();
         let mut region_index = std::collections::HashMap::new();
         let mut country_index = std::collections::HashMap::new();
         let bad = |line: usize, message: String| Error::Line {
@@ -105,6 +119,7 @@ impl Gazetteer {
         };
         for (n, line) in text.lines().enumerate() {
             let line_no = n + 1;
+            let line_keys = key_lines.next().unwrap_or("");
             if let Some(comment) = line.strip_prefix('#') {
                 let c = comment.trim();
                 if c.contains("GeoNames") || c.contains("CC BY") {
@@ -129,7 +144,7 @@ impl Gazetteer {
                         name: name.to_string(),
                         population: population(pop)?,
                     });
-                    g.add_name(name, PlaceRef::Country(i));
+                    g.add_names(&[name], line_keys, PlaceRef::Country(i));
                 }
                 ["R", code, pop, name] => {
                     let i = g.regions.len() as u32;
@@ -140,7 +155,7 @@ impl Gazetteer {
                         name: name.to_string(),
                         population: population(pop)?,
                     });
-                    g.add_name(name, PlaceRef::Region(i));
+                    g.add_names(&[name], line_keys, PlaceRef::Region(i));
                 }
                 ["P", country, region, pop, names] => {
                     let Some(&c) = country_index.get(*country) else {
@@ -157,18 +172,14 @@ impl Gazetteer {
                         Some(r)
                     };
                     let i = g.cities.len() as u32;
-                    let mut all = names.split('|');
-                    let main = all.next().unwrap_or_default();
+                    let all: Vec<&str> = names.split('|').collect();
                     g.cities.push(City {
                         country: c,
                         region,
                         population: population(pop)?,
-                        name: main.to_string(),
+                        name: all[0].to_string(),
                     });
-                    g.add_name(main, PlaceRef::City(i));
-                    for alt in all {
-                        g.add_name(alt, PlaceRef::City(i));
-                    }
+                    g.add_names(&all, line_keys, PlaceRef::City(i));
                 }
                 _ => {
                     return Err(bad(
@@ -196,9 +207,23 @@ impl Gazetteer {
         Ok(g)
     }
 
-    fn add_name(&mut self, name: &str, place: PlaceRef) {
+    /// Index a line's names under their keys, given (`keys`, `|`-separated) or
+    /// worked out here.
+    fn add_names(&mut self, names: &[&str], keys: &str, place: PlaceRef) {
+        let given: Vec<&str> = keys.split('|').collect();
+        if given.len() == names.len() && !keys.is_empty() {
+            for key in given {
+                self.add_key(key, place);
+            }
+        } else {
+            for name in names {
+                self.add_key(&crate::text::name_key(name), place);
+            }
+        }
+    }
+
+    fn add_key(&mut self, key: &str, place: PlaceRef) {
         // A name key is its tokens joined by single spaces already.
-        let key = crate::text::name_key(name);
         let min = if key.is_ascii() {
             MIN_LATIN_NAME_CHARS
         } else {

@@ -226,7 +226,7 @@ impl<T> PhraseIndex<T> {
 
     /// Add a plain phrase given as its key (tokens joined by single spaces), the fast
     /// path for large lists such as the gazetteer.
-    pub fn insert_key(&mut self, key: String, value: T) {
+    pub fn insert_key(&mut self, key: &str, value: T) {
         if key.is_empty() {
             return;
         }
@@ -234,7 +234,7 @@ impl<T> PhraseIndex<T> {
         if key.chars().any(is_unspaced) {
             self.max_unspaced_chars = self.max_unspaced_chars.max(key.chars().count());
         }
-        self.exact.insert(&key, value);
+        self.exact.insert(key, value);
     }
 
     /// Release the room kept for growth (after the last insert).
