@@ -4,7 +4,7 @@
 use std::io::IsTerminal;
 
 use anyhow::{Context, Result};
-use indicatif::{ProgressBar, ProgressDrawTarget, ProgressStyle};
+use indicatif::{HumanDuration, ProgressBar, ProgressDrawTarget, ProgressState, ProgressStyle};
 use telltale::cohort::{Cohort, Schema, load_cohort};
 use telltale::limits::Limits;
 use telltale::priors::PriorsFile;
@@ -18,12 +18,27 @@ pub fn bar(total: usize, what: &str) -> ProgressBar {
         return ProgressBar::hidden();
     }
     let pb = ProgressBar::new(total as u64);
-    if let Ok(style) = ProgressStyle::with_template("{msg:>18} [{bar:40}] {pos}/{len} ({eta} left)")
-    {
-        pb.set_style(style.progress_chars("=> "));
+    if let Ok(style) = ProgressStyle::with_template("{msg:>18} [{bar:40}] {pos}/{len}{left}") {
+        pb.set_style(with_time_left(style));
     }
     pb.set_message(what.to_string());
     pb
+}
+
+/// Seconds of progress before the time left is shown: the first steps' rate says
+/// little (one slow entry read first made the estimate "5h").
+const SETTLE_SECS: u64 = 2;
+
+/// The bar's fill, and `{left}`: " (… left)" once the rate has had time to settle.
+fn with_time_left(style: ProgressStyle) -> ProgressStyle {
+    style.progress_chars("=> ").with_key(
+        "left",
+        |state: &ProgressState, w: &mut dyn std::fmt::Write| {
+            if state.elapsed().as_secs() >= SETTLE_SECS && state.pos() > 0 {
+                let _ = write!(w, " ({} left)", HumanDuration(state.eta()));
+            }
+        },
+    )
 }
 
 /// A progress bar counting bytes on standard error when it is a terminal; hidden
@@ -35,9 +50,9 @@ pub fn byte_bar(what: &str) -> ProgressBar {
     }
     let pb = ProgressBar::with_draw_target(Some(0), ProgressDrawTarget::hidden());
     if let Ok(style) =
-        ProgressStyle::with_template("{msg:>12} [{bar:40}] {bytes}/{total_bytes} ({eta} left)")
+        ProgressStyle::with_template("{msg:>12} [{bar:40}] {bytes}/{total_bytes}{left}")
     {
-        pb.set_style(style.progress_chars("=> "));
+        pb.set_style(with_time_left(style));
     }
     pb.set_message(what.to_string());
     pb
