@@ -14,7 +14,7 @@ use std::time::Duration;
 use criterion::{Criterion, criterion_group, criterion_main};
 use rand::{Rng, SeedableRng};
 use rand_chacha::ChaCha8Rng;
-use telltale::evidence::{Evidence, EvidenceSet, Origin, Sources, Subject};
+use telltale::evidence::{Evidence, EvidenceSet, Figures, Origin, Sources, Subject};
 use telltale::footprint::{Footprint, Item, ItemKind};
 use telltale::infer::{AttrModel, Exposure};
 use telltale::plan::{Budget, Method, PlanRequest, Status, solve};
@@ -93,16 +93,18 @@ fn random_exposure(priors: &Priors, n: usize, seed: u64) -> Exposure {
                 let v = rng.random_range(0..k);
                 l[v] += rng.random_range(0.05..0.4);
             }
-            set.push(Evidence {
-                subject: Subject::Item(i),
-                attribute: ai,
-                log_lr: l.into(),
-                distribution: a.base_rates.clone().into(),
-                homogeneity: 0.0,
-                info_bits: 0.0,
-                support: 100.0,
-                origin: Origin::Mark,
-            });
+            set.push(Evidence::new(
+                Subject::Item(i),
+                ai,
+                Figures {
+                    log_lr: &l,
+                    distribution: &a.base_rates,
+                    homogeneity: 0.0,
+                    info_bits: 0.0,
+                    support: 100.0,
+                },
+                Origin::Mark,
+            ));
         }
     }
     let models = priors

@@ -96,7 +96,7 @@ impl Exposure {
         let n_subjects = evidence.n_items + 1;
         let mut by_subject = vec![Vec::new(); n_subjects];
         for (i, e) in evidence.list.iter().enumerate() {
-            by_subject[slot(e.subject, evidence.n_items)].push(i);
+            by_subject[slot(e.subject(), evidence.n_items)].push(i);
         }
         let mut x = Exposure {
             sums: models.iter().map(|m| vec![0.0; m.log_base.len()]).collect(),
@@ -127,13 +127,16 @@ impl Exposure {
             }
             for &ei in list {
                 let e = &self.evidence.list[ei];
-                for (s, l) in self.sums[e.attribute].iter_mut().zip(e.log_lr.iter()) {
+                for (s, l) in self.sums[e.attribute()].iter_mut().zip(e.log_lr().iter()) {
                     *s += l;
                 }
-                for (n, l) in self.pointing[e.attribute].iter_mut().zip(e.log_lr.iter()) {
+                for (n, l) in self.pointing[e.attribute()]
+                    .iter_mut()
+                    .zip(e.log_lr().iter())
+                {
                     *n += usize::from(*l > 0.0);
                 }
-                self.feeding[e.attribute] += 1;
+                self.feeding[e.attribute()] += 1;
             }
         }
     }
@@ -170,10 +173,13 @@ impl Exposure {
         let sign = if hidden { -1.0 } else { 1.0 };
         for &ei in &self.by_subject[s] {
             let e = &self.evidence.list[ei];
-            for (sum, l) in self.sums[e.attribute].iter_mut().zip(e.log_lr.iter()) {
+            for (sum, l) in self.sums[e.attribute()].iter_mut().zip(e.log_lr().iter()) {
                 *sum += sign * l;
             }
-            for (n, l) in self.pointing[e.attribute].iter_mut().zip(e.log_lr.iter()) {
+            for (n, l) in self.pointing[e.attribute()]
+                .iter_mut()
+                .zip(e.log_lr().iter())
+            {
                 if *l > 0.0 {
                     if hidden {
                         *n -= 1;
@@ -183,9 +189,9 @@ impl Exposure {
                 }
             }
             if hidden {
-                self.feeding[e.attribute] -= 1;
+                self.feeding[e.attribute()] -= 1;
             } else {
-                self.feeding[e.attribute] += 1;
+                self.feeding[e.attribute()] += 1;
             }
         }
         true
@@ -230,8 +236,8 @@ impl Exposure {
         let mut sum = self.sums[a].clone();
         for &ei in &self.by_subject[s] {
             let e = &self.evidence.list[ei];
-            if e.attribute == a {
-                for (x, l) in sum.iter_mut().zip(e.log_lr.iter()) {
+            if e.attribute() == a {
+                for (x, l) in sum.iter_mut().zip(e.log_lr().iter()) {
                     *x += sign * l;
                 }
             }
@@ -249,13 +255,13 @@ impl Exposure {
             .list
             .iter()
             .enumerate()
-            .filter(|(_, e)| e.attribute == a && !self.is_hidden(e.subject))
+            .filter(|(_, e)| e.attribute() == a && !self.is_hidden(e.subject()))
             .map(|(i, e)| {
-                let without = self.posterior_toggled(a, e.subject);
+                let without = self.posterior_toggled(a, e.subject());
                 Contribution {
                     evidence: i,
-                    subject: e.subject,
-                    toward_best_bits: w * e.log_lr[post.best] / std::f64::consts::LN_2,
+                    subject: e.subject(),
+                    toward_best_bits: w * e.log_lr()[post.best] / std::f64::consts::LN_2,
                     loo_drop: post.probability - without.probs[post.best],
                 }
             })
@@ -378,7 +384,7 @@ mod tests {
                 .evidence()
                 .list
                 .iter()
-                .filter(|e| !x.is_hidden(e.subject) && e.log_lr[v] > 0.0)
+                .filter(|e| !x.is_hidden(e.subject()) && e.log_lr()[v] > 0.0)
                 .count();
             assert_eq!(n, direct);
         }

@@ -57,7 +57,7 @@ fn lexicons_only_speak_where_the_table_is_silent() {
         .list
         .iter()
         .filter(|e| matches!(e.origin, Origin::Table { .. }))
-        .map(|e| (e.subject, e.attribute))
+        .map(|e| (e.subject(), e.attribute()))
         .collect();
     let lexicon: Vec<_> = ev
         .list
@@ -69,7 +69,7 @@ fn lexicons_only_speak_where_the_table_is_silent() {
         "the unlisted items carry lexicon evidence"
     );
     for e in lexicon {
-        assert!(!table.contains(&(e.subject, e.attribute)), "{e:?}");
+        assert!(!table.contains(&(e.subject(), e.attribute())), "{e:?}");
     }
     // Table only: nothing else.
     let (t, _) = scan("reporter", Sources::table_only());

@@ -4,7 +4,7 @@
 
 #![allow(dead_code)]
 
-use telltale::evidence::{Evidence, EvidenceSet, Origin, Subject};
+use telltale::evidence::{Evidence, EvidenceSet, Figures, Origin, Subject};
 use telltale::infer::{AttrModel, Exposure};
 use telltale::priors::Calibration;
 
@@ -29,16 +29,18 @@ pub fn exposure(n: usize, attrs: &[Attr]) -> Exposure {
     let mut set = EvidenceSet::new(n);
     for (ai, a) in attrs.iter().enumerate() {
         for (i, l) in a.log_lr.iter().enumerate() {
-            set.push(Evidence {
-                subject: Subject::Item(i),
-                attribute: ai,
-                log_lr: l.clone().into(),
-                distribution: a.base.clone().into(),
-                homogeneity: 0.0,
-                info_bits: 0.0,
-                support: 1.0,
-                origin: Origin::Mark,
-            });
+            set.push(Evidence::new(
+                Subject::Item(i),
+                ai,
+                Figures {
+                    log_lr: l,
+                    distribution: &a.base,
+                    homogeneity: 0.0,
+                    info_bits: 0.0,
+                    support: 1.0,
+                },
+                Origin::Mark,
+            ));
         }
     }
     Exposure::with_models(models, set)

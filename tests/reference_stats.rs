@@ -82,7 +82,7 @@ fn bits_of(counts: &[f64], mu: &[f64], alpha: f64, k: f64) -> (f64, f64) {
         counts.iter().sum(),
         Origin::Mark,
     );
-    (e.homogeneity, e.info_bits)
+    (e.homogeneity(), e.info_bits())
 }
 
 proptest! {

@@ -160,8 +160,8 @@ fn item_lrs(schema: &Schema, priors: &Priors) -> Vec<Vec<Option<Vec<f64>>>> {
     let set = evidence::gather(&footprint, priors, &evidence::Sources::table_only());
     let mut out = vec![vec![None; priors.attributes.len()]; schema.n_items()];
     for e in set.list {
-        if let Subject::Item(i) = e.subject {
-            out[i][e.attribute] = Some(e.log_lr.to_vec());
+        if let Subject::Item(i) = e.subject() {
+            out[i][e.attribute()] = Some(e.log_lr().to_vec());
         }
     }
     out

@@ -116,10 +116,10 @@ pub(crate) fn vocabulary_item(
                 dist,
                 &attr.base_rates,
                 1.0,
-                Origin::Lexicon {
-                    rule: SourceKind::Vocabulary.id().into(),
-                    detail: format!("'{}' → {} (rule of thumb)", m.text, leans.join(", ")).into(),
-                },
+                Origin::lexicon(
+                    SourceKind::Vocabulary.id(),
+                    format!("'{}' → {} (rule of thumb)", m.text, leans.join(", ")),
+                ),
             ));
         }
     }

@@ -55,11 +55,11 @@ fn gather_on(
     let n_attrs = priors.attributes.len();
     let mut table = vec![false; n_items * n_attrs];
     for e in &set.list {
-        if let Subject::Item(i) = e.subject
+        if let Subject::Item(i) = e.subject()
             && i < n_items
-            && e.attribute < n_attrs
+            && e.attribute() < n_attrs
         {
-            table[i * n_attrs + e.attribute] = true;
+            table[i * n_attrs + e.attribute()] = true;
         }
     }
     let gazetteer = sources.places.as_ref().map(Lexicon::get);

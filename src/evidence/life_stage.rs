@@ -253,10 +253,10 @@ impl<'a> LifeStageSource<'a> {
             dist,
             &attr.base_rates,
             1.0,
-            Origin::Lexicon {
-                rule: format!("{}: {}", SourceKind::LifeStages.id(), m.rule.id).into(),
-                detail: detail.into(),
-            },
+            Origin::lexicon(
+                format!("{}: {}", SourceKind::LifeStages.id(), m.rule.id),
+                detail,
+            ),
         ));
     }
 }

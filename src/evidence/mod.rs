@@ -19,7 +19,9 @@ pub use gather::gather;
 pub use life_stage::{
     AgeBands, StageTime, age_bands, band_shares, newest_date, parse_age_range, year_of,
 };
-pub use model::{Evidence, EvidenceSet, FriendStats, Origin, SpecialFlag, Subject};
+pub use model::{
+    Evidence, EvidenceSet, Figures, FriendStats, LexiconRule, Origin, SpecialFlag, Subject,
+};
 pub use places::{
     LOCALITY_SHARE, LocationValues, PlaceCode, location_attributes, place_likelihoods, value_code,
 };

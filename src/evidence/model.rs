@@ -27,22 +27,37 @@ pub enum Origin {
         /// attribute).
         reference: Arc<str>,
     },
-    /// A lexicon rule (place names, life-stage dates, vocabulary).
-    /// The rule and the description are shared between the many items that match
-    /// the same way.
-    Lexicon { rule: Arc<str>, detail: Arc<str> },
+    /// A lexicon rule (place names, life-stage dates, vocabulary). Shared between the
+    /// many items that match the same way; one pointer, so that every `Origin` (and
+    /// every piece of evidence) stays small.
+    Lexicon(Arc<LexiconRule>),
     /// Friends whose attributes are known (weighted-vote relational neighbour).
     Friends { known: usize, total: usize },
     /// The user's own statement.
     Mark,
 }
 
+/// The lexicon rule behind a piece of evidence, and what it matched.
+#[derive(Debug, Clone, PartialEq, Eq, Serialize)]
+pub struct LexiconRule {
+    pub rule: String,
+    pub detail: String,
+}
+
 impl Origin {
+    /// Evidence from a lexicon rule.
+    pub fn lexicon(rule: impl Into<String>, detail: impl Into<String>) -> Origin {
+        Origin::Lexicon(Arc::new(LexiconRule {
+            rule: rule.into(),
+            detail: detail.into(),
+        }))
+    }
+
     /// Short name for tables and JSON: priors, lexicon, friends, mark.
     pub fn kind(&self) -> &'static str {
         match self {
             Origin::Table { .. } => "priors",
-            Origin::Lexicon { .. } => "lexicon",
+            Origin::Lexicon(_) => "lexicon",
             Origin::Friends { .. } => "friends",
             Origin::Mark => "mark",
         }
@@ -58,7 +73,7 @@ impl Origin {
                 "reference table, matched by {} to '{reference}'",
                 matched_by.as_str()
             ),
-            Origin::Lexicon { rule, detail } => format!("{rule}: {detail}"),
+            Origin::Lexicon(l) => format!("{}: {}", l.rule, l.detail),
             Origin::Friends { known, total } => {
                 format!("friends: {known} of {total} with this attribute known")
             }
@@ -67,27 +82,59 @@ impl Origin {
     }
 }
 
-/// One subject's evidence about one attribute.
-#[derive(Debug, Clone, PartialEq, Serialize)]
-pub struct Evidence {
-    pub subject: Subject,
-    /// Index into the priors' attributes.
-    pub attribute: usize,
-    /// Natural-log likelihood ratio per value, `ln(p(v)/μ(v))` (shared between
-    /// items whose evidence is the same, such as names mentioning the same place).
-    pub log_lr: Arc<[f64]>,
-    /// The implied member distribution `p(v)`.
-    pub distribution: Arc<[f64]>,
+/// The numbers of one piece of evidence, as given to [`Evidence::new`].
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Figures<'a> {
+    /// Natural-log likelihood ratio per value, `ln(p(v)/μ(v))`.
+    pub log_lr: &'a [f64],
+    /// The implied member distribution `p(v)` (same length as `log_lr`).
+    pub distribution: &'a [f64],
     /// `1 − H(p)/log₂|V|`.
     pub homogeneity: f64,
-    /// `KL(p ‖ μ)` in bits: how far the members are from everyone's memberships.
+    /// `KL(p ‖ μ)` in bits.
     pub info_bits: f64,
     /// Members (or equivalent observations) behind the estimate.
     pub support: f64,
+}
+
+/// The subject stored in 32 bits: an item index, or `u32::MAX` for the friend list.
+const FRIEND_LIST: u32 = u32::MAX;
+
+/// One subject's evidence about one attribute.
+///
+/// Kept compact because a large reference table gives several hundred thousand of
+/// them: every number lives in one shared allocation (`[log_lr; n]`,
+/// `[distribution; n]`, homogeneity, information, support), so evidence that is the
+/// same for many items (names mentioning the same place) shares it, and the subject
+/// and attribute are 32-bit indices. Item indices fit: an item record takes more than
+/// 64 bytes, so 2³² − 1 of them could not be held in memory in the first place.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Evidence {
+    numbers: Arc<[f64]>,
     pub origin: Origin,
+    subject: u32,
+    attribute: u32,
 }
 
 impl Evidence {
+    /// Evidence from its numbers (`log_lr` and `distribution` of the same length).
+    pub fn new(subject: Subject, attribute: usize, figures: Figures<'_>, origin: Origin) -> Self {
+        debug_assert_eq!(figures.log_lr.len(), figures.distribution.len());
+        let numbers: Arc<[f64]> = figures
+            .log_lr
+            .iter()
+            .chain(figures.distribution)
+            .copied()
+            .chain([figures.homogeneity, figures.info_bits, figures.support])
+            .collect();
+        Evidence {
+            numbers,
+            origin,
+            subject: pack_subject(subject),
+            attribute: attribute as u32,
+        }
+    }
+
     /// Evidence from a member distribution `p` against a reference distribution (the
     /// membership rates μ for table items).
     pub fn from_distribution(
@@ -98,34 +145,114 @@ impl Evidence {
         support: f64,
         origin: Origin,
     ) -> Evidence {
-        let log_lr = distribution
+        let log_lr: Vec<f64> = distribution
             .iter()
             .zip(base)
             .map(|(&p, &b)| (p.max(f64::MIN_POSITIVE) / b).ln())
             .collect();
-        Evidence {
-            subject,
-            attribute,
-            log_lr,
+        let figures = Figures {
+            log_lr: &log_lr,
+            distribution: &distribution,
             homogeneity: homogeneity(&distribution),
             info_bits: kl_bits(&distribution, base),
-            distribution: distribution.into(),
             support,
-            origin,
-        }
+        };
+        Evidence::new(subject, attribute, figures, origin)
     }
 
     /// The same evidence about another subject, sharing its numbers and description.
     pub fn about(&self, subject: Subject) -> Evidence {
         Evidence {
-            subject,
+            subject: pack_subject(subject),
             ..self.clone()
         }
     }
 
+    /// Evidence with the same numbers about another subject, from another origin.
+    pub fn sharing(&self, subject: Subject, origin: Origin) -> Evidence {
+        Evidence {
+            numbers: Arc::clone(&self.numbers),
+            origin,
+            subject: pack_subject(subject),
+            attribute: self.attribute,
+        }
+    }
+
+    /// What the evidence is about.
+    pub fn subject(&self) -> Subject {
+        if self.subject == FRIEND_LIST {
+            Subject::FriendList
+        } else {
+            Subject::Item(self.subject as usize)
+        }
+    }
+
+    /// Index into the priors' attributes.
+    pub fn attribute(&self) -> usize {
+        self.attribute as usize
+    }
+
+    /// Number of values of the attribute.
+    fn n_values(&self) -> usize {
+        (self.numbers.len() - 3) / 2
+    }
+
+    /// Natural-log likelihood ratio per value, `ln(p(v)/μ(v))`.
+    pub fn log_lr(&self) -> &[f64] {
+        &self.numbers[..self.n_values()]
+    }
+
+    /// The implied member distribution `p(v)`.
+    pub fn distribution(&self) -> &[f64] {
+        let n = self.n_values();
+        &self.numbers[n..2 * n]
+    }
+
+    /// `1 − H(p)/log₂|V|`.
+    pub fn homogeneity(&self) -> f64 {
+        self.numbers[self.numbers.len() - 3]
+    }
+
+    /// `KL(p ‖ μ)` in bits: how far the members are from everyone's memberships.
+    pub fn info_bits(&self) -> f64 {
+        self.numbers[self.numbers.len() - 2]
+    }
+
+    /// Members (or equivalent observations) behind the estimate.
+    pub fn support(&self) -> f64 {
+        self.numbers[self.numbers.len() - 1]
+    }
+
     /// The value this evidence points to most (highest likelihood ratio).
     pub fn leaning(&self) -> usize {
-        crate::stats::argmax(&self.log_lr).0
+        crate::stats::argmax(self.log_lr()).0
+    }
+}
+
+fn pack_subject(subject: Subject) -> u32 {
+    match subject {
+        Subject::Item(i) => {
+            debug_assert!(i < FRIEND_LIST as usize);
+            i as u32
+        }
+        Subject::FriendList => FRIEND_LIST,
+    }
+}
+
+/// The same fields as before the numbers were packed together.
+impl Serialize for Evidence {
+    fn serialize<S: serde::Serializer>(&self, serializer: S) -> Result<S::Ok, S::Error> {
+        use serde::ser::SerializeStruct;
+        let mut s = serializer.serialize_struct("Evidence", 8)?;
+        s.serialize_field("subject", &self.subject())?;
+        s.serialize_field("attribute", &self.attribute())?;
+        s.serialize_field("log_lr", self.log_lr())?;
+        s.serialize_field("distribution", self.distribution())?;
+        s.serialize_field("homogeneity", &self.homogeneity())?;
+        s.serialize_field("info_bits", &self.info_bits())?;
+        s.serialize_field("support", &self.support())?;
+        s.serialize_field("origin", &self.origin)?;
+        s.end()
     }
 }
 
@@ -183,19 +310,85 @@ impl EvidenceSet {
 
     /// Evidence about one subject.
     pub fn for_subject(&self, subject: Subject) -> impl Iterator<Item = &Evidence> {
-        self.list.iter().filter(move |e| e.subject == subject)
+        self.list.iter().filter(move |e| e.subject() == subject)
     }
 
     /// Items that carry any evidence.
     pub fn items_with_evidence(&self) -> usize {
         let mut seen = vec![false; self.n_items];
         for e in &self.list {
-            if let Subject::Item(i) = e.subject
+            if let Subject::Item(i) = e.subject()
                 && i < seen.len()
             {
                 seen[i] = true;
             }
         }
         seen.iter().filter(|&&b| b).count()
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn piece(subject: Subject) -> Evidence {
+        Evidence::new(
+            subject,
+            2,
+            Figures {
+                log_lr: &[0.5, -0.25, 0.0],
+                distribution: &[0.5, 0.2, 0.3],
+                homogeneity: 0.1,
+                info_bits: 0.2,
+                support: 7.0,
+            },
+            Origin::lexicon("places", "'Hilo' → US-HI"),
+        )
+    }
+
+    #[test]
+    fn packed_numbers_read_back() {
+        for subject in [
+            Subject::Item(0),
+            Subject::Item(123_456),
+            Subject::FriendList,
+        ] {
+            let e = piece(subject);
+            assert_eq!(e.subject(), subject);
+            assert_eq!(e.attribute(), 2);
+            assert_eq!(e.log_lr(), &[0.5, -0.25, 0.0]);
+            assert_eq!(e.distribution(), &[0.5, 0.2, 0.3]);
+            assert_eq!(
+                (e.homogeneity(), e.info_bits(), e.support()),
+                (0.1, 0.2, 7.0)
+            );
+            assert_eq!(e.leaning(), 0);
+            let moved = e.about(Subject::Item(9));
+            assert_eq!(moved.subject(), Subject::Item(9));
+            assert_eq!(moved.log_lr().as_ptr(), e.log_lr().as_ptr(), "shared");
+        }
+        // A large reference table gives hundreds of thousands of pieces: keep them at
+        // 48 bytes (numbers pointer, origin, two 32-bit indices).
+        assert!(std::mem::size_of::<Evidence>() <= 48);
+        assert!(std::mem::size_of::<Origin>() <= 24);
+    }
+
+    /// The JSON form keeps the field names and order it had when every number was a
+    /// field of its own.
+    #[test]
+    fn serialized_form_is_unchanged() {
+        let json = serde_json::to_string(&piece(Subject::Item(4))).unwrap();
+        assert_eq!(
+            json,
+            r#"{"subject":{"type":"item","index":4},"attribute":2,"log_lr":[0.5,-0.25,0.0],"distribution":[0.5,0.2,0.3],"homogeneity":0.1,"info_bits":0.2,"support":7.0,"origin":{"type":"lexicon","rule":"places","detail":"'Hilo' → US-HI"}}"#
+        );
+        let table = Origin::Table {
+            matched_by: MatchedBy::Name,
+            reference: "Hilo Knitters".into(),
+        };
+        assert_eq!(
+            serde_json::to_string(&table).unwrap(),
+            r#"{"type":"table","matched_by":"name","reference":"Hilo Knitters"}"#
+        );
     }
 }

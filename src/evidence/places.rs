@@ -293,10 +293,7 @@ impl<'a> PlaceSource<'a> {
                     dist,
                     &attr.base_rates,
                     mentions.len() as f64,
-                    Origin::Lexicon {
-                        rule: SourceKind::Places.id().into(),
-                        detail: detail.into(),
-                    },
+                    Origin::lexicon(SourceKind::Places.id(), detail),
                 ))
             })
             .collect()

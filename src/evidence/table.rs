@@ -6,8 +6,14 @@
 //! An item whose members look like everyone's memberships then carries no evidence,
 //! even where people with some values join more items overall. Smoothing is described
 //! at [`crate::stats::smooth_against`].
+//!
+//! Evidence depends only on the attribute and the counts, and large tables repeat the
+//! same counts many times (items with a handful of members), so items whose counts are
+//! equal share one set of numbers: the same numbers, computed once.
 
 use std::sync::Arc;
+
+use foldhash::{HashMap, HashMapExt};
 
 use super::model::{Evidence, EvidenceSet, Origin, Subject};
 use crate::footprint::Footprint;
@@ -31,10 +37,24 @@ pub fn from_table(footprint: &Footprint, priors: &Priors, set: &mut EvidenceSet)
         .sum();
     set.list.reserve_exact(pieces);
     let mut counts = Vec::new();
+    // (attribute, coding, coded counts) → the evidence already made from them.
+    let mut made: HashMap<(usize, u8, &[u8]), usize> = HashMap::new();
     for (i, ri, matched_by) in matched {
         let reference = priors.item(ri);
         let name: Arc<str> = reference.name().into();
         for ai in reference.attributes() {
+            let origin = Origin::Table {
+                matched_by,
+                reference: name.clone(),
+            };
+            let key = reference
+                .coded_counts(ai)
+                .map(|(tag, bytes)| (ai, tag, bytes));
+            if let Some(&at) = key.as_ref().and_then(|k| made.get(k)) {
+                let e = set.list[at].sharing(Subject::Item(i), origin);
+                set.push(e);
+                continue;
+            }
             reference.counts_into(ai, &mut counts);
             let attr = &priors.attributes[ai];
             let (p, q) = smooth_against(
@@ -44,16 +64,16 @@ pub fn from_table(footprint: &Footprint, priors: &Priors, set: &mut EvidenceSet)
                 attr.pseudocount,
             );
             let support = counts.iter().sum();
+            if let Some(k) = key {
+                made.insert(k, set.list.len());
+            }
             set.push(Evidence::from_distribution(
                 Subject::Item(i),
                 ai,
                 p,
                 &q,
                 support,
-                Origin::Table {
-                    matched_by,
-                    reference: name.clone(),
-                },
+                origin,
             ));
         }
     }

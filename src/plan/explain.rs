@@ -69,8 +69,8 @@ pub(crate) fn explain(
                             .evidence_of(s)
                             .iter()
                             .map(|&e| &exposure.evidence().list[e])
-                            .filter(|e| e.attribute == a.attribute)
-                            .map(|e| a.lambda * e.log_lr[v] / std::f64::consts::LN_2)
+                            .filter(|e| e.attribute() == a.attribute)
+                            .map(|e| a.lambda * e.log_lr()[v] / std::f64::consts::LN_2)
                             .sum();
                         (bits > 0.0).then_some((s, bits))
                     })

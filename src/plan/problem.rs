@@ -160,7 +160,7 @@ impl Problem {
             }
             let ev = exposure.evidence_of(s);
             let carries = ev.iter().any(|&e| {
-                let l = &exposure.evidence().list[e].log_lr;
+                let l = &exposure.evidence().list[e].log_lr();
                 let (lo, hi) = l
                     .iter()
                     .fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), &x| {
@@ -196,9 +196,9 @@ impl Problem {
                 let mut any = false;
                 for &e in exposure.evidence_of(s) {
                     let e = &exposure.evidence().list[e];
-                    if e.attribute == t.attribute {
+                    if e.attribute() == t.attribute {
                         any = true;
-                        for (x, l) in w[ci * k..(ci + 1) * k].iter_mut().zip(e.log_lr.iter()) {
+                        for (x, l) in w[ci * k..(ci + 1) * k].iter_mut().zip(e.log_lr().iter()) {
                             *x += l;
                         }
                     }
@@ -360,11 +360,11 @@ fn twin_classes(subjects: &[Subject], cost: &[f64], exposure: &Exposure) -> Vec<
     for (ci, &s) in subjects.iter().enumerate() {
         let mut key = vec![cost[ci].to_bits()];
         let mut ev: Vec<usize> = exposure.evidence_of(s).to_vec();
-        ev.sort_by_key(|&e| exposure.evidence().list[e].attribute);
+        ev.sort_by_key(|&e| exposure.evidence().list[e].attribute());
         for e in ev {
             let e = &exposure.evidence().list[e];
-            key.push(e.attribute as u64);
-            key.extend(e.log_lr.iter().map(|x| x.to_bits()));
+            key.push(e.attribute() as u64);
+            key.extend(e.log_lr().iter().map(|x| x.to_bits()));
         }
         let next = seen.len();
         class.push(*seen.entry(key).or_insert(next));

@@ -252,7 +252,23 @@ impl<'a> PriorItem<'a> {
     /// Decode the counts for `attribute` into `out`; false (and `out` empty) when the
     /// item has none for it.
     pub fn counts_into(&self, attribute: usize, out: &mut Vec<f64>) -> bool {
-        let s = &self.items;
+        match self.coded_counts(attribute) {
+            Some((tag, bytes)) => {
+                decode(tag, bytes, out);
+                true
+            }
+            None => {
+                out.clear();
+                false
+            }
+        }
+    }
+
+    /// The counts for `attribute` as stored: their coding and bytes. The coding loses
+    /// nothing, so equal codings and bytes mean equal counts (what lets evidence made
+    /// from them be shared).
+    pub fn coded_counts(&self, attribute: usize) -> Option<(u8, &'a [u8])> {
+        let s = self.items;
         let mut at = s.counts_start[self.i] as usize;
         let end = s.counts_start[self.i + 1] as usize;
         let entries = s.entry_start[self.i] as usize..s.entry_start[self.i + 1] as usize;
@@ -260,13 +276,11 @@ impl<'a> PriorItem<'a> {
             let len = s.entry_bytes(e);
             if s.entry_attr[e] as usize == attribute {
                 let bytes = s.counts.get(at..(at + len).min(end)).unwrap_or(&[]);
-                decode(s.entry_tag[e], bytes, out);
-                return true;
+                return Some((s.entry_tag[e], bytes));
             }
             at += len;
         }
-        out.clear();
-        false
+        None
     }
 
     /// Counts for `attribute`, if the item has statistics for it.

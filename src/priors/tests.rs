@@ -381,3 +381,62 @@ fn a_damaged_cache_file_falls_back_to_the_json() {
         "{notes:?}"
     );
 }
+
+/// Table evidence for items whose counts are equal shares one set of numbers; each
+/// piece must still be, bit for bit, what that item's own counts give.
+#[test]
+fn shared_table_evidence_is_each_items_own() {
+    use crate::evidence::{Evidence, EvidenceSet, Origin as From, Subject, from_table};
+    use crate::footprint::Footprint;
+    use crate::stats::smooth_against;
+
+    let p = Priors::parse(&sample_json(), "t").expect("parse");
+    let footprint = Footprint {
+        items: probes(&p),
+        ..Footprint::default()
+    };
+    let mut set = EvidenceSet::new(footprint.items.len());
+    from_table(&footprint, &p, &mut set);
+    let bits = |e: &Evidence| {
+        let mut v: Vec<u64> = e.log_lr().iter().map(|x| x.to_bits()).collect();
+        v.extend(e.distribution().iter().map(|x| x.to_bits()));
+        v.extend([e.homogeneity(), e.info_bits(), e.support()].map(f64::to_bits));
+        v
+    };
+    for e in &set.list {
+        let Subject::Item(i) = e.subject() else {
+            panic!("table evidence about the friend list: {e:?}");
+        };
+        let (ri, by) = p.find(&footprint.items[i]).expect("matched");
+        let counts = p.item(ri).counts(e.attribute()).expect("counts");
+        let attr = &p.attributes[e.attribute()];
+        let (dist, q) = smooth_against(
+            &counts,
+            &attr.member_rates,
+            attr.smoothing,
+            attr.pseudocount,
+        );
+        let origin = From::Table {
+            matched_by: by,
+            reference: p.item(ri).name().into(),
+        };
+        let own = Evidence::from_distribution(
+            e.subject(),
+            e.attribute(),
+            dist,
+            &q,
+            counts.iter().sum(),
+            origin,
+        );
+        assert_eq!(bits(e), bits(&own), "{e:?}");
+        assert_eq!(e.origin, own.origin);
+    }
+    let distinct: std::collections::HashSet<*const f64> =
+        set.list.iter().map(|e| e.log_lr().as_ptr()).collect();
+    assert!(
+        distinct.len() * 2 < set.list.len(),
+        "{} numbers for {} pieces",
+        distinct.len(),
+        set.list.len()
+    );
+}

@@ -240,7 +240,7 @@ pub fn build_with(
 
     let mut has_evidence = vec![false; footprint.items.len()];
     for e in &exposure.evidence().list {
-        if let Subject::Item(i) = e.subject
+        if let Subject::Item(i) = e.subject()
             && let Some(h) = has_evidence.get_mut(i)
         {
             *h = true;

@@ -8,7 +8,7 @@ use std::sync::Arc;
 
 use serde::ser::{Serialize, SerializeSeq, Serializer};
 
-use crate::evidence::{Origin, Subject};
+use crate::evidence::{LexiconRule, Origin, Subject};
 use crate::footprint::Footprint;
 use crate::infer::{Contribution, Exposure};
 use crate::priors::Priors;
@@ -69,7 +69,7 @@ impl<'a> Rows<'a> {
             let c = &contributions[ai as usize][ci as usize];
             (
                 c.toward_best_bits,
-                exposure.evidence().list[c.evidence].info_bits,
+                exposure.evidence().list[c.evidence].info_bits(),
             )
         };
         order.sort_unstable_by(|a, b| {
@@ -119,11 +119,11 @@ impl<'a> Rows<'a> {
             attribute: strings.id.clone(),
             reveals: strings.value_ids[leaning].clone(),
             reveals_label: strings.value_labels[leaning].clone(),
-            bits: e.info_bits,
-            homogeneity: e.homogeneity,
+            bits: e.info_bits(),
+            homogeneity: e.homogeneity(),
             contribution_bits: c.toward_best_bits,
             if_hidden_drop: c.loo_drop,
-            support: e.support,
+            support: e.support(),
             source: e.origin.kind(),
             source_detail: described.get(&e.origin),
             date,
@@ -145,14 +145,14 @@ impl Serialize for Rows<'_> {
 /// Descriptions of evidence origins; lexicon origins shared by many items (the same
 /// place, the same rule) are described once.
 #[derive(Default)]
-struct Described(HashMap<(*const u8, *const u8), Arc<str>>);
+struct Described(HashMap<*const LexiconRule, Arc<str>>);
 
 impl Described {
     fn get(&mut self, origin: &Origin) -> Arc<str> {
         match origin {
-            Origin::Lexicon { rule, detail } => self
+            Origin::Lexicon(rule) => self
                 .0
-                .entry((Arc::as_ptr(rule).cast(), Arc::as_ptr(detail).cast()))
+                .entry(Arc::as_ptr(rule))
                 .or_insert_with(|| origin.describe().into())
                 .clone(),
             other => other.describe().into(),

@@ -94,7 +94,7 @@ pub fn source_reports(
         .collect();
     let kind_of = |o: &Origin| match o {
         Origin::Table { .. } => Some(SourceKind::Table),
-        Origin::Lexicon { rule, .. } => SourceKind::of_rule(rule),
+        Origin::Lexicon(l) => SourceKind::of_rule(&l.rule),
         Origin::Friends { .. } => Some(SourceKind::Friends),
         Origin::Mark => None,
     };
@@ -105,14 +105,14 @@ pub fn source_reports(
                 .iter()
                 .filter(|e| kind_of(&e.origin) == Some(kind))
                 .collect();
-            let mut subjects: Vec<Subject> = mine.iter().map(|e| e.subject).collect();
+            let mut subjects: Vec<Subject> = mine.iter().map(|e| e.subject()).collect();
             subjects.sort();
             subjects.dedup();
             let bits: f64 = mine
                 .iter()
-                .filter(|e| !exposure.is_hidden(e.subject))
+                .filter(|e| !exposure.is_hidden(e.subject()))
                 .map(|e| {
-                    exposure.models()[e.attribute].weight() * e.log_lr[bests[e.attribute]]
+                    exposure.models()[e.attribute()].weight() * e.log_lr()[bests[e.attribute()]]
                         / std::f64::consts::LN_2
                 })
                 .sum();
@@ -126,12 +126,12 @@ pub fn source_reports(
                 SourceKind::Places => {
                     // Items per value they point at, and their joint weight.
                     let mut by_value: BTreeMap<(usize, usize), (usize, f64)> = BTreeMap::new();
-                    for e in mine.iter().filter(|e| !exposure.is_hidden(e.subject)) {
+                    for e in mine.iter().filter(|e| !exposure.is_hidden(e.subject())) {
                         let v = e.leaning();
-                        let w = exposure.models()[e.attribute].weight();
-                        let slot = by_value.entry((e.attribute, v)).or_insert((0, 0.0));
+                        let w = exposure.models()[e.attribute()].weight();
+                        let slot = by_value.entry((e.attribute(), v)).or_insert((0, 0.0));
                         slot.0 += 1;
-                        slot.1 += w * e.log_lr[v] / std::f64::consts::LN_2;
+                        slot.1 += w * e.log_lr()[v] / std::f64::consts::LN_2;
                     }
                     let mut many: Vec<_> = by_value
                         .into_iter()

@@ -87,8 +87,8 @@ fn held_out_sums(
     let n_attr = priors.attributes.len();
     let mut per_item: Vec<Vec<Option<&[f64]>>> = vec![vec![None; n_attr]; catalogue.len()];
     for e in &ev.list {
-        if let Subject::Item(i) = e.subject {
-            per_item[i][e.attribute] = Some(&e.log_lr);
+        if let Subject::Item(i) = e.subject() {
+            per_item[i][e.attribute()] = Some(e.log_lr());
         }
     }
     let mut sums: Vec<Vec<Vec<f64>>> = vec![Vec::with_capacity(held_out.profiles.len()); n_attr];

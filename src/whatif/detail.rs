@@ -90,14 +90,14 @@ pub fn item_detail(s: &Session, subject: Subject) -> ItemDetail {
     let mut attrs = Vec::new();
     for &ei in x.evidence_of(subject) {
         let e = &x.evidence().list[ei];
-        let attr = &s.priors.attributes[e.attribute];
-        let post = x.posterior(e.attribute);
-        let w = x.models()[e.attribute].weight();
+        let attr = &s.priors.attributes[e.attribute()];
+        let post = x.posterior(e.attribute());
+        let w = x.models()[e.attribute()].weight();
         // The reference the ratios were taken against: μ(v) = p(v) / L(v).
         let mut bars: Vec<ValueBar> = e
-            .distribution
+            .distribution()
             .iter()
-            .zip(e.log_lr.iter())
+            .zip(e.log_lr().iter())
             .enumerate()
             .map(|(v, (&p, &l))| ValueBar {
                 value: v,
@@ -108,19 +108,19 @@ pub fn item_detail(s: &Session, subject: Subject) -> ItemDetail {
             .collect();
         bars.sort_by(|a, b| b.members.total_cmp(&a.members));
         evidence.push(EvidenceView {
-            attribute: e.attribute,
+            attribute: e.attribute(),
             attribute_label: attr.label.clone(),
             bars,
-            homogeneity: e.homogeneity,
-            info_bits: e.info_bits,
-            support: e.support,
+            homogeneity: e.homogeneity(),
+            info_bits: e.info_bits(),
+            support: e.support(),
             source: e.origin.kind(),
             source_detail: e.origin.describe(),
             leaning_label: attr.values[e.leaning()].label.clone(),
-            contribution_bits: w * e.log_lr[post.best] / std::f64::consts::LN_2,
+            contribution_bits: w * e.log_lr()[post.best] / std::f64::consts::LN_2,
         });
-        if !attrs.contains(&e.attribute) {
-            attrs.push(e.attribute);
+        if !attrs.contains(&e.attribute()) {
+            attrs.push(e.attribute());
         }
     }
     let changes = attrs

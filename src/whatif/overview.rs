@@ -99,8 +99,8 @@ mod tests {
                 .evidence()
                 .list
                 .iter()
-                .filter(|e| e.attribute == o.attribute && !x.is_hidden(e.subject))
-                .filter(|e| e.log_lr[best] > 0.0)
+                .filter(|e| e.attribute() == o.attribute && !x.is_hidden(e.subject()))
+                .filter(|e| e.log_lr()[best] > 0.0)
                 .count();
             assert_eq!(o.supporting, direct);
         }

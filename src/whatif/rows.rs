@@ -146,10 +146,11 @@ pub fn item_rows(s: &Session, q: &RowQuery) -> Vec<ItemRow> {
         let mut chosen: Option<(usize, f64)> = None;
         for &ei in x.evidence_of(subject) {
             let e = &x.evidence().list[ei];
-            if q.attribute.is_some_and(|a| a != e.attribute) {
+            if q.attribute.is_some_and(|a| a != e.attribute()) {
                 continue;
             }
-            let c = weights[e.attribute] * e.log_lr[bests[e.attribute]] / std::f64::consts::LN_2;
+            let c =
+                weights[e.attribute()] * e.log_lr()[bests[e.attribute()]] / std::f64::consts::LN_2;
             if chosen.is_none_or(|(_, best)| c > best) {
                 chosen = Some((ei, c));
             }
@@ -163,10 +164,10 @@ pub fn item_rows(s: &Session, q: &RowQuery) -> Vec<ItemRow> {
                 ItemRow {
                     subject,
                     kind,
-                    attribute: Some(e.attribute),
+                    attribute: Some(e.attribute()),
                     reveals: Some(e.leaning()),
-                    bits: e.info_bits,
-                    homogeneity: e.homogeneity,
+                    bits: e.info_bits(),
+                    homogeneity: e.homogeneity(),
                     contribution_bits: c,
                     mark: s.mark(subject),
                     date,
