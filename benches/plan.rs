@@ -62,7 +62,7 @@ pub fn member_footprint(priors: &Priors, seed: u64, n: usize) -> Footprint {
             let r = priors.item(i);
             Item {
                 kind: r.kind().unwrap_or(ItemKind::Like),
-                name: r.name().to_string(),
+                name: r.name().into(),
                 id: None,
                 category: None,
                 date: None,

@@ -30,8 +30,8 @@ fn session(seed: u64) -> Session {
     for i in 0..ITEMS {
         footprint.items.push(Item {
             kind: ItemKind::ALL[i % 4],
-            name: format!("Item {i}"),
-            id: Some(i.to_string()),
+            name: format!("Item {i}").into(),
+            id: Some(i.to_string().into()),
             category: None,
             date: Some(1_600_000_000 + i as i64 * 3600),
             origin: telltale::footprint::Origin {

@@ -4,6 +4,7 @@
 
 use std::collections::BTreeMap;
 use std::fmt;
+use std::sync::Arc;
 
 use serde::{Deserialize, Serialize};
 
@@ -58,8 +59,9 @@ impl fmt::Display for ItemKind {
 /// Where a record came from inside the archive.
 #[derive(Debug, Clone, PartialEq, Eq, Serialize, Deserialize)]
 pub struct Origin {
-    /// Entry path inside the archive.
-    pub file: String,
+    /// Entry path inside the archive: one string shared by every record of the entry
+    /// (a large archive lists tens of thousands of items per entry).
+    pub file: Arc<str>,
     /// 1-based record number within that file.
     pub record: usize,
 }
@@ -71,14 +73,16 @@ impl fmt::Display for Origin {
 }
 
 /// One visible affiliation: a liked page, a group, a followed account, an event.
+/// Its strings are boxed (no spare capacity): a large archive holds over 100,000 items
+/// for the whole session.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 pub struct Item {
     pub kind: ItemKind,
-    pub name: String,
+    pub name: Box<str>,
     /// The archive's own identifier for the item, when it has one.
-    pub id: Option<String>,
+    pub id: Option<Box<str>>,
     /// The archive's category or topic label, when it has one.
-    pub category: Option<String>,
+    pub category: Option<Box<str>>,
     /// When the person liked, joined, followed or attended, in Unix seconds.
     pub date: Option<i64>,
     pub origin: Origin,

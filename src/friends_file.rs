@@ -167,7 +167,7 @@ pub fn merge_friends_csv(
                     date: None,
                     attributes: Default::default(),
                     origin: Origin {
-                        file: file.to_string(),
+                        file: file.into(),
                         record: number,
                     },
                 });

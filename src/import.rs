@@ -5,6 +5,7 @@
 //! the limit and how to raise it.
 
 use std::collections::BTreeMap;
+use std::sync::Arc;
 
 use foldhash::{HashMap, HashMapExt};
 
@@ -148,12 +149,13 @@ pub fn import_with_progress(
                     .in_file(&entry.path),
                 );
             }
+            let path: Arc<str> = entry.path.as_str().into();
             for s_idx in sources {
                 let source = &mapping.sources[*s_idx];
                 let mut sink = SourceSink {
                     state: &mut state,
                     source,
-                    file: &entry.path,
+                    file: &path,
                 };
                 if let Err(w) = read_records(&text, &entry.path, source, limits, &mut sink) {
                     state.footprint.warnings.push(w);
@@ -253,13 +255,13 @@ impl State {
 struct SourceSink<'a> {
     state: &'a mut State,
     source: &'a Source,
-    file: &'a str,
+    file: &'a Arc<str>,
 }
 
 impl SourceSink<'_> {
     fn problem(&mut self, record: &Record<'_>, field: &str, message: String) {
         let mut w = Warning::new(message)
-            .in_file(self.file)
+            .in_file(&**self.file)
             .at_record(record.number())
             .on_field(field);
         if let Some(line) = record.line() {
@@ -303,7 +305,7 @@ impl SourceSink<'_> {
 
     fn origin(&self, record: &Record<'_>) -> Origin {
         Origin {
-            file: self.file.to_string(),
+            file: Arc::clone(self.file),
             record: record.number(),
         }
     }
@@ -362,9 +364,9 @@ impl RecordSink for SourceSink<'_> {
                 let origin = self.origin(&record);
                 self.state.add_item(Item {
                     kind,
-                    name,
-                    id,
-                    category,
+                    name: name.into(),
+                    id: id.map(Into::into),
+                    category: category.map(Into::into),
                     date,
                     origin,
                 });

@@ -78,7 +78,7 @@ fn bad_records_become_warnings_and_the_rest_is_imported() {
     let bad_date = fp
         .items
         .iter()
-        .find(|i| i.name == "Bad date page")
+        .find(|i| &*i.name == "Bad date page")
         .expect("kept");
     assert_eq!(
         bad_date.date, None,

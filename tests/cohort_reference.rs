@@ -229,8 +229,8 @@ fn davis_southern_women_leave_one_out_matches_the_published_split() {
                 .iter()
                 .map(|&e| Item {
                     kind: ItemKind::Event,
-                    name: format!("Event {}", e + 1),
-                    id: Some(format!("E{}", e + 1)),
+                    name: format!("Event {}", e + 1).into(),
+                    id: Some(format!("E{}", e + 1).into()),
                     category: None,
                     date: None,
                     origin: Origin {

@@ -70,7 +70,7 @@ fn layout_b_repairs_damaged_text() {
         .find(|p| p.layout == "B")
         .expect("a layout B persona");
     let s = scan(&dir, &student);
-    let names: Vec<&str> = s.footprint.items.iter().map(|i| i.name.as_str()).collect();
+    let names: Vec<&str> = s.footprint.items.iter().map(|i| &*i.name).collect();
     assert!(
         names.iter().any(|n| n.contains("Café")),
         "accented names restored: {names:?}"

@@ -123,7 +123,7 @@ fn drafts_of_both_demo_layouts_import_what_the_hand_written_mappings_do() {
         assert_eq!(declared, p.truth, "{} declared values", p.slug);
         // The same items, not just as many: names and ids agree.
         let key = |fp: &Footprint| {
-            let mut v: Vec<(String, Option<String>, String)> = fp
+            let mut v: Vec<(Box<str>, Option<Box<str>>, String)> = fp
                 .items
                 .iter()
                 .map(|i| (i.name.clone(), i.id.clone(), i.kind.as_str().to_string()))
@@ -268,7 +268,7 @@ fn a_csv_without_dates_gets_no_date_and_says_so() {
     let fp = import_with(tmp.path(), &mapping);
     assert_eq!(fp.count(ItemKind::Follow), 3);
     assert!(fp.items.iter().all(|i| i.date.is_none()));
-    let names: Vec<&str> = fp.items.iter().map(|i| i.name.as_str()).collect();
+    let names: Vec<&str> = fp.items.iter().map(|i| i.name.as_ref()).collect();
     assert!(names.contains(&"Moss Valley Birders"), "{names:?}");
     assert!(fp.items.iter().any(|i| i.id.as_deref() == Some("mvb")));
 }

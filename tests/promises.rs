@@ -46,7 +46,7 @@ fn symbolic_links_are_not_followed_and_loops_end() {
     let mut archive = Archive::open(root, &Limits::default()).expect("open");
     let mapping = Mapping::parse(MAPPING, "m.toml").expect("mapping");
     let fp = import(&mut archive, &mapping, &Limits::default()).expect("import ends");
-    let names: Vec<&str> = fp.items.iter().map(|i| i.name.as_str()).collect();
+    let names: Vec<&str> = fp.items.iter().map(|i| i.name.as_ref()).collect();
     assert_eq!(names, vec!["Inside"]);
     let warnings: Vec<String> = fp.warnings.iter().map(|w| w.to_string()).collect();
     assert_eq!(

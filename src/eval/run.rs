@@ -145,8 +145,8 @@ fn item_lrs(schema: &Schema, priors: &Priors) -> Vec<Vec<Option<Vec<f64>>>> {
             .enumerate()
             .map(|(i, it)| Item {
                 kind: it.kind().unwrap_or(ItemKind::Like),
-                name: it.name().to_string(),
-                id: it.id().map(str::to_string),
+                name: it.name().into(),
+                id: it.id().map(Into::into),
                 category: None,
                 date: None,
                 origin: Origin {

@@ -224,9 +224,9 @@ mod tests {
                 .enumerate()
                 .map(|(i, name)| Item {
                     kind: ItemKind::Group,
-                    name,
+                    name: name.into(),
                     id: None,
-                    category: (i % 7 == 0).then(|| "Religious organisation".to_string()),
+                    category: (i % 7 == 0).then(|| "Religious organisation".into()),
                     date: Some(1_100_000_000 + i as i64 * 86_400),
                     origin: Origin {
                         file: "groups.json".into(),

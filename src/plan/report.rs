@@ -164,7 +164,11 @@ pub struct SearchReport {
 pub fn subject_name(footprint: &Footprint, s: Subject) -> (String, String, Option<String>) {
     match s {
         Subject::Item(i) => match footprint.items.get(i) {
-            Some(it) => (it.name.clone(), it.kind.as_str().into(), Some(it.key())),
+            Some(it) => (
+                String::from(&*it.name),
+                it.kind.as_str().into(),
+                Some(it.key()),
+            ),
             None => (format!("item #{i}"), "item".into(), None),
         },
         Subject::FriendList => ("your friend list".into(), "friends".into(), None),

@@ -81,7 +81,7 @@ pub fn nearest(footprint: &Footprint, given: &str, n: usize) -> Vec<String> {
             } else {
                 edit_distance(&g, &name)
             };
-            (d, it.name.as_str())
+            (d, &*it.name)
         })
         .collect();
     scored.sort();
@@ -121,7 +121,7 @@ mod tests {
         Item {
             kind: ItemKind::Group,
             name: name.into(),
-            id: id.map(str::to_string),
+            id: id.map(Into::into),
             category: None,
             date: None,
             origin: Origin {

@@ -156,7 +156,7 @@ impl Index {
             && let Some(i) = self
                 .ids
                 .lookup(key_hash(id))
-                .find(|&i| items.id(i) == Some(id.as_str()))
+                .find(|&i| items.id(i) == Some(&**id))
         {
             return Some((i, MatchedBy::Id));
         }

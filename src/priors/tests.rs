@@ -83,8 +83,8 @@ fn sample_json() -> String {
 fn archive_item(name: &str, id: Option<&str>, kind: ItemKind) -> Item {
     Item {
         kind,
-        name: name.to_string(),
-        id: id.map(str::to_string),
+        name: name.into(),
+        id: id.map(Into::into),
         category: None,
         date: None,
         origin: Origin {

@@ -252,7 +252,7 @@ pub fn build_with(
         .zip(&has_evidence)
         .filter(|(_, h)| !**h)
         .map(|(it, _)| UnmatchedItem {
-            name: it.name.clone(),
+            name: String::from(&*it.name),
             kind: it.kind.as_str().to_string(),
             origin: it.origin.to_string(),
         })

@@ -108,7 +108,7 @@ impl<'a> Rows<'a> {
         let (name, kind, date) = match c.subject {
             Subject::Item(i) => {
                 let it = &self.footprint.items[i];
-                (it.name.clone(), it.kind.as_str(), it.date)
+                (String::from(&*it.name), it.kind.as_str(), it.date)
             }
             Subject::FriendList => ("your friend list".to_string(), "friends", None),
         };

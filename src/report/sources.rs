@@ -206,7 +206,7 @@ pub fn special_report(footprint: &Footprint, exposure: &Exposure) -> Option<Spec
         .filter_map(|f| {
             let item = footprint.items.get(f.item)?;
             Some(SpecialItemReport {
-                name: item.name.clone(),
+                name: String::from(&*item.name),
                 kind: item.kind.as_str().into(),
                 categories: f.categories.iter().map(|c| c.label().to_string()).collect(),
                 terms: f.terms.clone(),

@@ -39,8 +39,8 @@ pub fn member_footprint(catalogue: &[CatItem], affiliations: &[u32]) -> Footprin
                 let c = &catalogue[i as usize];
                 Item {
                     kind: c.kind,
-                    name: c.name.clone(),
-                    id: Some(c.id.clone()),
+                    name: c.name.as_str().into(),
+                    id: Some(c.id.as_str().into()),
                     category: None,
                     date: None,
                     origin: Origin {

@@ -322,7 +322,7 @@ fn wide_and_long_names_are_cut_by_grapheme_and_width() {
         "Cafe\u{301} society of combining marks e\u{301}e\u{301}e\u{301}e\u{301}e\u{301}e\u{301}e\u{301}e\u{301}e\u{301}e\u{301}e\u{301}",
     ];
     for (i, n) in names.iter().enumerate() {
-        s.scan.footprint.items[i].name = n.to_string();
+        s.scan.footprint.items[i].name = (*n).into();
     }
     let mut app = App::new(s);
     press(&mut app, "2o");

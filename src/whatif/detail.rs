@@ -74,7 +74,7 @@ pub fn item_detail(s: &Session, subject: Subject) -> ItemDetail {
             let it = &fp.items[i];
             (
                 it.kind.as_str().to_string(),
-                it.category.clone(),
+                it.category.as_deref().map(String::from),
                 it.date,
                 Some(it.origin.to_string()),
             )

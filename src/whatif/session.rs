@@ -401,11 +401,7 @@ impl Session {
 /// A subject's display name.
 pub fn subject_name(footprint: &Footprint, subject: Subject) -> &str {
     match subject {
-        Subject::Item(i) => footprint
-            .items
-            .get(i)
-            .map(|it| it.name.as_str())
-            .unwrap_or("?"),
+        Subject::Item(i) => footprint.items.get(i).map(|it| &*it.name).unwrap_or("?"),
         Subject::FriendList => "your friend list",
     }
 }
