@@ -7,7 +7,7 @@ use std::path::{Path, PathBuf};
 use walkdir::WalkDir;
 
 use super::error::{Error, Result};
-use super::reader::{Entry, limit_error, read_capped, to_path_buf};
+use super::reader::{Entry, limit_error, read_capped, stream_capped, to_path_buf};
 use crate::limits::{LimitName, Limits};
 
 pub struct Folder {
@@ -82,16 +82,31 @@ impl Folder {
     }
 
     pub fn read(&mut self, entry: &Entry, cap: u64) -> Result<Vec<u8>> {
+        let file = self.open_entry(entry)?;
+        let declared = file.metadata().map(|m| m.len()).unwrap_or(0);
+        read_capped(file, cap, &entry.path, None, declared)
+    }
+
+    /// As [`Folder::read`], a piece at a time (see `Archive::stream`).
+    pub fn stream(
+        &mut self,
+        entry: &Entry,
+        cap: u64,
+        sink: &mut dyn FnMut(&[u8]) -> bool,
+    ) -> Result<u64> {
+        let file = self.open_entry(entry)?;
+        stream_capped(file, cap, &entry.path, None, sink)
+    }
+
+    fn open_entry(&self, entry: &Entry) -> Result<File> {
         let full = match self.disk_paths.get(entry.index) {
             Some(p) => p.clone(),
             None => self.root.join(&entry.path),
         };
-        let file = File::open(&full).map_err(|e| Error::Read {
+        File::open(&full).map_err(|e| Error::Read {
             entry: entry.path.clone(),
             detail: e.to_string(),
-        })?;
-        let declared = file.metadata().map(|m| m.len()).unwrap_or(0);
-        read_capped(file, cap, &entry.path, None, declared)
+        })
     }
 }
 

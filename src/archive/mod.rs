@@ -8,4 +8,4 @@ mod reader;
 mod zipped;
 
 pub use error::{Error, Result};
-pub use reader::{Archive, Entry, ReadBudget};
+pub use reader::{Archive, CHUNK, Entry, ReadBudget};

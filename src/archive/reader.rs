@@ -109,6 +109,37 @@ impl Archive {
 
     /// Read one entry whole, within the per-entry and total limits.
     pub fn read(&mut self, entry: &Entry, budget: &mut ReadBudget) -> Result<Vec<u8>> {
+        let cap = Self::check_declared(entry, budget)?;
+        let bytes = match self {
+            Archive::Zip(z) => z.read(entry, cap, budget.limits.compression_ratio)?,
+            Archive::Folder(f) => f.read(entry, cap)?,
+        };
+        Self::settle(entry, budget, cap, bytes.len() as u64)?;
+        Ok(bytes)
+    }
+
+    /// Read one entry in pieces of at most [`CHUNK`] bytes, handing each to `sink` as
+    /// it comes out, within the same limits as [`Archive::read`] (which fail the same
+    /// way, possibly after some pieces were handed over). `sink` returns false to stop
+    /// early; the result then counts only what was read. Returns the entry's size.
+    pub fn stream(
+        &mut self,
+        entry: &Entry,
+        budget: &mut ReadBudget,
+        sink: &mut dyn FnMut(&[u8]) -> bool,
+    ) -> Result<u64> {
+        let cap = Self::check_declared(entry, budget)?;
+        let n = match self {
+            Archive::Zip(z) => z.stream(entry, cap, budget.limits.compression_ratio, sink)?,
+            Archive::Folder(f) => f.stream(entry, cap, sink)?,
+        };
+        Self::settle(entry, budget, cap, n)?;
+        Ok(n)
+    }
+
+    /// Refuse an entry whose declared size is over a limit; otherwise the most bytes
+    /// it may produce.
+    fn check_declared(entry: &Entry, budget: &ReadBudget) -> Result<u64> {
         let per_entry = budget.limits.entry_bytes;
         let remaining = budget.limits.total_bytes.saturating_sub(budget.used);
         if entry.size > per_entry {
@@ -121,21 +152,21 @@ impl Archive {
                 budget.limits.total_bytes,
             ));
         }
-        let cap = per_entry.min(remaining);
-        let bytes = match self {
-            Archive::Zip(z) => z.read(entry, cap, budget.limits.compression_ratio)?,
-            Archive::Folder(f) => f.read(entry, cap)?,
-        };
-        if bytes.len() as u64 > cap {
-            let name = if cap == per_entry {
+        Ok(per_entry.min(remaining))
+    }
+
+    /// Refuse an entry that produced more than `cap` bytes; otherwise count them.
+    fn settle(entry: &Entry, budget: &mut ReadBudget, cap: u64, produced: u64) -> Result<()> {
+        if produced > cap {
+            let name = if cap == budget.limits.entry_bytes {
                 LimitName::EntryBytes
             } else {
                 LimitName::TotalBytes
             };
             return Err(limit_error(&entry.path, name, budget.limits.get(name)));
         }
-        budget.used += bytes.len() as u64;
-        Ok(bytes)
+        budget.used += produced;
+        Ok(())
     }
 
     /// A name for messages: the archive's file or folder name.
@@ -162,6 +193,9 @@ pub(crate) fn limit_error(context: &str, name: LimitName, limit: u64) -> Error {
     }
 }
 
+/// The size of the pieces [`Archive::stream`] hands over.
+pub const CHUNK: usize = 64 * 1024;
+
 /// Read at most `cap + 1` bytes, so that the caller can tell "exactly at the cap" from
 /// "over it" without reading an unbounded stream. With `inflate_limit`, stop with an
 /// error as soon as more than that many bytes come out (a compression bomb is refused
@@ -171,37 +205,57 @@ pub(crate) fn limit_error(context: &str, name: LimitName, limit: u64) -> Error {
 /// front (never more than the limits allow), so a large entry is read into one buffer
 /// of its own size rather than one that doubled its way there.
 pub(crate) fn read_capped(
-    mut reader: impl Read,
+    reader: impl Read,
     cap: u64,
     entry: &str,
     inflate_limit: Option<(u64, u64)>,
     size_hint: u64,
 ) -> Result<Vec<u8>> {
+    let allowed = inflate_limit.map_or(cap, |(allowed, _)| allowed.min(cap));
+    let reserve = usize::try_from(size_hint.min(allowed)).unwrap_or(0);
+    let mut out = Vec::with_capacity(reserve);
+    stream_capped(reader, cap, entry, inflate_limit, &mut |piece| {
+        out.extend_from_slice(piece);
+        true
+    })?;
+    Ok(out)
+}
+
+/// As [`read_capped`], handing the bytes to `sink` a piece at a time instead of
+/// collecting them (`sink` returns false to stop). Returns how many bytes came out.
+pub(crate) fn stream_capped(
+    mut reader: impl Read,
+    cap: u64,
+    entry: &str,
+    inflate_limit: Option<(u64, u64)>,
+    sink: &mut dyn FnMut(&[u8]) -> bool,
+) -> Result<u64> {
     let io = |e: std::io::Error| Error::Read {
         entry: entry.to_string(),
         detail: e.to_string(),
     };
-    let allowed = inflate_limit.map_or(cap, |(allowed, _)| allowed.min(cap));
-    let reserve = usize::try_from(size_hint.min(allowed)).unwrap_or(0);
-    let mut out = Vec::with_capacity(reserve);
-    let mut chunk = vec![0u8; 64 * 1024];
+    let mut chunk = vec![0u8; CHUNK];
     let stop = cap.saturating_add(1);
-    while (out.len() as u64) < stop {
-        let want = chunk.len().min((stop - out.len() as u64) as usize);
+    let mut total = 0u64;
+    while total < stop {
+        let want = chunk.len().min((stop - total) as usize);
         let n = match reader.read(&mut chunk[..want]) {
             Ok(0) => break,
             Ok(n) => n,
             Err(e) if e.kind() == std::io::ErrorKind::Interrupted => continue,
             Err(e) => return Err(io(e)),
         };
-        out.extend_from_slice(&chunk[..n]);
+        total += n as u64;
         if let Some((allowed, ratio)) = inflate_limit
-            && out.len() as u64 > allowed
+            && total > allowed
         {
             return Err(limit_error(entry, LimitName::CompressionRatio, ratio));
         }
+        if !sink(&chunk[..n]) {
+            break;
+        }
     }
-    Ok(out)
+    Ok(total)
 }
 
 pub(crate) fn to_path_buf(p: &Path) -> PathBuf {

@@ -9,7 +9,7 @@ use zip::ZipArchive;
 use zip::result::ZipError;
 
 use super::error::{Error, Result};
-use super::reader::{Entry, limit_error, read_capped, to_path_buf};
+use super::reader::{Entry, limit_error, read_capped, stream_capped, to_path_buf};
 use crate::limits::{LimitName, Limits};
 
 /// What a zip can be read from: a file, or bytes in memory.
@@ -101,6 +101,33 @@ impl Zipped {
     }
 
     pub fn read(&mut self, entry: &Entry, cap: u64, ratio: u64) -> Result<Vec<u8>> {
+        self.with_entry(entry, ratio, |file, allowed| {
+            let declared = file.size();
+            read_capped(file, cap, &entry.path, Some((allowed, ratio)), declared)
+        })
+    }
+
+    /// As [`Zipped::read`], a piece at a time (see `Archive::stream`).
+    pub fn stream(
+        &mut self,
+        entry: &Entry,
+        cap: u64,
+        ratio: u64,
+        sink: &mut dyn FnMut(&[u8]) -> bool,
+    ) -> Result<u64> {
+        self.with_entry(entry, ratio, |file, allowed| {
+            stream_capped(file, cap, &entry.path, Some((allowed, ratio)), sink)
+        })
+    }
+
+    /// Open an entry for reading (refusing encrypted entries and methods telltale does
+    /// not read) and run `read` on it with the most bytes it may inflate to.
+    fn with_entry<T>(
+        &mut self,
+        entry: &Entry,
+        ratio: u64,
+        read: impl FnOnce(zip::read::ZipFile<'_, Box<dyn ZipSource>>, u64) -> Result<T>,
+    ) -> Result<T> {
         {
             let data = self
                 .zip
@@ -148,8 +175,7 @@ impl Zipped {
         })?;
         // Small entries may compress very well by chance; only refuse past 1 MiB.
         let allowed = file.compressed_size().saturating_mul(ratio).max(1 << 20);
-        let declared = file.size();
-        read_capped(file, cap, &entry.path, Some((allowed, ratio)), declared)
+        read(file, allowed)
     }
 }
 
