@@ -92,10 +92,11 @@ impl Folder {
         &mut self,
         entry: &Entry,
         cap: u64,
+        piece: usize,
         sink: &mut dyn FnMut(&[u8]) -> bool,
     ) -> Result<u64> {
         let file = self.open_entry(entry)?;
-        stream_capped(file, cap, &entry.path, None, sink)
+        stream_capped(file, cap, &entry.path, None, piece, sink)
     }
 
     fn open_entry(&self, entry: &Entry) -> Result<File> {

@@ -118,7 +118,8 @@ impl Archive {
         Ok(bytes)
     }
 
-    /// Read one entry in pieces of at most [`CHUNK`] bytes, handing each to `sink` as
+    /// Read one entry in pieces of at most `piece` bytes (at least 1; [`CHUNK`] is the
+    /// usual size), handing each to `sink` as
     /// it comes out, within the same limits as [`Archive::read`] (which fail the same
     /// way, possibly after some pieces were handed over). `sink` returns false to stop
     /// early; the result then counts only what was read. Returns the entry's size.
@@ -126,12 +127,14 @@ impl Archive {
         &mut self,
         entry: &Entry,
         budget: &mut ReadBudget,
+        piece: usize,
         sink: &mut dyn FnMut(&[u8]) -> bool,
     ) -> Result<u64> {
         let cap = Self::check_declared(entry, budget)?;
+        let ratio = budget.limits.compression_ratio;
         let n = match self {
-            Archive::Zip(z) => z.stream(entry, cap, budget.limits.compression_ratio, sink)?,
-            Archive::Folder(f) => f.stream(entry, cap, sink)?,
+            Archive::Zip(z) => z.stream(entry, cap, ratio, piece, sink)?,
+            Archive::Folder(f) => f.stream(entry, cap, piece, sink)?,
         };
         Self::settle(entry, budget, cap, n)?;
         Ok(n)
@@ -214,7 +217,7 @@ pub(crate) fn read_capped(
     let allowed = inflate_limit.map_or(cap, |(allowed, _)| allowed.min(cap));
     let reserve = usize::try_from(size_hint.min(allowed)).unwrap_or(0);
     let mut out = Vec::with_capacity(reserve);
-    stream_capped(reader, cap, entry, inflate_limit, &mut |piece| {
+    stream_capped(reader, cap, entry, inflate_limit, CHUNK, &mut |piece| {
         out.extend_from_slice(piece);
         true
     })?;
@@ -228,13 +231,14 @@ pub(crate) fn stream_capped(
     cap: u64,
     entry: &str,
     inflate_limit: Option<(u64, u64)>,
+    piece: usize,
     sink: &mut dyn FnMut(&[u8]) -> bool,
 ) -> Result<u64> {
     let io = |e: std::io::Error| Error::Read {
         entry: entry.to_string(),
         detail: e.to_string(),
     };
-    let mut chunk = vec![0u8; CHUNK];
+    let mut chunk = vec![0u8; piece.max(1)];
     let stop = cap.saturating_add(1);
     let mut total = 0u64;
     while total < stop {

@@ -113,10 +113,11 @@ impl Zipped {
         entry: &Entry,
         cap: u64,
         ratio: u64,
+        piece: usize,
         sink: &mut dyn FnMut(&[u8]) -> bool,
     ) -> Result<u64> {
         self.with_entry(entry, ratio, |file, allowed| {
-            stream_capped(file, cap, &entry.path, Some((allowed, ratio)), sink)
+            stream_capped(file, cap, &entry.path, Some((allowed, ratio)), piece, sink)
         })
     }
 

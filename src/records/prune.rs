@@ -17,7 +17,7 @@ use crate::mapping::{Field, Source};
 
 /// One step of a plain query.
 #[derive(Debug, Clone, PartialEq, Eq)]
-enum Step {
+pub(super) enum Step {
     Name(String),
     /// `*` or `[*]`: every member of an object, every element of an array.
     Any,
@@ -27,7 +27,7 @@ enum Step {
 
 /// Parse a query made only of `.name`, `['name']`, `.*`, `[*]` and `[n]` after `$`;
 /// `None` for anything else.
-fn plain_steps(text: &str) -> Option<Vec<Step>> {
+pub(super) fn plain_steps(text: &str) -> Option<Vec<Step>> {
     let rest = text.trim().strip_prefix('$')?;
     let b = rest.as_bytes();
     let mut steps = Vec::new();
@@ -175,6 +175,16 @@ impl Keep {
         let value = self.deserialize(&mut de)?;
         de.end()?;
         Ok(value)
+    }
+
+    /// What to keep of each element of the array reached by following `names` from
+    /// here (`None` if no query goes there).
+    pub(super) fn along(&self, names: &[String]) -> Option<&Keep> {
+        let mut at = self;
+        for name in names {
+            at = at.member(name)?;
+        }
+        at.element()
     }
 
     fn element(&self) -> Option<&Keep> {

@@ -120,14 +120,7 @@ fn read_json(
     if records.is_empty()
         && let Some(sel) = &source.records
     {
-        sink.warn(
-            Warning::new(format!(
-                "the records query {} found nothing in this file",
-                sel.describe()
-            ))
-            .in_file(file)
-            .on_field("records"),
-        );
+        sink.warn(records_found_nothing(file, sel));
     }
     for (i, value) in records.into_iter().enumerate() {
         let keep_going = sink.record(Record::Json {
@@ -140,6 +133,16 @@ fn read_json(
         }
     }
     Ok(())
+}
+
+/// The warning for a JSON file whose records query selects nothing.
+pub fn records_found_nothing(file: &str, query: &Field) -> Warning {
+    Warning::new(format!(
+        "the records query {} found nothing in this file",
+        query.describe()
+    ))
+    .in_file(file)
+    .on_field("records")
 }
 
 fn read_ndjson(
