@@ -2,26 +2,63 @@
 //! entries some source matches are read. A file that cannot be read, or a record that
 //! lacks a field, becomes a warning naming the file, record and field; the rest of the
 //! import goes on. Breaking a reading limit stops the import with an error that names
-//! the limit and how to raise it.
+//! the limit and how to raise it. A JSON file one source reads with a records query
+//! like `$.likes[*]` is cut at its records as it is inflated (records/split.rs) and
+//! never held whole; what its records do is staged (import/sink.rs) and kept only if
+//! all of the file was as expected, otherwise the file is read again whole, so the
+//! footprint, warnings and fingerprint are the same either way.
 
-use std::collections::BTreeMap;
 use std::sync::Arc;
-
-use foldhash::{HashMap, HashMapExt};
+use std::sync::mpsc::Receiver;
 
 use sha2::{Digest, Sha256};
 
-use crate::archive::{self, Archive, ReadBudget};
-use crate::footprint::{Footprint, Friend, Item, Origin, Warning};
+use crate::archive::{self, Archive, CHUNK, ReadBudget};
+use crate::footprint::{Footprint, Warning};
 use crate::limits::{LimitName, Limits};
-use crate::mapping::{Field, Mapping, Repair, Source, SourceKind};
+use crate::mapping::{Mapping, Source};
 use crate::records::{
-    FieldError, Record, RecordSink, decode_text, field_text, field_value, parse_date, read_records,
+    Record, RecordSink, SplitPlan, decode_text, read_records, records_found_nothing, split_records,
 };
-use crate::text::repair_latin1_mojibake;
 
-/// Detailed warnings kept per file and field before they are summarised.
-const DETAILED_WARNINGS: usize = 5;
+mod sink;
+
+use sink::{Effects, SourceSink, Staged, State};
+
+/// Pieces an entry being split may be read ahead by (1 MiB of the usual pieces).
+const PIECES_IN_FLIGHT: usize = 16;
+
+/// What the reading thread hands over: an entry read whole, or an entry being split,
+/// in pieces and then how its read ended (its size, or why it failed).
+enum Handover {
+    Whole(Result<Vec<u8>, archive::Error>),
+    Piece(Vec<u8>),
+    End(Result<u64, archive::Error>),
+}
+
+/// What became of a split entry, told back to the reading thread.
+enum Verdict {
+    Taken,
+    Again,
+}
+
+/// How an import reads (the defaults are what every caller wants; tests compare).
+#[derive(Debug, Clone, Copy)]
+pub struct Options {
+    /// Cut JSON files at their records as they are read, when the mapping allows.
+    pub split: bool,
+    /// Size of the pieces a split entry is read in.
+    pub piece: usize,
+}
+
+impl Default for Options {
+    fn default() -> Self {
+        Options {
+            split: true,
+            piece: CHUNK,
+        }
+    }
+}
 
 #[derive(Debug, thiserror::Error)]
 pub enum Error {
@@ -49,6 +86,18 @@ pub fn import_with_progress(
     mapping: &Mapping,
     limits: &Limits,
     progress: &mut dyn FnMut(u64, u64),
+) -> Result<Footprint, Error> {
+    import_with_options(archive, mapping, limits, progress, Options::default())
+}
+
+/// As [`import_with_progress`], reading as `options` says. The footprint, warnings and
+/// fingerprint are the same whatever the options.
+pub fn import_with_options(
+    archive: &mut Archive,
+    mapping: &Mapping,
+    limits: &Limits,
+    progress: &mut dyn FnMut(u64, u64),
+    options: Options,
 ) -> Result<Footprint, Error> {
     let mut budget = ReadBudget::new(limits);
     let mut state = State::new(limits.records);
@@ -95,18 +144,62 @@ pub fn import_with_progress(
     let mut done = 0u64;
     progress(done, total);
     let archive_name = archive.display_name();
-    // The entries are read (and inflated) on a second thread while this one parses
-    // the one before: a rendezvous channel hands each over, so at most two entries
-    // are held at once.
+    let too_many = || Error::TooManyRecords {
+        archive: archive_name.clone(),
+        limit: limits.get(LimitName::Records),
+    };
+    // Which entries are cut at their records as they are read: those one JSON source
+    // reads with a plain records query ending in `[*]`.
+    let plans: Vec<Option<SplitPlan>> = wanted
+        .iter()
+        .map(|(_, sources)| match sources.as_slice() {
+            [s] if options.split => SplitPlan::for_source(&mapping.sources[*s]),
+            _ => None,
+        })
+        .collect();
+    // The entries are read (and inflated) on a second thread while this one parses.
+    // An entry that is split comes in pieces through a bounded channel and is never
+    // held whole; any other entry is handed over whole once this thread is ready for
+    // it, so at most two are held at once. After a split entry the reading thread
+    // waits to hear whether it was taken, or must be read again whole (something in
+    // it was not as expected: the whole-file reader then says what).
     let digest = std::thread::scope(|scope| -> Result<_, Error> {
-        let (send, received) = std::sync::mpsc::sync_channel(0);
-        let (wanted, entries) = (&wanted, &entries);
+        let (send, received) = std::sync::mpsc::sync_channel(PIECES_IN_FLIGHT);
+        let (tell, verdicts) = std::sync::mpsc::channel();
+        let (wanted, entries, plans) = (&wanted, &entries, &plans);
         // The reading thread also takes the fingerprint, which covers the path and
         // bytes of every entry read, in order.
         let reader = scope.spawn(move || {
             let mut hasher = Sha256::new();
-            for (e_idx, _) in wanted {
+            for ((e_idx, _), plan) in wanted.iter().zip(plans) {
                 let entry = &entries[*e_idx];
+                if plan.is_some() {
+                    let (hashed, budgeted) = (hasher.clone(), budget.clone());
+                    hasher.update(entry.path.as_bytes());
+                    hasher.update([0]);
+                    let mut gone = false;
+                    let read = archive.stream(entry, &mut budget, options.piece, &mut |piece| {
+                        hasher.update(piece);
+                        gone = send.send(Handover::Piece(piece.to_vec())).is_err();
+                        !gone
+                    });
+                    if gone {
+                        break;
+                    }
+                    match &read {
+                        Ok(_) => hasher.update([0]),
+                        Err(_) => hasher = hashed.clone(),
+                    }
+                    let stop = matches!(read, Err(archive::Error::Limit { .. }));
+                    if send.send(Handover::End(read)).is_err() || stop {
+                        break;
+                    }
+                    match verdicts.recv() {
+                        Ok(Verdict::Taken) => continue,
+                        Ok(Verdict::Again) => (hasher, budget) = (hashed, budgeted),
+                        Err(_) => break,
+                    }
+                }
                 let read = archive.read(entry, &mut budget);
                 if let Ok(bytes) = &read {
                     hasher.update(entry.path.as_bytes());
@@ -115,15 +208,50 @@ pub fn import_with_progress(
                     hasher.update([0]);
                 }
                 let stop = matches!(read, Err(archive::Error::Limit { .. }));
-                if send.send(read).is_err() || stop {
+                if send.send(Handover::Whole(read)).is_err() || stop {
                     break;
                 }
             }
             hasher
         });
-        for ((e_idx, sources), read) in wanted.iter().zip(received) {
+        for ((e_idx, sources), plan) in wanted.iter().zip(plans) {
             let entry = &entries[*e_idx];
             done += entry.size;
+            // One shared path for every record of the entry.
+            let path: Arc<str> = entry.path.as_str().into();
+            if let Some(plan) = plan {
+                let source = &mapping.sources[sources[0]];
+                match take_split(&mut state, &received, plan, source, &path, limits) {
+                    Taken::Lost => break,
+                    Taken::Failed(e) => return Err(e.into()),
+                    Taken::Whole => {
+                        if tell.send(Verdict::Again).is_err() {
+                            break;
+                        }
+                    }
+                    Taken::Split(staged, split) => {
+                        if tell.send(Verdict::Taken).is_err() {
+                            break;
+                        }
+                        state.footprint.stats.files_read += 1;
+                        state.footprint.stats.bytes_read += split.bytes;
+                        staged.replay(&mut state);
+                        if split.records == 0
+                            && let Some(query) = &source.records
+                        {
+                            state.warn(records_found_nothing(&entry.path, query));
+                        }
+                        if state.over_limit {
+                            return Err(too_many());
+                        }
+                        progress(done, total);
+                        continue;
+                    }
+                }
+            }
+            let Ok(Handover::Whole(read)) = received.recv() else {
+                break;
+            };
             let bytes = match read {
                 Ok(b) => b,
                 Err(e @ archive::Error::Limit { .. }) => return Err(e.into()),
@@ -149,7 +277,6 @@ pub fn import_with_progress(
                     .in_file(&entry.path),
                 );
             }
-            let path: Arc<str> = entry.path.as_str().into();
             for s_idx in sources {
                 let source = &mapping.sources[*s_idx];
                 let mut sink = SourceSink {
@@ -161,14 +288,12 @@ pub fn import_with_progress(
                     state.footprint.warnings.push(w);
                 }
                 if state.over_limit {
-                    return Err(Error::TooManyRecords {
-                        archive: archive_name,
-                        limit: limits.get(LimitName::Records),
-                    });
+                    return Err(too_many());
                 }
             }
             progress(done, total);
         }
+        drop(tell);
         let hasher = reader
             .join()
             .unwrap_or_else(|e| std::panic::resume_unwind(e));
@@ -178,204 +303,84 @@ pub fn import_with_progress(
     Ok(state.finish())
 }
 
-struct State {
-    footprint: Footprint,
-    seen: HashMap<String, usize>,
-    records: u64,
-    record_limit: u64,
-    over_limit: bool,
-    /// (file, field, message) → how many times seen.
-    repeats: BTreeMap<(String, String), usize>,
+/// What a split entry gave.
+struct SplitEntry {
+    records: usize,
+    bytes: u64,
 }
 
-impl State {
-    fn new(record_limit: u64) -> Self {
-        State {
-            footprint: Footprint::default(),
-            seen: HashMap::new(),
-            records: 0,
-            record_limit,
-            over_limit: false,
-            repeats: BTreeMap::new(),
-        }
-    }
-
-    fn warn_record(&mut self, w: Warning) {
-        let key = (
-            w.file.clone().unwrap_or_default(),
-            w.field.clone().unwrap_or_default(),
-        );
-        let n = self.repeats.entry(key).or_insert(0);
-        *n += 1;
-        if *n <= DETAILED_WARNINGS {
-            self.footprint.warnings.push(w);
-        }
-    }
-
-    fn add_item(&mut self, item: Item) {
-        let key = item.key();
-        match self.seen.get(&key) {
-            Some(&i) => {
-                self.footprint.stats.duplicates_merged += 1;
-                let kept = &mut self.footprint.items[i];
-                if let (Some(new), Some(old)) = (item.date, kept.date) {
-                    kept.date = Some(new.min(old));
-                } else if kept.date.is_none() {
-                    kept.date = item.date;
-                }
-                if kept.category.is_none() {
-                    kept.category = item.category;
-                }
-            }
-            None => {
-                self.seen.insert(key, self.footprint.items.len());
-                self.footprint.items.push(item);
-            }
-        }
-    }
-
-    fn finish(mut self) -> Footprint {
-        for ((file, field), n) in &self.repeats {
-            if *n > DETAILED_WARNINGS {
-                let mut w = Warning::new(format!(
-                    "{} more record(s) with the same problem",
-                    n - DETAILED_WARNINGS
-                ))
-                .in_file(file.clone());
-                if !field.is_empty() {
-                    w = w.on_field(field.clone());
-                }
-                self.footprint.warnings.push(w);
-            }
-        }
-        self.footprint
-    }
+enum Taken {
+    /// Read and split: what its records do, not done yet.
+    Split(Staged, SplitEntry),
+    /// To be read again whole.
+    Whole,
+    /// A reading limit stopped it (the import stops).
+    Failed(archive::Error),
+    /// The reading thread stopped.
+    Lost,
 }
 
-struct SourceSink<'a> {
-    state: &'a mut State,
-    source: &'a Source,
-    file: &'a Arc<str>,
-}
-
-impl SourceSink<'_> {
-    fn problem(&mut self, record: &Record<'_>, field: &str, message: String) {
-        let mut w = Warning::new(message)
-            .in_file(&**self.file)
-            .at_record(record.number())
-            .on_field(field);
-        if let Some(line) = record.line() {
-            w = w.at_line(line);
-        }
-        self.state.warn_record(w);
-    }
-
-    fn text(&mut self, record: &Record<'_>, field: Option<&Field>, name: &str) -> Option<String> {
-        let field = field?;
-        match field_text(record, field) {
-            Ok(Some(t)) => Some(match self.source.repair {
-                Repair::None => t,
-                Repair::Latin1Mojibake => repair_latin1_mojibake(&t),
-            }),
-            Ok(None) | Err(FieldError::Missing) => None,
-            Err(FieldError::WrongType(m)) => {
-                self.problem(record, name, m);
-                None
-            }
-        }
-    }
-
-    fn date(&mut self, record: &Record<'_>) -> Option<i64> {
-        let field = self.source.date.as_ref()?;
-        match field_value(record, field) {
-            Ok(Some(v)) => match parse_date(&v, self.source.date_format) {
-                Ok(d) => Some(d),
-                Err(m) => {
-                    self.problem(record, "date", format!("{m}; date left out"));
-                    None
-                }
-            },
-            Ok(None) | Err(FieldError::Missing) => None,
-            Err(FieldError::WrongType(m)) => {
-                self.problem(record, "date", m);
-                None
-            }
-        }
-    }
-
-    fn origin(&self, record: &Record<'_>) -> Origin {
-        Origin {
-            file: Arc::clone(self.file),
-            record: record.number(),
-        }
-    }
-}
-
-impl RecordSink for SourceSink<'_> {
-    fn record(&mut self, record: Record<'_>) -> bool {
-        self.state.records += 1;
-        self.state.footprint.stats.records_seen += 1;
-        if self.state.records > self.state.record_limit {
-            self.state.over_limit = true;
+/// Take one entry's pieces and cut it at its records, staging what they do. Every
+/// piece of the entry is taken, whatever happens.
+fn take_split(
+    state: &mut State,
+    received: &Receiver<Handover>,
+    plan: &SplitPlan,
+    source: &Source,
+    file: &Arc<str>,
+    limits: &Limits,
+) -> Taken {
+    let mut staged = Staged::on(state);
+    let mut end = None;
+    let mut lost = false;
+    let mut fill = |buf: &mut Vec<u8>| {
+        if end.is_some() || lost {
             return false;
         }
-        match self.source.kind {
-            SourceKind::SelfDeclared => {
-                for (attr, field) in &self.source.attributes {
-                    let name = format!("attributes.{attr}");
-                    if let Some(v) = self.text(&record, Some(field), &name) {
-                        self.state.footprint.declared.insert(attr.clone(), v);
-                    }
-                }
+        match received.recv() {
+            Ok(Handover::Piece(piece)) => {
+                buf.extend_from_slice(&piece);
+                true
             }
-            SourceKind::Friend => {
-                let Some(name) = self.text(&record, self.source.name.as_ref(), "name") else {
-                    self.problem(&record, "name", "no name; record skipped".into());
-                    self.state.footprint.stats.records_skipped += 1;
-                    return true;
-                };
-                let id = self.text(&record, self.source.id.as_ref(), "id");
-                let date = self.date(&record);
-                let mut attributes = BTreeMap::new();
-                for (attr, field) in &self.source.attributes {
-                    let fname = format!("attributes.{attr}");
-                    if let Some(v) = self.text(&record, Some(field), &fname) {
-                        attributes.insert(attr.clone(), v);
-                    }
-                }
-                let origin = self.origin(&record);
-                self.state.footprint.friends.push(Friend {
-                    name,
-                    id,
-                    date,
-                    attributes,
-                    origin,
-                });
+            Ok(Handover::End(read)) => {
+                end = Some(read);
+                false
             }
-            SourceKind::Item(kind) => {
-                let Some(name) = self.text(&record, self.source.name.as_ref(), "name") else {
-                    self.problem(&record, "name", "no name; record skipped".into());
-                    self.state.footprint.stats.records_skipped += 1;
-                    return true;
-                };
-                let id = self.text(&record, self.source.id.as_ref(), "id");
-                let category = self.text(&record, self.source.category.as_ref(), "category");
-                let date = self.date(&record);
-                let origin = self.origin(&record);
-                self.state.add_item(Item {
-                    kind,
-                    name: name.into(),
-                    id: id.map(Into::into),
-                    category: category.map(Into::into),
-                    date,
-                    origin,
-                });
+            Ok(Handover::Whole(_)) | Err(_) => {
+                lost = true;
+                false
             }
         }
-        true
+    };
+    let mut sink = SourceSink {
+        state: &mut staged,
+        source,
+        file,
+    };
+    let mut number = 0;
+    let split = split_records(plan, limits.json_depth, &mut fill, &mut |value| {
+        number += 1;
+        sink.record(Record::Json {
+            number,
+            line: None,
+            value: &value,
+        })
+    });
+    // The rest of the entry, when the split stopped early.
+    let mut rest = Vec::new();
+    while fill(&mut rest) {
+        rest.clear();
     }
-
-    fn warn(&mut self, warning: Warning) {
-        self.state.footprint.warnings.push(warning);
+    match (end, split) {
+        (None, _) => Taken::Lost,
+        (Some(Err(e @ archive::Error::Limit { .. })), _) => Taken::Failed(e),
+        (Some(Ok(bytes)), Ok(split)) => Taken::Split(
+            staged,
+            SplitEntry {
+                records: split.records,
+                bytes,
+            },
+        ),
+        (Some(_), _) => Taken::Whole,
     }
 }
