@@ -28,10 +28,10 @@ use sink::{Effects, SourceSink, Staged, State};
 /// Pieces an entry being split may be read ahead by (1 MiB of the usual pieces).
 const PIECES_IN_FLIGHT: usize = 16;
 
-/// What the reading thread hands over: an entry read whole, or an entry being split,
-/// in pieces and then how its read ended (its size, or why it failed).
+/// What the reading thread hands over of an entry being split: its pieces, then how
+/// its read ended (its size, or why it failed). Entries read whole go through a
+/// channel of their own.
 enum Handover {
-    Whole(Result<Vec<u8>, archive::Error>),
     Piece(Vec<u8>),
     End(Result<u64, archive::Error>),
 }
@@ -159,12 +159,13 @@ pub fn import_with_options(
         .collect();
     // The entries are read (and inflated) on a second thread while this one parses.
     // An entry that is split comes in pieces through a bounded channel and is never
-    // held whole; any other entry is handed over whole once this thread is ready for
-    // it, so at most two are held at once. After a split entry the reading thread
+    // held whole; any other entry is handed over whole through a rendezvous channel,
+    // so at most two are held at once. After a split entry the reading thread
     // waits to hear whether it was taken, or must be read again whole (something in
     // it was not as expected: the whole-file reader then says what).
     let digest = std::thread::scope(|scope| -> Result<_, Error> {
         let (send, received) = std::sync::mpsc::sync_channel(PIECES_IN_FLIGHT);
+        let (send_whole, received_whole) = std::sync::mpsc::sync_channel(0);
         let (tell, verdicts) = std::sync::mpsc::channel();
         let (wanted, entries, plans) = (&wanted, &entries, &plans);
         // The reading thread also takes the fingerprint, which covers the path and
@@ -208,7 +209,7 @@ pub fn import_with_options(
                     hasher.update([0]);
                 }
                 let stop = matches!(read, Err(archive::Error::Limit { .. }));
-                if send.send(Handover::Whole(read)).is_err() || stop {
+                if send_whole.send(read).is_err() || stop {
                     break;
                 }
             }
@@ -249,7 +250,7 @@ pub fn import_with_options(
                     }
                 }
             }
-            let Ok(Handover::Whole(read)) = received.recv() else {
+            let Ok(read) = received_whole.recv() else {
                 break;
             };
             let bytes = match read {
@@ -346,7 +347,7 @@ fn take_split(
                 end = Some(read);
                 false
             }
-            Ok(Handover::Whole(_)) | Err(_) => {
+            Err(_) => {
                 lost = true;
                 false
             }
