@@ -421,7 +421,7 @@ fn the_generated_files_exercise_both_paths() {
     );
     assert_eq!(split, whole);
     let fp = split.0.expect("import");
-    let names: Vec<&str> = fp.items.iter().map(|i| i.name.as_str()).collect();
+    let names: Vec<&str> = fp.items.iter().map(|i| &*i.name).collect();
     assert_eq!(names, ["Alder \"[x]\"", "Birch"]);
     // The broken file is skipped whole, with the whole-file reader's warning.
     assert!(

@@ -86,10 +86,10 @@ fn streamed_import_reads_every_record_and_fingerprints_every_byte() {
     assert!(fp.warnings.is_empty(), "{:?}", fp.warnings);
     assert_eq!(fp.items.len(), 1000 + 3 + 2);
     // Entries are read in path order: groups.csv, likes/a.json, likes/b.json.
-    assert_eq!(fp.items[0].name, "Chess club");
-    assert_eq!(fp.items[2].name, "alpha page 0");
-    assert_eq!(fp.items[1001].name, "alpha page 999");
-    assert_eq!(fp.items[1002].name, "beta page 0");
+    assert_eq!(&*fp.items[0].name, "Chess club");
+    assert_eq!(&*fp.items[2].name, "alpha page 0");
+    assert_eq!(&*fp.items[1001].name, "alpha page 999");
+    assert_eq!(&*fp.items[1002].name, "beta page 0");
     assert_eq!(fp.stats.files_read, 3);
     assert_eq!(fp.stats.bytes_read, (a.len() + b.len() + csv.len()) as u64);
     assert_eq!(
@@ -119,7 +119,7 @@ fn an_entry_failing_part_way_is_a_warning_and_left_out() {
         Archive::zip_from_bytes(bytes, Path::new("t.zip"), &limits).expect("open zip");
     let mapping = Mapping::parse(MAPPING, "m.toml").expect("mapping");
     let fp = import(&mut archive, &mapping, &limits).expect("import");
-    let names: Vec<&str> = fp.items.iter().map(|i| i.name.as_str()).collect();
+    let names: Vec<&str> = fp.items.iter().map(|i| &*i.name).collect();
     assert_eq!(names, ["beta page 0", "beta page 1", "beta page 2"]);
     let skipped: Vec<_> = fp
         .warnings
