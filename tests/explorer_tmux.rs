@@ -312,3 +312,91 @@ fn loading_screen_keys_and_load_errors() {
     let status = t.pane("#{pane_dead_status}");
     assert!(status == "1" || status.is_empty(), "status {status:?}");
 }
+
+/// Closing the terminal (here: killing the tmux server, which closes the terminal's
+/// master side) ends the explorer promptly with the decisions saved. The program is
+/// not the terminal's session leader here (a shell starts it without `exec`), so it
+/// sees the hangup as end of input on its terminal rather than as SIGHUP: POSIX sends
+/// SIGHUP to the controlling process on a modem disconnect (POSIX.1-2017, General
+/// Terminal Interface, 11.1.10 Modem Disconnect, from memory), and later reads return
+/// end of file. Before the fix the explorer spun on that end of input for ever.
+#[test]
+fn closing_the_terminal_saves_and_quits() {
+    let Some(mut t) = driver(
+        "closing_the_terminal_saves_and_quits",
+        "a closed terminal",
+        "telltale-hangup",
+    ) else {
+        return;
+    };
+    t.target = "hangup".into();
+    let data = tempfile::tempdir().unwrap();
+    let archive = concat!(env!("CARGO_MANIFEST_DIR"), "/demo-exports/reporter");
+    let bin = env!("CARGO_BIN_EXE_telltale");
+    // No `exec`: the shell stays the session leader, as in a terminal window.
+    let cmd = format!(
+        "TELLTALE_DATA_DIR='{}' NO_COLOR=1 TERM=xterm-256color '{bin}' '{archive}'; true",
+        data.path().display()
+    );
+    t.run(&[
+        "new-session",
+        "-d",
+        "-s",
+        "hangup",
+        "-x",
+        "80",
+        "-y",
+        "24",
+        &cmd,
+    ]);
+    t.wait_for("the cautions", |s| s.contains("Before you act on this"));
+    t.keys(&["Space"]);
+    t.wait_for("the overview", |s| {
+        s.contains("population rate") && !s.contains("Before you act on this")
+    });
+    t.keys(&["Enter"]);
+    t.wait_for("the item list", |s| s.contains("gives away"));
+    t.keys(&["x"]);
+    t.wait_for("the hidden mark", |s| s.contains("Hidden (what-if)"));
+    // The explorer's process: the pane's shell's child.
+    let shell = t.pane("#{pane_pid}");
+    let out = Command::new("pgrep")
+        .args(["-P", &shell])
+        .output()
+        .expect("pgrep runs");
+    let pid = String::from_utf8_lossy(&out.stdout).trim().to_string();
+    assert!(
+        !pid.is_empty(),
+        "no explorer process under the shell {shell}"
+    );
+    t.run(&["kill-server"]);
+    let alive = |pid: &str| {
+        std::fs::read_to_string(format!("/proc/{pid}/stat")).is_ok_and(|s| {
+            !s.rsplit(')')
+                .next()
+                .unwrap_or("")
+                .trim_start()
+                .starts_with('Z')
+        })
+    };
+    // A few seconds: common practice, no source (it leaves within a poll interval).
+    let until = Instant::now() + Duration::from_secs(5);
+    while alive(&pid) && Instant::now() < until {
+        std::thread::sleep(Duration::from_millis(50));
+    }
+    let still = alive(&pid);
+    if still {
+        let _ = Command::new("kill").args(["-KILL", &pid]).status();
+    }
+    assert!(
+        !still,
+        "the explorer ({pid}) still runs 5 s after its terminal closed"
+    );
+    let saved = std::fs::read_dir(data.path().join("decisions"))
+        .unwrap()
+        .flatten()
+        .find(|e| e.path().extension().is_some_and(|x| x == "json"))
+        .expect("a decisions file");
+    let text = std::fs::read_to_string(saved.path()).unwrap();
+    assert!(text.contains("\"hide\""), "{text}");
+}

@@ -18,7 +18,7 @@ use telltale::scan::{Scan, ScanInput, load_priors};
 use telltale::whatif::{PlanAsk, Session};
 
 use super::app::{App, Effect, ExportFormat};
-use super::terminal::{Guard, stop_flag};
+use super::terminal::{Guard, Input, stop_flag, wait_input};
 use super::theme::Theme;
 use super::view;
 
@@ -190,14 +190,18 @@ pub fn run(opts: Options) -> Result<()> {
         if stop.load(Ordering::Relaxed) {
             return Ok(());
         }
-        guard
+        // A terminal that cannot be drawn on is gone: nothing to save yet.
+        if guard
             .terminal
-            .draw(|f| view::render_loading(f, &archive_label, stage, started.elapsed(), theme))?;
-        if poll(Duration::from_millis(100))?
-            && let Some(Event::Key(k)) = read()?
-            && quits_loading(&k)
+            .draw(|f| view::render_loading(f, &archive_label, stage, started.elapsed(), theme))
+            .is_err()
         {
             return Ok(());
+        }
+        match next_event(Duration::from_millis(100)) {
+            Wait::Gone => return Ok(()),
+            Wait::Event(Event::Key(k)) if quits_loading(&k) => return Ok(()),
+            _ => {}
         }
         let mut ready = None;
         loop {
@@ -229,18 +233,29 @@ pub fn run(opts: Options) -> Result<()> {
     // screen answers the key first and the disk write (with its syncs) comes after.
     let mut save_pending = false;
     let mut last_tick = Instant::now();
+    // A terminal error ends the loop through the save below, then is reported.
+    let mut failed: Option<std::io::Error> = None;
     while !app.quit {
         if stop.load(Ordering::Relaxed) {
             break;
         }
-        let size = guard.terminal.size()?;
+        let size = match guard.terminal.size() {
+            Ok(size) => size,
+            Err(e) => {
+                failed = Some(e);
+                break;
+            }
+        };
         app.page = view::page_rows(
             &app,
             ratatui::layout::Rect::new(0, 0, size.width, size.height),
         );
         let busy = matches!(app.plan, super::app::PlanState::Running { .. });
         if dirty || (busy && last_tick.elapsed() >= Duration::from_millis(200)) {
-            guard.terminal.draw(|f| view::render(&app, f, theme))?;
+            if let Err(e) = guard.terminal.draw(|f| view::render(&app, f, theme)) {
+                failed = Some(e);
+                break;
+            }
             dirty = false;
             last_tick = Instant::now();
             // Test hook (tests/explorer_tmux.rs): a deliberate panic once a screen is up,
@@ -274,14 +289,13 @@ pub fn run(opts: Options) -> Result<()> {
                 dirty = true;
             }
         }
-        if !poll(Duration::from_millis(100))? {
-            continue;
-        }
-        let effects = match read()? {
-            None => continue,
-            Some(Event::Key(k)) if k.kind == KeyEventKind::Press => app.handle_key(k),
-            Some(Event::Resize(..)) => Vec::new(),
-            _ => continue,
+        let effects = match next_event(Duration::from_millis(100)) {
+            // Closed window, dropped connection: save and leave like a quit.
+            Wait::Gone => break,
+            Wait::Nothing => continue,
+            Wait::Event(Event::Key(k)) if k.kind == KeyEventKind::Press => app.handle_key(k),
+            Wait::Event(Event::Resize(..)) => Vec::new(),
+            Wait::Event(_) => continue,
         };
         dirty = true;
         for effect in effects {
@@ -335,24 +349,45 @@ pub fn run(opts: Options) -> Result<()> {
         let _ = store.save(&app.session.decisions());
     }
     drop(guard);
-    Ok(())
-}
-
-/// Wait for input; a signal interrupting the wait is not an error (the loop then sees
-/// the stop flag).
-fn poll(timeout: Duration) -> std::io::Result<bool> {
-    match event::poll(timeout) {
-        Err(e) if e.kind() == std::io::ErrorKind::Interrupted => Ok(false),
-        other => other,
+    match failed {
+        Some(e) => Err(e).context("the terminal failed"),
+        None => Ok(()),
     }
 }
 
-/// Read one event; `None` when a signal interrupted the read.
-fn read() -> std::io::Result<Option<Event>> {
-    match event::read() {
-        Ok(e) => Ok(Some(e)),
-        Err(e) if e.kind() == std::io::ErrorKind::Interrupted => Ok(None),
-        Err(e) => Err(e),
+/// What waiting for an event brought.
+enum Wait {
+    Event(Event),
+    /// Nothing yet (timeout, a signal, or input crossterm reads next time round).
+    Nothing,
+    /// The terminal is gone (hangup, end of input, a persistent error): leave.
+    Gone,
+}
+
+/// Wait up to `timeout` for an event. The terminal is checked for a hangup before
+/// crossterm reads it (see [`wait_input`]); errors other than an interrupting signal
+/// count as the terminal gone, so a repeating error never spins the loop.
+fn next_event(timeout: Duration) -> Wait {
+    if wait_input(Duration::ZERO) == Input::Gone {
+        return Wait::Gone;
+    }
+    // Events crossterm already holds (several keys read at once, a resize).
+    match event::poll(Duration::ZERO) {
+        Ok(true) => {
+            return match event::read() {
+                Ok(e) => Wait::Event(e),
+                Err(e) if e.kind() == std::io::ErrorKind::Interrupted => Wait::Nothing,
+                Err(_) => Wait::Gone,
+            };
+        }
+        Ok(false) => {}
+        Err(e) if e.kind() == std::io::ErrorKind::Interrupted => return Wait::Nothing,
+        Err(_) => return Wait::Gone,
+    }
+    match wait_input(timeout) {
+        Input::Gone => Wait::Gone,
+        // Ready: crossterm reads it on the next call, after the hangup check.
+        Input::Ready | Input::Idle => Wait::Nothing,
     }
 }
 
