@@ -182,12 +182,7 @@ fn explorer_in_a_real_terminal() {
         "0",
         "still in the alternate screen"
     );
-    let saved = std::fs::read_dir(data.path().join("decisions"))
-        .unwrap()
-        .flatten()
-        .find(|e| e.path().extension().is_some_and(|x| x == "json"))
-        .expect("a decisions file");
-    let text = std::fs::read_to_string(saved.path()).unwrap();
+    let text = saved_decisions(data.path());
     assert!(text.contains("\"hide\""), "{text}");
 
     // Reopen: decisions restored, no cautions; then SIGTERM.
@@ -392,11 +387,16 @@ fn closing_the_terminal_saves_and_quits() {
         !still,
         "the explorer ({pid}) still runs 5 s after its terminal closed"
     );
-    let saved = std::fs::read_dir(data.path().join("decisions"))
+    let text = saved_decisions(data.path());
+    assert!(text.contains("\"hide\""), "{text}");
+}
+
+/// The text of the one decisions file saved under the data folder.
+fn saved_decisions(data: &std::path::Path) -> String {
+    let saved = std::fs::read_dir(data.join("decisions"))
         .unwrap()
         .flatten()
         .find(|e| e.path().extension().is_some_and(|x| x == "json"))
         .expect("a decisions file");
-    let text = std::fs::read_to_string(saved.path()).unwrap();
-    assert!(text.contains("\"hide\""), "{text}");
+    std::fs::read_to_string(saved.path()).unwrap()
 }
