@@ -72,8 +72,12 @@ pub struct Contribution {
 pub struct Exposure {
     models: Vec<AttrModel>,
     evidence: EvidenceSet,
-    /// Evidence indices per item, plus one list for the friend list at the end.
-    by_subject: Vec<Vec<usize>>,
+    /// Evidence indices grouped by subject (items in order, then the friend list), in
+    /// evidence order within each subject; subject `s` owns
+    /// `by_subject[starts[s]..starts[s + 1]]`. Two flat lists instead of one small
+    /// list per item: a large archive has over 100,000 items.
+    by_subject: Vec<usize>,
+    starts: Vec<u32>,
     hidden: Vec<bool>,
     sums: Vec<Vec<f64>>,
     feeding: Vec<usize>,
@@ -94,10 +98,7 @@ impl Exposure {
 
     pub fn with_models(models: Vec<AttrModel>, evidence: EvidenceSet) -> Exposure {
         let n_subjects = evidence.n_items + 1;
-        let mut by_subject = vec![Vec::new(); n_subjects];
-        for (i, e) in evidence.list.iter().enumerate() {
-            by_subject[slot(e.subject(), evidence.n_items)].push(i);
-        }
+        let (by_subject, starts) = group_by_subject(&evidence, n_subjects);
         let mut x = Exposure {
             sums: models.iter().map(|m| vec![0.0; m.log_base.len()]).collect(),
             feeding: vec![0; models.len()],
@@ -105,6 +106,7 @@ impl Exposure {
             models,
             evidence,
             by_subject,
+            starts,
             hidden: vec![false; n_subjects],
         };
         x.recompute();
@@ -121,11 +123,12 @@ impl Exposure {
         for p in &mut self.pointing {
             p.iter_mut().for_each(|v| *v = 0);
         }
-        for (slot, list) in self.by_subject.iter().enumerate() {
+        for slot in 0..self.hidden.len() {
             if self.hidden[slot] {
                 continue;
             }
-            for &ei in list {
+            let range = self.starts[slot] as usize..self.starts[slot + 1] as usize;
+            for &ei in &self.by_subject[range] {
                 let e = &self.evidence.list[ei];
                 for (s, l) in self.sums[e.attribute()].iter_mut().zip(e.log_lr().iter()) {
                     *s += l;
@@ -159,7 +162,11 @@ impl Exposure {
 
     /// Evidence indices for one subject.
     pub fn evidence_of(&self, subject: Subject) -> &[usize] {
-        &self.by_subject[slot(subject, self.evidence.n_items)]
+        self.of_slot(slot(subject, self.evidence.n_items))
+    }
+
+    fn of_slot(&self, s: usize) -> &[usize] {
+        &self.by_subject[self.starts[s] as usize..self.starts[s + 1] as usize]
     }
 
     /// Hide or show a subject; returns whether anything changed. Cost: the subject's
@@ -171,7 +178,8 @@ impl Exposure {
         }
         self.hidden[s] = hidden;
         let sign = if hidden { -1.0 } else { 1.0 };
-        for &ei in &self.by_subject[s] {
+        let range = self.starts[s] as usize..self.starts[s + 1] as usize;
+        for &ei in &self.by_subject[range] {
             let e = &self.evidence.list[ei];
             for (sum, l) in self.sums[e.attribute()].iter_mut().zip(e.log_lr().iter()) {
                 *sum += sign * l;
@@ -234,7 +242,7 @@ impl Exposure {
         let s = slot(subject, self.evidence.n_items);
         let sign = if self.hidden[s] { 1.0 } else { -1.0 };
         let mut sum = self.sums[a].clone();
-        for &ei in &self.by_subject[s] {
+        for &ei in self.of_slot(s) {
             let e = &self.evidence.list[ei];
             if e.attribute() == a {
                 for (x, l) in sum.iter_mut().zip(e.log_lr().iter()) {
@@ -269,6 +277,26 @@ impl Exposure {
         out.sort_by(|x, y| y.toward_best_bits.total_cmp(&x.toward_best_bits));
         out
     }
+}
+
+/// Evidence indices grouped by subject slot (a counting sort, stable), and where each
+/// slot's group starts (`n_subjects + 1` entries).
+fn group_by_subject(evidence: &EvidenceSet, n_subjects: usize) -> (Vec<usize>, Vec<u32>) {
+    let mut starts = vec![0u32; n_subjects + 1];
+    for e in &evidence.list {
+        starts[slot(e.subject(), evidence.n_items) + 1] += 1;
+    }
+    for s in 1..starts.len() {
+        starts[s] += starts[s - 1];
+    }
+    let mut next: Vec<u32> = starts[..n_subjects].to_vec();
+    let mut by_subject = vec![0usize; evidence.list.len()];
+    for (i, e) in evidence.list.iter().enumerate() {
+        let n = &mut next[slot(e.subject(), evidence.n_items)];
+        by_subject[*n as usize] = i;
+        *n += 1;
+    }
+    (by_subject, starts)
 }
 
 fn slot(subject: Subject, n_items: usize) -> usize {
@@ -388,5 +416,42 @@ mod tests {
                 .count();
             assert_eq!(n, direct);
         }
+    }
+
+    /// The flat grouping gives each subject exactly its own evidence, in evidence
+    /// order, whatever order the evidence list mixes subjects in (counted directly).
+    #[test]
+    fn evidence_of_lists_each_subjects_own_evidence_in_order() {
+        let base = [0.5, 0.5];
+        let mut set = EvidenceSet::new(6);
+        // Subjects out of order, some repeated, item 4 without evidence.
+        for &i in &[3, 0, 5, 3, 1, 0, 3, 2, 5] {
+            set.push(ev(i, &[0.7, 0.3], &base));
+        }
+        set.push(Evidence::from_distribution(
+            Subject::FriendList,
+            0,
+            vec![0.4, 0.6],
+            &base,
+            10.0,
+            Origin::Mark,
+        ));
+        let x = Exposure::with_models(vec![model(&base, 1.0)], set);
+        let subjects = (0..6).map(Subject::Item).chain([Subject::FriendList]);
+        let mut seen = 0;
+        for subject in subjects {
+            let direct: Vec<usize> = x
+                .evidence()
+                .list
+                .iter()
+                .enumerate()
+                .filter(|(_, e)| e.subject() == subject)
+                .map(|(i, _)| i)
+                .collect();
+            assert_eq!(x.evidence_of(subject), direct.as_slice(), "{subject:?}");
+            seen += direct.len();
+        }
+        assert_eq!(seen, x.evidence().list.len());
+        assert!(x.evidence_of(Subject::Item(4)).is_empty());
     }
 }

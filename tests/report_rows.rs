@@ -110,3 +110,63 @@ fn rows_come_most_revealing_first() {
         }
     }
 }
+
+/// Each row's figures are the exposure's own per-subject contributions
+/// ([`telltale::infer::Exposure::contributions`]: the bits toward the best guess and
+/// the leave-one-out drop), for every attribute, with and without hidden items. The
+/// rows work them out when they are made; the exposure computes them in one pass.
+#[test]
+fn row_figures_are_the_exposures_contributions() {
+    let priors = load_priors(None).unwrap();
+    for name in personas() {
+        let mut s = scan(name, &priors);
+        for round in 0..2 {
+            if round == 1 {
+                for i in (0..s.footprint.items.len()).step_by(4) {
+                    s.exposure.set_hidden(Subject::Item(i), true);
+                }
+            }
+            let rows = s.report(&priors).items;
+            let mut total = 0;
+            for (a, attr) in priors.attributes.iter().enumerate() {
+                let mut from_rows: Vec<(String, u64, u64)> = rows
+                    .iter()
+                    .filter(|r| *r.attribute == *attr.id)
+                    .map(|r| {
+                        (
+                            r.name.clone(),
+                            r.contribution_bits.to_bits(),
+                            r.if_hidden_drop.to_bits(),
+                        )
+                    })
+                    .collect();
+                let mut from_exposure: Vec<(String, u64, u64)> = s
+                    .exposure
+                    .contributions(a)
+                    .iter()
+                    .map(|c| {
+                        let name = match c.subject {
+                            Subject::Item(i) => s.footprint.items[i].name.to_string(),
+                            Subject::FriendList => "your friend list".to_string(),
+                        };
+                        (name, c.toward_best_bits.to_bits(), c.loo_drop.to_bits())
+                    })
+                    .collect();
+                from_rows.sort();
+                from_exposure.sort();
+                assert_eq!(
+                    from_rows, from_exposure,
+                    "{name}, {}, round {round}",
+                    attr.id
+                );
+                total += from_rows.len();
+            }
+            assert_eq!(
+                total,
+                rows.len(),
+                "{name}: every row belongs to an attribute"
+            );
+            assert!(total > 5, "{name}: too few rows to compare");
+        }
+    }
+}

@@ -10,7 +10,7 @@ use serde::ser::{Serialize, SerializeSeq, Serializer};
 
 use crate::evidence::{LexiconRule, Origin, Subject};
 use crate::footprint::Footprint;
-use crate::infer::{Contribution, Exposure};
+use crate::infer::Exposure;
 use crate::priors::Priors;
 
 use super::build::ItemReport;
@@ -33,15 +33,34 @@ struct AttrStrings {
     value_labels: Vec<Arc<str>>,
 }
 
+/// What a row needs of its attribute's current posterior.
+struct Guess {
+    /// Index of the best guess.
+    best: usize,
+    /// Its probability.
+    probability: f64,
+    /// The weight one unit of log-likelihood ratio gets (λ).
+    weight: f64,
+}
+
+impl Guess {
+    /// `λ·log₂ L(best guess)`: bits this piece of evidence adds toward the best guess
+    /// (the same figure as [`crate::infer::Contribution::toward_best_bits`]).
+    fn toward_best_bits(&self, log_lr: &[f64]) -> f64 {
+        self.weight * log_lr[self.best] / std::f64::consts::LN_2
+    }
+}
+
 /// The rows of a report, ready to be made in order.
 pub struct Rows<'a> {
     footprint: &'a Footprint,
     exposure: &'a Exposure,
     attrs: Vec<AttrStrings>,
-    /// Per attribute, its contributions (strongest toward the best guess first).
-    contributions: Vec<Vec<Contribution>>,
-    /// Report order: (attribute, position in its contributions).
-    order: Vec<(u32, u32)>,
+    guesses: Vec<Guess>,
+    /// Report order: indices into the evidence list (visible subjects only). A row's
+    /// figures are worked out when it is made, so a large archive's rows cost four
+    /// bytes each until then.
+    order: Vec<u32>,
 }
 
 impl<'a> Rows<'a> {
@@ -55,32 +74,40 @@ impl<'a> Rows<'a> {
                 value_labels: a.values.iter().map(|v| v.label.as_str().into()).collect(),
             })
             .collect();
-        let contributions: Vec<Vec<Contribution>> = (0..priors.attributes.len())
-            .map(|ai| exposure.contributions(ai))
+        let guesses: Vec<Guess> = (0..priors.attributes.len())
+            .map(|ai| {
+                let post = exposure.posterior(ai);
+                Guess {
+                    best: post.best,
+                    probability: post.probability,
+                    weight: exposure.models()[ai].weight(),
+                }
+            })
             .collect();
-        let mut order: Vec<(u32, u32)> =
-            Vec::with_capacity(contributions.iter().map(Vec::len).sum());
-        for (ai, cs) in contributions.iter().enumerate() {
-            order.extend((0..cs.len()).map(|ci| (ai as u32, ci as u32)));
-        }
-        // Most bits toward the guess first, then the most informative; ties keep the
-        // attribute-by-attribute order (so the sort is deterministic).
-        let bits = |&(ai, ci): &(u32, u32)| {
-            let c = &contributions[ai as usize][ci as usize];
-            (
-                c.toward_best_bits,
-                exposure.evidence().list[c.evidence].info_bits(),
-            )
+        let list = &exposure.evidence().list;
+        let mut order: Vec<u32> = (0..list.len())
+            .filter(|&i| !exposure.is_hidden(list[i].subject()))
+            .map(|i| i as u32)
+            .collect();
+        // Most bits toward the guess first, then the most informative; ties go by
+        // attribute, then by evidence order (so the sort is deterministic).
+        let key = |&i: &u32| {
+            let e = &list[i as usize];
+            let bits = guesses[e.attribute()].toward_best_bits(e.log_lr());
+            (bits, e.info_bits(), e.attribute())
         };
         order.sort_unstable_by(|a, b| {
-            let ((xc, xb), (yc, yb)) = (bits(a), bits(b));
-            yc.total_cmp(&xc).then(yb.total_cmp(&xb)).then(a.cmp(b))
+            let ((xc, xb, xa), (yc, yb, ya)) = (key(a), key(b));
+            yc.total_cmp(&xc)
+                .then(yb.total_cmp(&xb))
+                .then(xa.cmp(&ya))
+                .then(a.cmp(b))
         });
         Rows {
             footprint,
             exposure,
             attrs,
-            contributions,
+            guesses,
             order,
         }
     }
@@ -98,14 +125,18 @@ impl<'a> Rows<'a> {
         let mut described = Described::default();
         self.order
             .iter()
-            .map(move |&(ai, ci)| self.row(ai as usize, ci as usize, &mut described))
+            .map(move |&ei| self.row(ei as usize, &mut described))
     }
 
-    fn row(&self, ai: usize, ci: usize, described: &mut Described) -> ItemReport {
-        let c = &self.contributions[ai][ci];
+    fn row(&self, ei: usize, described: &mut Described) -> ItemReport {
+        let e = &self.exposure.evidence().list[ei];
+        let ai = e.attribute();
         let strings = &self.attrs[ai];
-        let e = &self.exposure.evidence().list[c.evidence];
-        let (name, kind, date) = match c.subject {
+        let guess = &self.guesses[ai];
+        // Leave-one-out: how far the best guess falls with all of this subject's
+        // evidence for the attribute removed.
+        let without = self.exposure.posterior_toggled(ai, e.subject());
+        let (name, kind, date) = match e.subject() {
             Subject::Item(i) => {
                 let it = &self.footprint.items[i];
                 (String::from(&*it.name), it.kind.as_str(), it.date)
@@ -121,8 +152,8 @@ impl<'a> Rows<'a> {
             reveals_label: strings.value_labels[leaning].clone(),
             bits: e.info_bits(),
             homogeneity: e.homogeneity(),
-            contribution_bits: c.toward_best_bits,
-            if_hidden_drop: c.loo_drop,
+            contribution_bits: guess.toward_best_bits(e.log_lr()),
+            if_hidden_drop: guess.probability - without.probs[guess.best],
             support: e.support(),
             source: e.origin.kind(),
             source_detail: described.get(&e.origin),
