@@ -74,7 +74,8 @@ impl fmt::Display for Origin {
 
 /// One visible affiliation: a liked page, a group, a followed account, an event.
 /// Its strings are boxed (no spare capacity): a large archive holds over 100,000 items
-/// for the whole session.
+/// for the whole session. Categories repeat (a few topics over thousands of items), so
+/// an import shares one string per distinct category.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 pub struct Item {
     pub kind: ItemKind,
@@ -82,7 +83,7 @@ pub struct Item {
     /// The archive's own identifier for the item, when it has one.
     pub id: Option<Box<str>>,
     /// The archive's category or topic label, when it has one.
-    pub category: Option<Box<str>>,
+    pub category: Option<Arc<str>>,
     /// When the person liked, joined, followed or attended, in Unix seconds.
     pub date: Option<i64>,
     pub origin: Origin,

@@ -113,7 +113,9 @@ impl Scan {
         sources: &evidence::Sources,
     ) -> Scan {
         check_attribute_names(&mut footprint, priors, &mapping_origin);
+        crate::resident::trim();
         let evidence = evidence::gather(&footprint, priors, sources);
+        crate::resident::trim();
         let exposure = Exposure::new(priors, evidence);
         Scan {
             archive_name,

@@ -124,3 +124,29 @@ fn the_generator_reproduces_the_checked_in_demo() {
         );
     }
 }
+
+/// Items with the same category share one string (a large archive repeats a few
+/// topics over thousands of items), and sharing changes no item's category.
+#[test]
+fn equal_categories_share_one_string() {
+    let dir = PathBuf::from("demo-exports");
+    let mut repeats = 0;
+    for p in &manifest(&dir) {
+        let s = scan(&dir, p);
+        let mut first: BTreeMap<&str, &std::sync::Arc<str>> = BTreeMap::new();
+        for it in &s.footprint.items {
+            let Some(c) = &it.category else { continue };
+            match first.get(&**c) {
+                Some(shared) => {
+                    assert!(std::sync::Arc::ptr_eq(shared, c), "{}: '{c}'", p.slug);
+                    repeats += 1;
+                }
+                None => {
+                    first.insert(c, c);
+                }
+            }
+        }
+    }
+    // Layout A maps categories (layout B has none): there are repeats to check.
+    assert!(repeats > 0, "no repeated category to check");
+}

@@ -113,6 +113,8 @@ pub fn run(args: &PlanArgs) -> Result<ExitCode> {
     note_cache(&priors);
     let input = input(args.archive.clone(), &args.input)?;
     let scan = Scan::run(&input, &priors)?;
+    // The evidence is gathered: the parsed lexicons are not needed again.
+    telltale::lexicon::release_bundled();
     let req = request(args, &priors, &scan.footprint)?;
     let outcome = solve(&scan.exposure, &req).context("cannot plan")?;
     let report = build_report(&scan.archive_name, &scan.footprint, &priors, &outcome);

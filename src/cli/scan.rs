@@ -53,6 +53,8 @@ pub fn run(args: &ScanArgs) -> Result<ExitCode> {
     });
     pb.finish_and_clear();
     let scan = scan?;
+    // The evidence is gathered: the parsed lexicons are not needed again.
+    telltale::lexicon::release_bundled();
     let to_file = args.output.output.is_some();
     let colour = use_colour(args.output.colour, to_file);
     let top = args.top;

@@ -100,13 +100,23 @@ fn gather_on(
                     .collect()
             })
         };
-        // Room for the friend list's evidence too, so the list is not reallocated.
-        let total: usize = pieces.iter().flatten().map(|p| p.list.len()).sum();
-        set.list.reserve_exact(total + n_attrs);
+        // Room for the friend list's evidence too, so the list is not reallocated. A
+        // large footprint's pieces are several megabytes: while the list is still empty
+        // the first piece becomes it (grown in place) rather than being copied, and each
+        // piece is freed as soon as it has been added.
+        let mut left: usize = pieces.iter().flatten().map(|p| p.list.len()).sum();
         for source in 0..3 {
             for piece in pieces.iter_mut() {
                 let piece = std::mem::take(&mut piece[source]);
-                set.list.extend(piece.list);
+                left -= piece.list.len();
+                let mut list = piece.list;
+                if set.list.is_empty() {
+                    std::mem::swap(&mut set.list, &mut list);
+                    // Its spare room (it grew by doubling) trimmed to what is to come.
+                    set.list.shrink_to(set.list.len() + left + n_attrs);
+                }
+                set.list.reserve_exact(list.len() + left + n_attrs);
+                set.list.extend(list);
                 set.special.extend(piece.special);
             }
         }
@@ -158,6 +168,10 @@ impl Lexicons<'_> {
             if let Some(v) = self.vocabulary {
                 vocabulary_item(self.priors, v, i, item, &toks, &covered, &mut out[2]);
             }
+        }
+        // The lists grew by doubling; they are held until every run is joined.
+        for set in &mut out {
+            set.list.shrink_to_fit();
         }
         out
     }

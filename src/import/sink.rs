@@ -9,7 +9,7 @@
 use std::collections::BTreeMap;
 use std::sync::Arc;
 
-use foldhash::{HashMap, HashMapExt};
+use foldhash::{HashMap, HashMapExt, HashSet, HashSetExt};
 
 use crate::footprint::{Footprint, Friend, Item, Origin, Warning};
 use crate::mapping::{Field, Repair, Source, SourceKind};
@@ -36,6 +36,8 @@ pub(super) trait Effects {
 pub(super) struct State {
     pub(super) footprint: Footprint,
     seen: HashMap<String, usize>,
+    /// One shared string per distinct category.
+    categories: HashSet<Arc<str>>,
     records: u64,
     record_limit: u64,
     pub(super) over_limit: bool,
@@ -48,6 +50,7 @@ impl State {
         State {
             footprint: Footprint::default(),
             seen: HashMap::new(),
+            categories: HashSet::new(),
             records: 0,
             record_limit,
             over_limit: false,
@@ -69,7 +72,18 @@ impl State {
                 self.footprint.warnings.push(w);
             }
         }
+        // The item list grew by doubling; it is kept for the whole session.
+        self.footprint.items.shrink_to_fit();
         self.footprint
+    }
+
+    /// The shared copy of a category string.
+    fn share(&mut self, category: Arc<str>) -> Arc<str> {
+        if let Some(c) = self.categories.get(&*category) {
+            return c.clone();
+        }
+        self.categories.insert(category.clone());
+        category
     }
 }
 
@@ -96,7 +110,8 @@ impl Effects for State {
         }
     }
 
-    fn item(&mut self, item: Item) {
+    fn item(&mut self, mut item: Item) {
+        item.category = item.category.take().map(|c| self.share(c));
         let key = item.key();
         match self.seen.get(&key) {
             Some(&i) => {

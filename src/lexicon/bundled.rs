@@ -1,7 +1,8 @@
-//! The lexicons compiled into telltale (reference-priors/lexicons/), parsed once on
-//! first use and shared.
+//! The lexicons compiled into telltale (reference-priors/lexicons/), parsed on first
+//! use and shared until [`release`] lets them go (a one-archive command does once its
+//! evidence is gathered: the parsed gazetteer is several megabytes).
 
-use std::sync::{Arc, OnceLock};
+use std::sync::{Arc, Mutex, PoisonError};
 
 use super::gazetteer::Gazetteer;
 use super::life_stages::LifeStages;
@@ -14,51 +15,86 @@ pub const COMMON_WORDS_TXT: &str = include_str!("../../reference-priors/lexicons
 pub const LIFE_STAGES_TOML: &str = include_str!("../../reference-priors/lexicons/life-stages.toml");
 pub const VOCABULARY_TOML: &str = include_str!("../../reference-priors/lexicons/vocabulary.toml");
 
+/// One parsed lexicon, shared while anyone holds it or until [`release`].
+struct Shared<T>(Mutex<Option<Arc<T>>>);
+
+impl<T> Shared<T> {
+    const fn new() -> Self {
+        Shared(Mutex::new(None))
+    }
+
+    /// The shared copy, parsed by `make` if there is none (callers wait for one parse).
+    fn get_or(&self, make: impl FnOnce() -> T) -> Arc<T> {
+        let mut cell = self.0.lock().unwrap_or_else(PoisonError::into_inner);
+        cell.get_or_insert_with(|| Arc::new(make())).clone()
+    }
+
+    fn release(&self) {
+        self.0.lock().unwrap_or_else(PoisonError::into_inner).take();
+    }
+}
+
+static GAZETTEER: Shared<Gazetteer> = Shared::new();
+static LIFE_STAGES: Shared<LifeStages> = Shared::new();
+static VOCABULARY: Shared<Vocabulary> = Shared::new();
+
+/// Let go of the shared parsed lexicons. Whoever still holds one keeps it; the next
+/// use parses again. For a command that reads one archive, once its evidence is
+/// gathered.
+pub fn release() {
+    GAZETTEER.release();
+    LIFE_STAGES.release();
+    VOCABULARY.release();
+}
+
 /// The bundled gazetteer (GeoNames, CC BY 4.0).
 pub fn gazetteer() -> Arc<Gazetteer> {
-    static CELL: OnceLock<Arc<Gazetteer>> = OnceLock::new();
-    CELL.get_or_init(|| {
+    GAZETTEER.get_or(|| {
         // The bundled file is checked by the tests below; it cannot fail at run time.
-        Arc::new(
-            Gazetteer::parse_keyed(
-                GAZETTEER_TSV,
-                GAZETTEER_KEYS,
-                COMMON_WORDS_TXT,
-                "gazetteer.tsv (bundled)",
-            )
-            .expect("the bundled gazetteer parses"),
+        Gazetteer::parse_keyed(
+            GAZETTEER_TSV,
+            GAZETTEER_KEYS,
+            COMMON_WORDS_TXT,
+            "gazetteer.tsv (bundled)",
         )
+        .expect("the bundled gazetteer parses")
     })
-    .clone()
 }
 
 /// The bundled life-stage rules.
 pub fn life_stages() -> Arc<LifeStages> {
-    static CELL: OnceLock<Arc<LifeStages>> = OnceLock::new();
-    CELL.get_or_init(|| {
-        Arc::new(
-            LifeStages::parse(LIFE_STAGES_TOML, "life-stages.toml (bundled)")
-                .expect("the bundled life-stage rules parse"),
-        )
+    LIFE_STAGES.get_or(|| {
+        LifeStages::parse(LIFE_STAGES_TOML, "life-stages.toml (bundled)")
+            .expect("the bundled life-stage rules parse")
     })
-    .clone()
 }
 
 /// The bundled belief and special-category vocabulary.
 pub fn vocabulary() -> Arc<Vocabulary> {
-    static CELL: OnceLock<Arc<Vocabulary>> = OnceLock::new();
-    CELL.get_or_init(|| {
-        Arc::new(
-            Vocabulary::parse(VOCABULARY_TOML, "vocabulary.toml (bundled)")
-                .expect("the bundled vocabulary parses"),
-        )
+    VOCABULARY.get_or(|| {
+        Vocabulary::parse(VOCABULARY_TOML, "vocabulary.toml (bundled)")
+            .expect("the bundled vocabulary parses")
     })
-    .clone()
 }
 
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    /// After `release`, the next use parses the bundled file again (a new copy with
+    /// the same content), while a copy someone still holds stays whole.
+    #[test]
+    fn release_lets_go_and_the_next_use_parses_again() {
+        let held = life_stages();
+        assert!(
+            Arc::ptr_eq(&held, &life_stages()),
+            "shared while not released"
+        );
+        release();
+        let again = life_stages();
+        assert!(!Arc::ptr_eq(&held, &again), "parsed anew after release");
+        assert!(held.rules == again.rules, "the same rules");
+    }
 
     #[test]
     fn bundled_files_parse() {

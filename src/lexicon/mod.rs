@@ -14,7 +14,7 @@ mod special;
 mod vocabulary;
 
 pub use bundled::{
-    gazetteer as bundled_gazetteer, life_stages as bundled_life_stages,
+    gazetteer as bundled_gazetteer, life_stages as bundled_life_stages, release as release_bundled,
     vocabulary as bundled_vocabulary,
 };
 pub use error::{Error, Result};

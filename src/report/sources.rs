@@ -8,7 +8,7 @@ use std::collections::BTreeMap;
 
 use serde::Serialize;
 
-use crate::evidence::{Origin, SourceKind, Subject};
+use crate::evidence::{Evidence, Origin, SourceKind, Subject};
 use crate::footprint::Footprint;
 use crate::infer::Exposure;
 use crate::lexicon::SpecialCategory;
@@ -89,6 +89,7 @@ pub fn source_reports(
     exposure: &Exposure,
 ) -> Vec<SourceReport> {
     let list = &exposure.evidence().list;
+    let n_items = exposure.evidence().n_items;
     let bests: Vec<usize> = (0..exposure.n_attributes())
         .map(|a| exposure.posterior(a).best)
         .collect();
@@ -101,15 +102,11 @@ pub fn source_reports(
     enabled
         .iter()
         .map(|&kind| {
-            let mine: Vec<_> = list
-                .iter()
-                .filter(|e| kind_of(&e.origin) == Some(kind))
-                .collect();
-            let mut subjects: Vec<Subject> = mine.iter().map(|e| e.subject()).collect();
-            subjects.sort();
-            subjects.dedup();
-            let bits: f64 = mine
-                .iter()
+            // Walked again rather than collected: a large archive has hundreds of
+            // thousands of pieces.
+            let mine = || list.iter().filter(move |e| kind_of(&e.origin) == Some(kind));
+            let (pieces, subjects) = count_pieces_and_subjects(mine(), n_items);
+            let bits: f64 = mine()
                 .filter(|e| !exposure.is_hidden(e.subject()))
                 .map(|e| {
                     exposure.models()[e.attribute()].weight() * e.log_lr()[bests[e.attribute()]]
@@ -126,7 +123,7 @@ pub fn source_reports(
                 SourceKind::Places => {
                     // Items per value they point at, and their joint weight.
                     let mut by_value: BTreeMap<(usize, usize), (usize, f64)> = BTreeMap::new();
-                    for e in mine.iter().filter(|e| !exposure.is_hidden(e.subject())) {
+                    for e in mine().filter(|e| !exposure.is_hidden(e.subject())) {
                         let v = e.leaning();
                         let w = exposure.models()[e.attribute()].weight();
                         let slot = by_value.entry((e.attribute(), v)).or_insert((0, 0.0));
@@ -177,14 +174,34 @@ pub fn source_reports(
                 id: kind.id().into(),
                 label: kind.label().into(),
                 provenance: kind.provenance().into(),
-                pieces: mine.len(),
-                subjects: subjects.len(),
+                pieces,
+                subjects,
                 // + 0.0 turns a negative zero into zero for printing.
                 bits_toward_guesses: bits + 0.0,
                 notes,
             }
         })
         .collect()
+}
+
+/// How many pieces of evidence, and how many distinct subjects they are about.
+fn count_pieces_and_subjects<'a>(
+    pieces: impl Iterator<Item = &'a Evidence>,
+    n_items: usize,
+) -> (usize, usize) {
+    let mut seen = vec![false; n_items + 1];
+    let (mut n, mut subjects) = (0, 0);
+    for e in pieces {
+        n += 1;
+        let slot = match e.subject() {
+            Subject::Item(i) => i,
+            Subject::FriendList => n_items,
+        };
+        if !std::mem::replace(&mut seen[slot], true) {
+            subjects += 1;
+        }
+    }
+    (n, subjects)
 }
 
 /// The special-category items, flagged by the vocabulary.

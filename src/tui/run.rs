@@ -97,6 +97,8 @@ fn load(opts: Options, tx: &mpsc::Sender<LoadMsg>) -> Result<Ready> {
             });
         }
     })?;
+    // The evidence is gathered: the parsed lexicons are not needed again this session.
+    telltale::lexicon::release_bundled();
     stage(Stage::Opening);
     let store = Store::locate();
     let mut notes = Vec::new();
