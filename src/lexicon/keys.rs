@@ -16,17 +16,33 @@ enum Values<T> {
     /// A prefix of other keys only.
     None,
     One(T),
-    Many(Box<[T]>),
+    /// Several: their position in `KeyTable::many` (kept out of line so that a key
+    /// stays 16 bytes for a small value type; nearly every key has one value).
+    Many(u32),
 }
+
+/// Bit of `Key::len_prefix` marking a key that is a proper prefix of another.
+const PREFIX: u32 = 1 << 31;
 
 #[derive(Debug, Clone)]
 struct Key<T> {
     /// Byte span of the key in `KeyTable::text`.
     start: u32,
-    len: u32,
-    /// The key is a proper prefix (whole tokens) of another key.
-    prefix: bool,
+    /// The key's length in bytes, with [`PREFIX`] set when the key is a proper prefix
+    /// (whole tokens) of another key.
+    len_prefix: u32,
     values: Values<T>,
+}
+
+impl<T> Key<T> {
+    fn span(&self) -> std::ops::Range<usize> {
+        let start = self.start as usize;
+        start..start + (self.len_prefix & !PREFIX) as usize
+    }
+
+    fn is_prefix(&self) -> bool {
+        self.len_prefix & PREFIX != 0
+    }
 }
 
 /// What a lookup finds.
@@ -43,6 +59,8 @@ pub struct Found<'a, T> {
 pub struct KeyTable<T> {
     text: String,
     keys: Vec<Key<T>>,
+    /// The value lists of keys with several values.
+    many: Vec<Box<[T]>>,
     table: HashTable<u32>,
     hasher: FixedState,
     /// Keys that carry values (not only prefixes).
@@ -54,6 +72,7 @@ impl<T> Default for KeyTable<T> {
         KeyTable {
             text: String::new(),
             keys: Vec::new(),
+            many: Vec::new(),
             table: HashTable::new(),
             // A fixed seed: lookups need no randomness (the keys come from bundled or
             // user-written lists, not from an adversary choosing collisions).
@@ -72,10 +91,7 @@ impl<T> KeyTable<T> {
     fn position(&self, key: &str) -> Option<usize> {
         let hash = self.hasher.hash_one(key);
         self.table
-            .find(hash, |&i| {
-                let k = &self.keys[i as usize];
-                self.text[k.start as usize..(k.start + k.len) as usize] == *key
-            })
+            .find(hash, |&i| self.text[self.keys[i as usize].span()] == *key)
             .map(|&i| i as usize)
     }
 
@@ -89,15 +105,13 @@ impl<T> KeyTable<T> {
                 self.text.push_str(key);
                 self.keys.push(Key {
                     start: start as u32,
-                    len: key.len() as u32,
-                    prefix: false,
+                    len_prefix: key.len() as u32,
                     values: Values::None,
                 });
                 let (keys, text, hasher) = (&self.keys, &self.text, &self.hasher);
                 let hash = hasher.hash_one(key);
                 self.table.insert_unique(hash, at as u32, |&i| {
-                    let k = &keys[i as usize];
-                    hasher.hash_one(&text[k.start as usize..(k.start + k.len) as usize])
+                    hasher.hash_one(&text[keys[i as usize].span()])
                 });
                 at
             }
@@ -105,22 +119,29 @@ impl<T> KeyTable<T> {
         &mut self.keys[at]
     }
 
-    /// Add a value under a key, and mark the key's proper prefixes.
+    /// Add a value under a key, and mark the key's proper prefixes. Keys are whole
+    /// names (a lexicon line); the table holds at most 4 GiB of key text.
     pub fn insert(&mut self, key: &str, value: T) {
         for (at, _) in key.match_indices(' ') {
-            self.entry(&key[..at]).prefix = true;
+            self.entry(&key[..at]).len_prefix |= PREFIX;
         }
+        let n_many = self.many.len() as u32;
         let k = self.entry(key);
         let was_empty = matches!(k.values, Values::None);
-        k.values = match std::mem::replace(&mut k.values, Values::None) {
-            Values::None => Values::One(value),
-            Values::One(first) => Values::Many(Box::new([first, value])),
-            Values::Many(list) => {
-                let mut list = list.into_vec();
-                list.push(value);
-                Values::Many(list.into_boxed_slice())
+        match std::mem::replace(&mut k.values, Values::None) {
+            Values::None => k.values = Values::One(value),
+            Values::One(first) => {
+                k.values = Values::Many(n_many);
+                self.many.push(Box::new([first, value]));
             }
-        };
+            Values::Many(at) => {
+                k.values = Values::Many(at);
+                let list = &mut self.many[at as usize];
+                let mut grown = std::mem::take(list).into_vec();
+                grown.push(value);
+                *list = grown.into_boxed_slice();
+            }
+        }
         if was_empty {
             self.with_values += 1;
         }
@@ -132,11 +153,11 @@ impl<T> KeyTable<T> {
         let values = match &k.values {
             Values::None => &[][..],
             Values::One(v) => std::slice::from_ref(v),
-            Values::Many(list) => &list[..],
+            Values::Many(at) => &self.many[*at as usize][..],
         };
         Some(Found {
             values,
-            prefix: k.prefix,
+            prefix: k.is_prefix(),
         })
     }
 
@@ -149,11 +170,10 @@ impl<T> KeyTable<T> {
     pub fn shrink_to_fit(&mut self) {
         self.text.shrink_to_fit();
         self.keys.shrink_to_fit();
+        self.many.shrink_to_fit();
         let (keys, text, hasher) = (&self.keys, &self.text, &self.hasher);
-        self.table.shrink_to_fit(|&i| {
-            let k = &keys[i as usize];
-            hasher.hash_one(&text[k.start as usize..(k.start + k.len) as usize])
-        });
+        self.table
+            .shrink_to_fit(|&i| hasher.hash_one(&text[keys[i as usize].span()]));
     }
 }
 
@@ -182,6 +202,17 @@ mod tests {
         assert!(ny.prefix && ny.values == [4]);
         assert!(!t.lookup("new york city").unwrap().prefix);
         assert!(t.lookup("boston").is_none());
+    }
+
+    /// The gazetteer's keys stay 16 bytes each (about 110,000 of them, prefixes
+    /// included): a value list of several places is kept out of line.
+    #[test]
+    fn a_place_key_is_sixteen_bytes() {
+        assert_eq!(
+            std::mem::size_of::<Key<crate::lexicon::PlaceRef>>(),
+            16,
+            "key layout grew"
+        );
     }
 
     proptest! {
