@@ -351,6 +351,13 @@ impl App {
         self.plan_cursor = self.plan_cursor.min(self.plan_rows().saturating_sub(1));
     }
 
+    /// The search for `ask` could not be started; the plan screen says why.
+    pub fn plan_not_started(&mut self, ask: PlanAsk, message: String) {
+        if matches!(&self.plan, PlanState::Running { ask: a, .. } if *a == ask) {
+            self.plan = PlanState::Failed { ask, message };
+        }
+    }
+
     /// Rows of the plan screen's cursor: one per attribute.
     pub fn plan_rows(&self) -> usize {
         self.session.n_attributes()

@@ -126,7 +126,7 @@ fn load(opts: Options, tx: &mpsc::Sender<LoadMsg>) -> Result<Ready> {
     {
         app.show_cautions_first();
     }
-    if restored {
+    if restored && app.session.hidden_count() + app.session.kept_count() > 0 {
         app.status = Some(format!(
             "Restored your saved decisions: {} hidden, {} kept.",
             app.session.hidden_count(),
@@ -324,7 +324,8 @@ pub fn run(opts: Options) -> Result<()> {
                     let request = ask.request(&app.session, Arc::clone(&cancel));
                     let exposure = app.session.exposure().clone();
                     let (ptx, prx) = mpsc::channel();
-                    std::thread::Builder::new()
+                    let asked = ask.clone();
+                    let started = std::thread::Builder::new()
                         .name("telltale-plan".into())
                         .spawn(move || {
                             let mut last: Option<Instant> = None;
@@ -336,9 +337,16 @@ pub fn run(opts: Options) -> Result<()> {
                             };
                             let result = solve_with_progress(&exposure, &request, &mut report);
                             let _ = ptx.send(PlanMsg::Done(Box::new((ask, result))));
-                        })
-                        .context("cannot start the plan worker")?;
-                    plan_job = Some((cancel, prx));
+                        });
+                    // No thread for the search: say so on the plan screen and go on
+                    // (the decisions are still saved on the way out).
+                    match started {
+                        Ok(_) => plan_job = Some((cancel, prx)),
+                        Err(e) => app.plan_not_started(
+                            asked,
+                            format!("The plan search could not start: {e}."),
+                        ),
+                    }
                 }
             }
         }

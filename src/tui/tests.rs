@@ -550,6 +550,29 @@ fn plan_progress_shows_and_old_answers_are_dropped() {
     assert!(matches!(app.plan, PlanState::Running { .. }));
 }
 
+/// A search that could not start ends the running state with the reason on the plan
+/// screen; a note about an older ask changes nothing.
+#[test]
+fn a_plan_that_cannot_start_says_why() {
+    let mut app = app();
+    let fx = press(&mut app, "3");
+    let old = asked(&fx);
+    press(&mut app, "+");
+    app.plan_not_started(old, "stale".into());
+    assert!(matches!(app.plan, PlanState::Running { .. }));
+    let PlanState::Running { ask, .. } = &app.plan else {
+        panic!("not running")
+    };
+    let ask = ask.clone();
+    app.plan_not_started(
+        ask,
+        "The plan search could not start: no threads left.".into(),
+    );
+    assert!(matches!(app.plan, PlanState::Failed { .. }));
+    let screen = draw(&app, 100, 30);
+    assert!(screen.contains("could not start"), "{screen}");
+}
+
 #[test]
 fn snapshot_values() {
     let mut app = app();
