@@ -95,8 +95,9 @@ impl fmt::Display for SourceKind {
 }
 
 /// A lexicon a source reads: one the caller loaded, or a bundled one that is parsed
-/// on first use (once per process), so that choosing the sources costs nothing and
-/// the parsing can run beside the import ([`Sources::prepare`]).
+/// on first use and shared (until `lexicon::release_bundled`), so that choosing the
+/// sources costs nothing and the parsing can run beside the import
+/// ([`Sources::prepare`]).
 #[derive(Debug, Clone)]
 pub enum Lexicon<T> {
     Given(Arc<T>),
@@ -133,7 +134,7 @@ impl Default for Sources {
 }
 
 impl Sources {
-    /// Every source, with the bundled lexicons (parsed once per process).
+    /// Every source, with the bundled lexicons (parsed on first use and shared).
     pub fn all() -> Sources {
         Sources::only(&SourceKind::ALL)
     }
