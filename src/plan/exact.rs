@@ -142,10 +142,11 @@ impl Entry {
 /// How often (in nodes) the clock, the cancel flag and progress are looked at.
 const CHECK_EVERY: u64 = 256;
 
-/// On large problems one node can take long (its bound walks every free candidate):
-/// after a node that took at least this long, the clock and the cancel flag are looked
-/// at before the next one, so a deadline or a stop is seen within about one node.
-const SLOW_NODE: Duration = Duration::from_secs(1);
+/// On large problems one node can take long (its bound walks every free candidate,
+/// up to a second or two): once this long has passed since the last look, the clock
+/// and the cancel flag are looked at before the next node whatever the count, so a
+/// deadline or a stop is seen within about one node.
+const CHECK_AFTER: Duration = Duration::from_millis(50);
 
 const EPS: f64 = 1e-9;
 
@@ -192,7 +193,7 @@ pub(crate) fn search(
     if budget.past_deadline() {
         return finish(best, Some(StopReason::Deadline), &stack, root_lb, nodes);
     }
-    let mut last_pop = Instant::now();
+    let mut last_check = Instant::now();
     // Classes of the helpers seen while branching (one flag per class, reset after).
     let mut class_seen = vec![false; p.class.iter().max().map_or(0, |&c| c + 1)];
     while let Some(entry) = stack.pop() {
@@ -214,9 +215,9 @@ pub(crate) fn search(
             return finish(best, Some(StopReason::NodeLimit), &stack, root_lb, nodes);
         }
         let every = nodes.is_multiple_of(CHECK_EVERY) && nodes > 0;
-        let slow = last_pop.elapsed() >= SLOW_NODE && nodes > 0;
-        last_pop = Instant::now();
+        let slow = nodes > 0 && last_check.elapsed() >= CHECK_AFTER;
         if every || slow {
+            last_check = Instant::now();
             let stop = if budget.cancelled() {
                 Some(StopReason::Cancelled)
             } else if budget.past_deadline() {
