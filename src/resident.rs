@@ -6,6 +6,8 @@
 //! goes back to the system when freed (large archive: peak resident memory 161 MB →
 //! 118 MB at the same speed; docs/performance.md). Programs call it once at start (the
 //! `telltale` binary and the large-archive bench do); elsewhere it does nothing.
+//! [`trim`] hands back the free pages between small blocks; a scan calls it around
+//! evidence gathering, when many small blocks have just been freed.
 
 /// Fix malloc's mmap threshold (glibc only; a no-op on other C libraries).
 #[cfg(all(target_os = "linux", target_env = "gnu"))]
