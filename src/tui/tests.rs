@@ -3,14 +3,14 @@
 //! snapshots (src/tui/snapshots/). The demo "reporter" persona is the fixture.
 
 use std::sync::Arc;
-use std::sync::atomic::AtomicBool;
+use std::sync::atomic::{AtomicBool, Ordering};
 use std::time::Instant;
 
 use crossterm::event::{KeyCode, KeyEvent, KeyModifiers};
 use ratatui::Terminal;
 use ratatui::backend::TestBackend;
 use telltale::decisions::Decisions;
-use telltale::plan::{Budget, Method, Progress, Status, StopReason, solve};
+use telltale::plan::{Budget, Method, Progress, Status, StopReason, solve_with_progress};
 use telltale::scan::{Scan, ScanInput, load_priors};
 use telltale::text::display_width;
 use telltale::whatif::Session;
@@ -67,16 +67,24 @@ fn asked(effects: &[Effect]) -> telltale::whatif::PlanAsk {
 /// Run a requested plan synchronously with the request the loop's worker builds, but
 /// with a node budget instead of a clock (so the answer does not depend on the
 /// machine); `stopped` sets the cancel flag first, as Esc does.
+/// Run the plan the effects asked for, within `nodes` search nodes. With `stopped`, the
+/// search is told to stop at its first progress report, as Esc does while it runs: by
+/// then the greedy warm start has given a plan, so what comes back does not depend on
+/// how fast this machine is.
 fn finish_plan_with(app: &mut App, effects: &[Effect], nodes: u64, stopped: bool) {
     let ask = asked(effects);
-    let cancel = Arc::new(AtomicBool::new(stopped));
+    let cancel = Arc::new(AtomicBool::new(false));
     let mut req = ask.request(&app.session, Arc::clone(&cancel));
     req.budget = Budget {
         node_limit: nodes,
         deadline: None,
-        cancel: Some(cancel),
+        cancel: Some(Arc::clone(&cancel)),
     };
-    let outcome = solve(app.session.exposure(), &req);
+    let outcome = solve_with_progress(app.session.exposure(), &req, &mut |_| {
+        if stopped {
+            cancel.store(true, Ordering::Relaxed);
+        }
+    });
     app.plan_finished(ask, outcome);
 }
 
