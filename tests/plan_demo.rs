@@ -194,3 +194,57 @@ fn cli_plan_output_file_is_owner_only() {
     let text = std::fs::read_to_string(&path).unwrap();
     assert!(text.starts_with("# What to hide in teacher"));
 }
+
+/// A search stopped before any plan exists says so and names what to change: more
+/// time, or the other method (the exact search cannot suggest itself, as it did once).
+/// The reporter persona needs items hidden (its guesses are over the priors' levels),
+/// so a search that is stopped at once has no plan to give.
+#[test]
+fn a_search_stopped_before_any_plan_names_the_other_method() {
+    use std::sync::Arc;
+    use std::sync::atomic::AtomicBool;
+    use telltale::plan::{Method, build_report};
+
+    let priors = load_priors(None).unwrap();
+    let input = ScanInput {
+        archive: root().join("demo-exports/reporter"),
+        ..ScanInput::default()
+    };
+    let scan = Scan::run(&input, &priors).unwrap();
+    for (method, other) in [
+        (Method::Exact, "greedy method"),
+        (Method::Greedy, "exact method"),
+    ] {
+        let mut req = PlanRequest::for_footprint(&priors, &scan.footprint);
+        req.method = method;
+        // Stopped before it starts: greedy gives up at its first step, and the exact
+        // search reaches its node limit at the root.
+        req.budget = Budget {
+            node_limit: 1,
+            deadline: None,
+            cancel: Some(Arc::new(AtomicBool::new(true))),
+        };
+        let out = solve(&scan.exposure, &req).unwrap();
+        assert_eq!(out.status, Status::Unknown, "{method:?}");
+        assert!(out.plan.is_none());
+        let report = build_report("reporter", &scan.footprint, &priors, &out);
+        assert!(
+            report.summary.starts_with("No plan")
+                || report
+                    .summary
+                    .starts_with("The greedy method found no plan"),
+            "{}",
+            report.summary
+        );
+        assert!(
+            report.summary.contains("Allow more time"),
+            "{}",
+            report.summary
+        );
+        assert!(
+            report.summary.contains(other),
+            "{method:?}: {}",
+            report.summary
+        );
+    }
+}

@@ -30,10 +30,7 @@ fn excess_with(a: &PAttr, sums: &[f64], z: &mut Vec<f64>) -> f64 {
     let m = z.iter().copied().fold(f64::NEG_INFINITY, f64::max);
     let mut total = 0.0;
     for x in z.iter_mut() {
-        // Below −746 the exponential is exactly 0; skipping the call avoids the C
-        // library's slow underflow path (hot on saturated guesses), same result.
-        let d = *x - m;
-        *x = if d < -746.0 { 0.0 } else { d.exp() };
+        *x = exp_shifted(*x - m);
         total += *x;
     }
     let mut out = 0.0;
@@ -67,6 +64,13 @@ fn excess_with(a: &PAttr, sums: &[f64], z: &mut Vec<f64>) -> f64 {
     out
 }
 
+/// `e^d` for `d ≤ 0`. Below −746 the exponential is exactly 0 in `f64`; skipping the
+/// call there avoids the C library's slow underflow path (hot on saturated guesses,
+/// where every other value sits hundreds of nats below the best), same result.
+fn exp_shifted(d: f64) -> f64 {
+    if d < -746.0 { 0.0 } else { d.exp() }
+}
+
 /// The logits of an attribute's values in a state (`ln π + λ·sum`).
 fn z_logits<'a>(a: &'a PAttr, sums: &'a [f64]) -> impl Iterator<Item = f64> + Clone + 'a {
     a.log_base.iter().zip(sums).map(|(b, s)| b + a.lambda * s)
@@ -86,7 +90,7 @@ fn log_odds(z: impl Iterator<Item = f64> + Clone, v: usize) -> f64 {
     if m == f64::NEG_INFINITY {
         return f64::INFINITY;
     }
-    zv - (m + others().map(|x| (x - m).exp()).sum::<f64>().ln())
+    zv - (m + others().map(|x| exp_shifted(x - m)).sum::<f64>().ln())
 }
 
 /// `ln Σ_{u∈set} e^{x_u}` over the values `set` picks (`-∞` for none).
@@ -101,7 +105,7 @@ fn lse_where(x: &[f64], set: impl Fn(usize) -> bool) -> f64 {
     if m == f64::NEG_INFINITY {
         return m;
     }
-    m + picked().map(|v| (v - m).exp()).sum::<f64>().ln()
+    m + picked().map(|v| exp_shifted(v - m)).sum::<f64>().ln()
 }
 
 /// When no single hide lowers the total excess — two or more values over the line

@@ -426,6 +426,9 @@ pub fn summary(o: &PlanOutcome, priors: &Priors) -> String {
             }
             s
         }
-        (None, _) => "No plan was found within the search budget; none was proven impossible either. Try --method exact with a longer time limit.".into(),
+        (None, _) => match o.method {
+            Method::Exact => "No plan was found within the time allowed; none was proven impossible either. Allow more time, or use the greedy method, which finds a plan (not always the smallest) sooner.".into(),
+            Method::Greedy => "The greedy method found no plan within the time allowed; none was proven impossible either. Allow more time, or use the exact method.".into(),
+        },
     }
 }
