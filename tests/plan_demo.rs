@@ -248,3 +248,39 @@ fn a_search_stopped_before_any_plan_names_the_other_method() {
         );
     }
 }
+
+/// The plan's text lists every item to hide by its full name (a person looks for it
+/// on the platform by that name), however long.
+#[test]
+fn plan_text_names_every_item_in_full() {
+    use telltale::plan::{build_report, write_text};
+    let priors = load_priors(None).unwrap();
+    let input = ScanInput {
+        archive: root().join("demo-exports/reporter"),
+        ..ScanInput::default()
+    };
+    let scan = Scan::run(&input, &priors).unwrap();
+    let mut req = PlanRequest::for_footprint(&priors, &scan.footprint);
+    req.budget = Budget::with_time_limit(Duration::from_secs(2));
+    let out = solve(&scan.exposure, &req).unwrap();
+    let report = build_report("reporter", &scan.footprint, &priors, &out);
+    let mut buf = Vec::new();
+    write_text(&report, &mut buf).unwrap();
+    let text = String::from_utf8(buf).unwrap();
+    let items = &report
+        .plan
+        .as_ref()
+        .expect("the reporter gets a plan")
+        .items;
+    assert!(
+        items.iter().any(|h| h.name.chars().count() > 30),
+        "no name is longer than the column: the test checks nothing"
+    );
+    for h in items {
+        assert!(
+            text.contains(h.name.as_str()),
+            "'{}' is cut in:\n{text}",
+            h.name
+        );
+    }
+}

@@ -170,3 +170,33 @@ fn row_figures_are_the_exposures_contributions() {
         }
     }
 }
+
+/// The text report never cuts an item's name in its list of the items that give the
+/// most away (a person looks for the item by that name): every listed row's full name
+/// is in the text, on the demo personas, which have names longer than the column.
+#[test]
+fn text_report_lists_every_shown_name_in_full() {
+    use telltale::report::{TextOptions, write_text};
+    let priors = load_priors(None).unwrap();
+    let mut long = 0;
+    for name in personas() {
+        let s = scan(name, &priors);
+        let report = s.report(&priors);
+        let opts = TextOptions::default();
+        let mut buf = Vec::new();
+        write_text(&report, opts, &mut buf).unwrap();
+        let text = String::from_utf8(buf).unwrap();
+        for row in report.items.iter().take(opts.top) {
+            long += usize::from(row.name.chars().count() > 28);
+            assert!(
+                text.contains(row.name.as_str()),
+                "{name}: '{}' is not in the text report in full",
+                row.name
+            );
+        }
+    }
+    assert!(
+        long > 0,
+        "no name is longer than the column: the test checks nothing"
+    );
+}

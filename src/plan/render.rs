@@ -6,7 +6,7 @@ use std::io::{self, Write};
 use super::report::{PlanReport, StateReport, cost_words};
 use crate::cautions::TITLE;
 use crate::reading::percent;
-use crate::text::{pad_to_width, truncate_to_width, wrap_words};
+use crate::text::{display_width, pad_to_width, wrap_words};
 
 /// Write the JSON document (pretty-printed, newline-terminated).
 pub fn write_json(r: &PlanReport, out: &mut dyn Write) -> io::Result<()> {
@@ -71,21 +71,25 @@ pub fn write_text(r: &PlanReport, out: &mut dyn Write) -> io::Result<()> {
         && !plan.items.is_empty()
     {
         writeln!(out, "\nITEMS TO HIDE")?;
+        // Wide enough for the largest item number (plans can list thousands).
+        let iw = plan.items.len().to_string().len().max(2);
         writeln!(
             out,
-            "   #  {}  {}  Why (what it was feeding)",
+            "  {:>iw$}  {}  {}  Why (what it was feeding)",
+            "#",
             pad_to_width("Item", 30),
             pad_to_width("Kind", 7)
         )?;
         for (i, h) in plan.items.iter().enumerate() {
-            writeln!(
-                out,
-                "  {:>2}  {}  {}  {}",
-                i + 1,
-                pad_to_width(&truncate_to_width(&h.name, 30), 30),
-                pad_to_width(&h.kind, 7),
-                why(r, i)
-            )?;
+            // A name is never cut (it is what the person looks for on the platform): one
+            // too long for its column gets a line of its own, the rest goes below it.
+            let lead = if display_width(&h.name) <= 30 {
+                format!("  {:>iw$}  {}", i + 1, pad_to_width(&h.name, 30))
+            } else {
+                writeln!(out, "  {:>iw$}  {}", i + 1, h.name)?;
+                " ".repeat(4 + iw + 30)
+            };
+            writeln!(out, "{lead}  {}  {}", pad_to_width(&h.kind, 7), why(r, i))?;
         }
         writeln!(
             out,

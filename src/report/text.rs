@@ -7,7 +7,7 @@ use std::io::{self, Write};
 use super::build::ScanReport;
 use crate::cautions::TITLE;
 use crate::reading::percent;
-use crate::text::{pad_to_width, truncate_to_width, wrap_words};
+use crate::text::{display_width, pad_to_width, truncate_to_width, wrap_words};
 
 /// How to render text.
 #[derive(Debug, Clone, Copy)]
@@ -182,11 +182,17 @@ pub fn write_text(r: &ScanReport, opts: TextOptions, out: &mut dyn Write) -> io:
                 .find(|a| *a.id == *i.attribute)
                 .map(|a| a.label.as_str())
                 .unwrap_or(&i.attribute);
+            // A name is never cut (it is what the person looks for on the platform): one
+            // too long for its column gets a line of its own, the figures go below it.
+            let lead = if display_width(&i.name) <= 28 {
+                format!("  {:>2}  {}", n + 1, pad_to_width(&i.name, 28))
+            } else {
+                writeln!(out, "  {:>2}  {}", n + 1, i.name)?;
+                " ".repeat(6 + 28)
+            };
             writeln!(
                 out,
-                "  {:>2}  {} {} {} {:>5.2} {:>6.2} {:>+7.2}",
-                n + 1,
-                pad_to_width(&i.name, 28),
+                "{lead} {} {} {:>5.2} {:>6.2} {:>+7.2}",
                 pad_to_width(i.kind, 7),
                 pad_to_width(
                     &truncate_to_width(&format!("{attr_label}: {}", i.reveals_label), 22),
