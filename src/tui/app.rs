@@ -96,6 +96,13 @@ impl App {
             .min(self.rows.len().saturating_sub(1));
     }
 
+    /// Rebuild the item list for a changed query (order, filter, search) and start at
+    /// its top: the rows before are no guide to where to look in the new list.
+    pub fn requery(&mut self) {
+        self.refresh_rows();
+        self.item_cursor = 0;
+    }
+
     /// Bring the item list up to date after marks changed. A mark changes only its
     /// own row's mark column unless some best guess moved (the rows' figures and order
     /// follow the best guesses), so usually only the changed rows are touched; the
@@ -155,8 +162,7 @@ impl App {
             }
             KeyCode::Backspace => {
                 self.query.search.pop();
-                self.item_cursor = 0;
-                self.refresh_rows();
+                self.requery();
             }
             KeyCode::Down | KeyCode::Up => {
                 self.searching = false;
@@ -164,8 +170,7 @@ impl App {
             }
             KeyCode::Char(c) if !ev.modifiers.contains(KeyModifiers::CONTROL) => {
                 self.query.search.push(c);
-                self.item_cursor = 0;
-                self.refresh_rows();
+                self.requery();
             }
             KeyCode::Char('c') => self.quit = true,
             _ => {}
@@ -277,8 +282,7 @@ impl App {
                         attribute: Some(self.overview_cursor),
                         ..RowQuery::default()
                     };
-                    self.item_cursor = 0;
-                    self.refresh_rows();
+                    self.requery();
                     return self.go(Screen::Items);
                 }
                 Screen::Items => {
@@ -364,18 +368,15 @@ impl App {
                     Some(a) if a + 1 < n => Some(a + 1),
                     _ => None,
                 };
-                self.item_cursor = 0;
-                self.refresh_rows();
+                self.requery();
             }
             Action::CycleKind => {
                 self.query.kind = self.query.kind.next();
-                self.item_cursor = 0;
-                self.refresh_rows();
+                self.requery();
             }
             Action::CycleSort => {
                 self.query.sort = self.query.sort.next();
-                self.item_cursor = 0;
-                self.refresh_rows();
+                self.requery();
             }
             Action::Search => self.searching = true,
             Action::ClearFilters => {

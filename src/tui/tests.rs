@@ -150,6 +150,27 @@ fn hiding_an_item_updates_the_overview_and_undo_restores_it() {
 }
 
 #[test]
+fn a_new_order_or_filter_starts_at_the_top() {
+    // Each order and filter shows a different list: the cursor starts on its first
+    // row (it used to land wherever the old list's first row now was).
+    let mut app = app();
+    press(&mut app, "2jjjj");
+    let mut moved_top = false;
+    for keys in ["o", "o", "o", "o", "a", "a", "t"] {
+        let before = app.rows[0].subject;
+        press(&mut app, keys);
+        assert_eq!(app.item_cursor, 0, "after '{keys}'");
+        assert_eq!(app.current_subject(), Some(app.rows[0].subject));
+        moved_top |= app.rows[0].subject != before;
+        press(&mut app, "jj");
+    }
+    assert!(
+        moved_top,
+        "no key changed the first row: the test checks nothing"
+    );
+}
+
+#[test]
 fn search_filters_as_you_type_and_esc_clears() {
     let mut app = app();
     press(&mut app, "2");

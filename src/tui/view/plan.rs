@@ -33,14 +33,18 @@ fn status_lines(app: &App, w: usize, theme: Theme) -> Vec<Line<'static>> {
         PlanState::Stale => ("Working out a plan…".to_string(), theme.dim()),
         PlanState::Running {
             started,
+            ask,
             progress,
             stopping,
-            ..
         } => {
             let secs = started.elapsed().as_secs_f64();
             let spin = SPINNER[((secs * 8.0) as usize) % SPINNER.len()];
+            let what = match ask.method {
+                Method::Exact => "Searching for the smallest plan",
+                Method::Greedy => "Finding a quick plan (greedy)",
+            };
             let mut t = format!(
-                "{spin} Searching for the smallest plan: {secs:.1} s (at most {} s). {}",
+                "{spin} {what}: {secs:.1} s (at most {} s). {}",
                 PLAN_TIME_LIMIT.as_secs(),
                 if *stopping {
                     "Stopping…"
@@ -104,6 +108,13 @@ fn ready_words(r: &PlanResult, theme: Theme) -> (String, ratatui::style::Style) 
             "▲ No plan found within {} s, and none proven impossible (see below).",
             PLAN_TIME_LIMIT.as_secs()
         ),
+        // Out of time, or stuck (nothing left that moves the guesses).
+        (Method::Greedy, _) if o.greedy.seconds >= 0.99 * PLAN_TIME_LIMIT.as_secs_f64() => {
+            format!(
+                "▲ The quick greedy method found no plan within {} s. m runs the exact search.",
+                PLAN_TIME_LIMIT.as_secs()
+            )
+        }
         (Method::Greedy, _) => {
             "▲ The quick greedy method found no plan. m runs the exact search.".into()
         }
@@ -255,7 +266,7 @@ fn detail_lines(r: &PlanReport, w: usize, theme: Theme) -> Vec<Line<'static>> {
             theme.title(),
         );
         let name_w = (w.saturating_sub(13) * 2 / 5).clamp(16, 44);
-        let why_w = w.saturating_sub(4 + 7 + name_w + 1);
+        let why_w = w.saturating_sub(4 + 7 + 1 + name_w + 1);
         for item in &plan.items {
             let why: Vec<String> = item
                 .reasons
@@ -276,6 +287,7 @@ fn detail_lines(r: &PlanReport, w: usize, theme: Theme) -> Vec<Line<'static>> {
                 Line::from(vec![
                     Span::raw("    "),
                     cell(&item.kind, 7, theme.dim()),
+                    Span::raw(" "),
                     cell(&item.name, name_w, theme.title()),
                     Span::raw(" "),
                     Span::styled(why.join("; "), theme.dim()),
