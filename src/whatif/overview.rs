@@ -3,6 +3,7 @@
 //! tallies, so it can be redrawn after every key press.
 
 use super::session::Session;
+use crate::evidence::Subject;
 use crate::reading::{Level, attribute_sentence, level};
 
 /// What the overview shows for one attribute.
@@ -23,6 +24,8 @@ pub struct AttributeSummary {
     pub feeding: usize,
     /// Of those, how many point toward the best guess (likelihood ratio above 1).
     pub supporting: usize,
+    /// The one piece feeding it is the friend list's (not an item's).
+    pub only_friend_list: bool,
     /// The best guess's probability with nothing hidden.
     pub baseline_probability: f64,
     pub baseline_guess_label: String,
@@ -56,6 +59,11 @@ pub fn overview(s: &Session) -> Vec<AttributeSummary> {
                 level: level(post.probability, base, target),
                 feeding: x.feeding(a),
                 supporting: x.pointing_to(a, posteriors[a].best),
+                only_friend_list: x.feeding(a) == 1
+                    && !x.is_hidden(Subject::FriendList)
+                    && x.evidence_of(Subject::FriendList)
+                        .iter()
+                        .any(|&ei| x.evidence().list[ei].attribute() == a),
                 baseline_probability: baseline.probability,
                 baseline_guess_label: attr.values[baseline.best].label.clone(),
                 real: s
@@ -70,7 +78,6 @@ pub fn overview(s: &Session) -> Vec<AttributeSummary> {
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::evidence::Subject;
     use crate::whatif::session::tests::demo_session;
 
     #[test]
@@ -108,5 +115,28 @@ mod tests {
         s.set_real_value(0, Some(0));
         assert!(overview(&s)[0].real.is_some());
         assert!(matches!(top, Subject::Item(_)));
+    }
+
+    #[test]
+    fn the_friend_list_alone_is_named_as_such() {
+        let mut s = demo_session();
+        let x = s.exposure();
+        let a = x
+            .evidence_of(Subject::FriendList)
+            .first()
+            .map(|&ei| x.evidence().list[ei].attribute())
+            .expect("the demo persona's friend list informs some attribute");
+        assert!(!overview(&s)[a].only_friend_list);
+        // Every item hidden: the friend list is all that feeds the attribute.
+        let items: Vec<Subject> = (0..s.footprint().items.len()).map(Subject::Item).collect();
+        s.hide_all(&items);
+        let o = &overview(&s)[a];
+        assert_eq!(o.feeding, 1);
+        assert!(o.only_friend_list);
+        // And with the friend list hidden too, nothing feeds it.
+        s.toggle_hidden(Subject::FriendList);
+        let o = &overview(&s)[a];
+        assert_eq!(o.feeding, 0);
+        assert!(!o.only_friend_list);
     }
 }

@@ -31,17 +31,28 @@ pub fn render(app: &App, frame: &mut Frame, area: Rect, theme: Theme) {
         };
         // Facts beside the name: what feeds it, how it changed, your real value.
         // The verb agrees with the first number: "1 of 5 items supports it".
-        let mut facts = vec![format!(
-            "{} of {} {} {} it",
-            s.supporting,
-            s.feeding,
-            if s.feeding == 1 { "item" } else { "items" },
-            if s.supporting == 1 {
-                "supports"
-            } else {
-                "support"
-            }
-        )];
+        let mut facts = vec![if s.only_friend_list {
+            format!(
+                "only your friend list {} it",
+                if s.supporting == 1 {
+                    "supports"
+                } else {
+                    "feeds"
+                }
+            )
+        } else {
+            format!(
+                "{} of {} {} {} it",
+                s.supporting,
+                s.feeding,
+                if s.feeding == 1 { "item" } else { "items" },
+                if s.supporting == 1 {
+                    "supports"
+                } else {
+                    "support"
+                }
+            )
+        }];
         if percent(s.baseline_probability) != percent(s.probability)
             || s.baseline_guess_label != s.guess_label
         {
