@@ -134,8 +134,17 @@ pub fn source_reports(
                         .into_iter()
                         .filter(|(_, (n, _))| *n >= MANY_PLACE_ITEMS)
                         .collect();
+                    // The three named most often, and the current guess if it is not
+                    // among them (it is what the reader wants explained).
                     many.sort_by_key(|m| std::cmp::Reverse(m.1.0));
-                    for ((a, v), (n, bits)) in many.into_iter().take(3) {
+                    let guess = |a: usize, v: usize| exposure.posterior(a).best == v;
+                    let shown: Vec<_> = many
+                        .iter()
+                        .enumerate()
+                        .filter(|(i, ((a, v), _))| *i < 3 || guess(*a, *v))
+                        .map(|(_, m)| *m)
+                        .collect();
+                    for ((a, v), (n, bits)) in shown {
                         notes.push(format!(
                             "{n} items name places in {}: each alone is weak, but their likelihood ratios multiply, together {bits:+.1} bits toward {} (strong evidence)",
                             priors.attributes[a].values[v].label,
@@ -169,6 +178,12 @@ pub fn source_reports(
                         ));
                     }
                 }
+            }
+            if bits < -0.05 {
+                notes.push(
+                    "the sum is negative: these pieces point to many different values, so each counts against the others; a guess is the value they count against least"
+                        .into(),
+                );
             }
             SourceReport {
                 id: kind.id().into(),
