@@ -246,6 +246,13 @@ fn a_search_stopped_before_any_plan_names_the_other_method() {
             "{method:?}: {}",
             report.summary
         );
+        // A lower bound the search proved (the exact search's root gives one here)
+        // is said, not kept back.
+        if method == Method::Exact {
+            let lb = out.lower_bound.expect("the root node proves a lower bound");
+            let said = format!("at least {}", lb.ceil());
+            assert!(report.summary.contains(&said), "{}", report.summary);
+        }
     }
 }
 

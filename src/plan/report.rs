@@ -362,8 +362,7 @@ pub fn summary(o: &PlanOutcome, priors: &Priors) -> String {
         .min_by_key(|m| m.hides);
     match (&o.plan, o.status) {
         (Some(p), _) if p.is_empty() => {
-            "Nothing needs hiding: no attribute can be guessed above your alert levels now."
-                .into()
+            "Nothing needs hiding: no attribute can be guessed above your alert levels now.".into()
         }
         (Some(p), status) => {
             let mut s = format!(
@@ -426,9 +425,19 @@ pub fn summary(o: &PlanOutcome, priors: &Priors) -> String {
             }
             s
         }
-        (None, _) => match o.method {
-            Method::Exact => "No plan was found within the time allowed; none was proven impossible either. Allow more time, or use the greedy method, which finds a plan (not always the smallest) sooner.".into(),
-            Method::Greedy => "The greedy method found no plan within the time allowed; none was proven impossible either. Allow more time, or use the exact method.".into(),
-        },
+        (None, _) => {
+            let mut s: String = match o.method {
+                Method::Exact => "No plan was found within the time allowed; none was proven impossible either. Allow more time, or use the greedy method, which finds a plan (not always the smallest) sooner.".into(),
+                Method::Greedy => "The greedy method found no plan within the time allowed; none was proven impossible either. Allow more time, or use the exact method.".into(),
+            };
+            if let Some(lb) = o.lower_bound.filter(|lb| *lb > 0.0) {
+                s.push_str(&format!(
+                    " The search did prove that at least {} {} needed.",
+                    lb.ceil(),
+                    if lb.ceil() == 1.0 { "is" } else { "are" }
+                ));
+            }
+            s
+        }
     }
 }
