@@ -147,6 +147,7 @@ pub fn write_html_with(
 
     write_items(r, top, out)?;
     extra(out)?;
+    super::html_sections::write_after_items(r, out)?;
 
     if !r.warnings.is_empty() {
         writeln!(out, "<h2>Warnings</h2>\n<ul>")?;

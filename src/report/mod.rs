@@ -6,6 +6,7 @@
 
 mod build;
 mod html;
+mod html_sections;
 mod json;
 mod markdown;
 mod rows;
