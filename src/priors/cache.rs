@@ -129,13 +129,17 @@ fn open_cache(path: &Path) -> std::io::Result<(std::io::BufReader<std::fs::File>
     Ok((std::io::BufReader::with_capacity(64 << 10, file), len))
 }
 
-/// BLAKE3 of a file, read in 16 MiB steps, each hashed over all cores (BLAKE3's tree
-/// mode: the same hash as hashing it in one go on one core). The file is never held
-/// whole; steps are large because every call over all cores wakes the other threads.
+/// The step [`hash_file`] reads and hashes in: large, because every call over all cores
+/// wakes the other threads.
+pub(crate) const HASH_STEP: usize = 16 << 20;
+
+/// BLAKE3 of a file, read in [`HASH_STEP`] steps, each hashed over all cores (BLAKE3's
+/// tree mode: the same hash as hashing it in one go on one core). The file is never
+/// held whole.
 pub fn hash_file(path: &Path) -> std::io::Result<blake3::Hash> {
     let mut f = std::fs::File::open(path)?;
     let mut hasher = blake3::Hasher::new();
-    let mut buf = vec![0u8; 16 << 20];
+    let mut buf = vec![0u8; HASH_STEP];
     loop {
         // Fill the buffer (a read may return less), so every step but the last is whole.
         let mut got = 0;

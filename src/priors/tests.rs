@@ -6,7 +6,7 @@
 
 use proptest::prelude::*;
 
-use super::cache::{cache_path, decode, decode_from, encode, hash_file};
+use super::cache::{HASH_STEP, cache_path, decode, decode_from, encode, hash_file};
 use super::{MatchedBy, Priors, PriorsFile, write_priors};
 use crate::footprint::{Item, ItemKind, Origin};
 
@@ -319,8 +319,8 @@ fn a_cache_read_in_small_pieces_is_the_same() {
     assert_eq!(a.index, b.index);
 }
 
-/// The file hash (4 MiB steps over all cores) is the plain BLAKE3 hash, at the step
-/// edges too. Reference: the BLAKE3 test vectors (github.com/BLAKE3-team/BLAKE3,
+/// The file hash (`HASH_STEP` steps over all cores) is the plain BLAKE3 hash, at the
+/// step edges too. Reference: the BLAKE3 test vectors (github.com/BLAKE3-team/BLAKE3,
 /// test_vectors.json) give af1349b9… for the empty input; the rest are checked against
 /// the crate's one-call single-core `blake3::hash`.
 #[test]
@@ -335,10 +335,10 @@ fn the_file_hash_is_plain_blake3() {
     for len in [
         1,
         1024,
-        (4 << 20) - 1,
-        4 << 20,
-        (4 << 20) + 1,
-        (8 << 20) + 4097,
+        HASH_STEP - 1,
+        HASH_STEP,
+        HASH_STEP + 1,
+        2 * HASH_STEP + 4097,
     ] {
         let data: Vec<u8> = (0..len).map(|i| (i * 31 % 251) as u8).collect();
         let path = dir.path().join(format!("f{len}"));
