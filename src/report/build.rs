@@ -46,6 +46,25 @@ pub struct ScanReport {
     pub cautions: Vec<String>,
 }
 
+impl ScanReport {
+    /// An attribute's label for people, from its id (the id itself if unknown).
+    pub fn attribute_label(&self, id: &str) -> String {
+        self.attributes
+            .iter()
+            .find(|a| a.id == id)
+            .map_or_else(|| id.to_string(), |a| a.label.clone())
+    }
+
+    /// A value's label for people, from its attribute's and its own id.
+    pub fn value_label(&self, attribute: &str, value: &str) -> String {
+        self.attributes
+            .iter()
+            .find(|a| a.id == attribute)
+            .and_then(|a| a.distribution.iter().find(|d| d.id == value))
+            .map_or_else(|| value.to_string(), |d| d.label.clone())
+    }
+}
+
 #[derive(Debug, Clone, Serialize)]
 pub struct ToolInfo {
     pub name: String,

@@ -103,19 +103,6 @@ fn write_friends(r: &ScanReport, out: &mut dyn Write) -> io::Result<()> {
     let Some(f) = &r.friends else {
         return Ok(());
     };
-    let label = |id: &str| -> String {
-        r.attributes
-            .iter()
-            .find(|a| a.id == id)
-            .map_or_else(|| id.to_string(), |a| a.label.clone())
-    };
-    let value = |attr: &str, v: &'_ str| -> String {
-        r.attributes
-            .iter()
-            .find(|a| a.id == attr)
-            .and_then(|a| a.distribution.iter().find(|d| d.id == v))
-            .map_or_else(|| v.to_string(), |d| d.label.clone())
-    };
     writeln!(out, "<h2>Friends</h2>")?;
     writeln!(
         out,
@@ -136,12 +123,12 @@ fn write_friends(r: &ScanReport, out: &mut dyn Write) -> io::Result<()> {
         writeln!(
             out,
             "<tr><td>{}</td><td class=\"n\">{} ({})</td><td>{} {}</td><td>{} {}</td></tr>",
-            escape(&label(&a.attribute)),
+            escape(&r.attribute_label(&a.attribute)),
             a.known,
             percent(a.share_known),
-            escape(&value(&a.attribute, &a.best_guess)),
+            escape(&r.value_label(&a.attribute, &a.best_guess)),
             percent(a.probability),
-            escape(&value(&a.attribute, &a.best_guess_if_toggled)),
+            escape(&r.value_label(&a.attribute, &a.best_guess_if_toggled)),
             percent(a.probability_if_toggled)
         )?;
     }

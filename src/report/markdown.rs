@@ -229,21 +229,6 @@ fn write_friends(r: &ScanReport, out: &mut dyn Write) -> io::Result<()> {
     let Some(f) = &r.friends else {
         return Ok(());
     };
-    let label = |id: &str| {
-        r.attributes
-            .iter()
-            .find(|a| a.id == id)
-            .map(|a| a.label.clone())
-            .unwrap_or_else(|| id.to_string())
-    };
-    let value = |attr: &str, v: &str| {
-        r.attributes
-            .iter()
-            .find(|a| a.id == attr)
-            .and_then(|a| a.distribution.iter().find(|d| d.id == v))
-            .map(|d| d.label.clone())
-            .unwrap_or_else(|| v.to_string())
-    };
     writeln!(out, "## Friends\n")?;
     writeln!(
         out,
@@ -264,12 +249,12 @@ fn write_friends(r: &ScanReport, out: &mut dyn Write) -> io::Result<()> {
         writeln!(
             out,
             "| {} | {} ({}) | {} {} | {} {} |",
-            esc(&label(&a.attribute)),
+            esc(&r.attribute_label(&a.attribute)),
             a.known,
             percent(a.share_known),
-            esc(&value(&a.attribute, &a.best_guess)),
+            esc(&r.value_label(&a.attribute, &a.best_guess)),
             percent(a.probability),
-            esc(&value(&a.attribute, &a.best_guess_if_toggled)),
+            esc(&r.value_label(&a.attribute, &a.best_guess_if_toggled)),
             percent(a.probability_if_toggled)
         )?;
     }
