@@ -2,7 +2,9 @@
 //! equals the cheapest over all subsets of the hideable items (every subset scored
 //! through the scan's own `Exposure`, an oracle independent of the planner's search and
 //! bounds), its plan re-scores as feasible, and greedy is never cheaper. Source of
-//! truth: exhaustive enumeration.
+//! truth: exhaustive enumeration. Some instances give each value its own level by the
+//! rarity-aware rule `τ_v = min(τ, max(floor, lift·π(v)))` (floor and lift drawn), so a
+//! rare value must stay lower than the attribute's level.
 
 mod plan_common;
 
@@ -19,14 +21,22 @@ fn attr_strategy(n: usize) -> impl Strategy<Value = Attr> {
             0.3f64..0.95,
             prop::option::weighted(0.3, 0..k),
             prop::collection::vec(prop::collection::vec(-2.0f64..2.0, k), n),
+            prop::option::weighted(0.4, (0.1f64..0.5, 1.5f64..6.0)),
         )
-            .prop_map(|(raw, lambda, threshold, true_value, log_lr)| {
+            .prop_map(|(raw, lambda, threshold, true_value, log_lr, rarity)| {
                 let total: f64 = raw.iter().sum();
+                let base: Vec<f64> = raw.iter().map(|x| x / total).collect();
+                let levels = rarity.map(|(floor, lift)| {
+                    base.iter()
+                        .map(|&b| threshold.min(floor.max(lift * b)))
+                        .collect()
+                });
                 Attr {
-                    base: raw.iter().map(|x| x / total).collect(),
+                    base,
                     lambda,
                     threshold,
                     true_value,
+                    levels,
                     log_lr,
                 }
             })
@@ -75,6 +85,7 @@ fn request(attrs: &[Attr], keep: &[bool], costs: &[f64], method: Method) -> Plan
                 attribute: i,
                 threshold: a.threshold,
                 true_value: a.true_value,
+                value_levels: a.levels.clone(),
             })
             .collect(),
         keep: (0..keep.len())

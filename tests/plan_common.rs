@@ -14,6 +14,8 @@ pub struct Attr {
     pub lambda: f64,
     pub threshold: f64,
     pub true_value: Option<usize>,
+    /// Per value, its own level (instead of `threshold`), when given.
+    pub levels: Option<Vec<f64>>,
     /// Per item, its log-likelihood ratios.
     pub log_lr: Vec<Vec<f64>>,
 }
@@ -46,7 +48,7 @@ pub fn exposure(n: usize, attrs: &[Attr]) -> Exposure {
     Exposure::with_models(models, set)
 }
 
-/// Whether hiding `hidden` meets every attribute's threshold, scored on a fresh copy
+/// Whether hiding `hidden` meets every attribute's threshold (or per-value levels), scored on a fresh copy
 /// of the exposure through `Exposure::set_hidden` and `Exposure::posterior`.
 pub fn meets(base: &Exposure, attrs: &[Attr], hidden: &[Subject]) -> bool {
     let mut x = base.clone();
@@ -55,9 +57,10 @@ pub fn meets(base: &Exposure, attrs: &[Attr], hidden: &[Subject]) -> bool {
     }
     attrs.iter().enumerate().all(|(ai, a)| {
         let post = x.posterior(ai);
+        let level = |v: usize| a.levels.as_ref().map_or(a.threshold, |l| l[v]);
         match a.true_value {
-            Some(t) => post.probs[t] <= a.threshold,
-            None => post.probs.iter().all(|&p| p <= a.threshold),
+            Some(t) => post.probs[t] <= level(t),
+            None => post.probs.iter().enumerate().all(|(v, &p)| p <= level(v)),
         }
     })
 }

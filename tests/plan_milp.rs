@@ -55,6 +55,7 @@ fn optima_equal_highs() {
                 lambda: a.lambda,
                 threshold: a.threshold,
                 true_value: a.true_value,
+                levels: None,
                 log_lr: a.log_lr.clone(),
             })
             .collect();
@@ -67,6 +68,7 @@ fn optima_equal_highs() {
                     attribute: i,
                     threshold: a.threshold,
                     true_value: a.true_value,
+                    value_levels: None,
                 })
                 .collect(),
             keep: inst.keep.iter().map(|&i| Subject::Item(i)).collect(),

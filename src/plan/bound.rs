@@ -197,8 +197,8 @@ fn constraint_bound(
     let f = lse_except(&d, v);
     // The state is violated (the calibrated posterior says so); rounding may put the
     // gap a hair on the other side, in which case some helper is still needed.
-    let deficit = (a.kappa - f).max(1e-12);
-    let target = a.kappa - SLACK;
+    let deficit = (a.kappa[v] - f).max(1e-12);
+    let target = a.kappa[v] - SLACK;
     let free_touching: Vec<usize> = view
         .free
         .iter()
@@ -291,7 +291,7 @@ fn constraint_bound(
     // rest L (one merged option); for θ in (0, 1) either Σ_A ≥ (1−θ)e^r, so some u in
     // A has Δ_u ≥ r + ln((1−θ)/S_A), or Σ_L ≥ θe^r, so some u in L has
     // Δ_u ≥ r + ln(θ/S_L).
-    let r = a.kappa - f;
+    let r = a.kappa[v] - f;
     let mut alts: Vec<usize> = (0..a.k).filter(|&u| u != v).collect();
     alts.sort_by(|&x, &y| d[y].total_cmp(&d[x]));
     let share = |u: usize| (d[u] - f).exp();
@@ -492,7 +492,14 @@ fn split_bound(
             .copied()
             .filter(|&i| a.touches[i])
             .collect();
-        sum += single_by_cost(a, c.value, &c.gaps, &free, &costs[j], a.kappa - SLACK)?;
+        sum += single_by_cost(
+            a,
+            c.value,
+            &c.gaps,
+            &free,
+            &costs[j],
+            a.kappa[c.value] - SLACK,
+        )?;
     }
     Some(sum)
 }

@@ -20,6 +20,7 @@ pub(crate) fn states(p: &Problem, state: &[f64]) -> Vec<AttrState> {
             AttrState::new(
                 a.attribute,
                 a.threshold,
+                &a.tau,
                 a.true_value,
                 p.posterior(ai, state),
             )

@@ -159,11 +159,9 @@ pub(crate) fn search(
 ) -> Search {
     let started = Instant::now();
     let n = p.n();
-    // Pigeonhole: k probabilities summing to 1 cannot all be at most τ < 1/k.
-    if p.attrs
-        .iter()
-        .any(|a| a.true_value.is_none() && a.threshold * (a.k as f64) < 1.0 - 1e-12)
-    {
+    // Pigeonhole: probabilities summing to 1 cannot all be at most levels summing
+    // to less (τ < 1/k with one level).
+    if p.attrs.iter().any(|a| a.levels_too_low()) {
         return Search {
             best: None,
             stopped: None,

@@ -80,7 +80,7 @@ pub(crate) fn explain(
                     attribute: a.attribute,
                     value: v,
                     probability: post.probs[v],
-                    threshold: a.threshold,
+                    threshold: a.tau[v],
                     prior_probability: prior.probs[v],
                     kept,
                     proven_alone: verdict == Some(false),

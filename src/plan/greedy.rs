@@ -22,7 +22,7 @@ pub(crate) fn excess(a: &PAttr, sums: &[f64]) -> f64 {
 
 /// [`excess`] with a caller-owned buffer, so the greedy loop allocates nothing.
 fn excess_with(a: &PAttr, sums: &[f64], z: &mut Vec<f64>) -> f64 {
-    if a.threshold >= 1.0 {
+    if !a.active() {
         return 0.0;
     }
     z.clear();
@@ -36,7 +36,7 @@ fn excess_with(a: &PAttr, sums: &[f64], z: &mut Vec<f64>) -> f64 {
     let mut out = 0.0;
     for v in 0..a.k {
         let ev = z[v];
-        if !a.constrains(v) || ev / total <= a.threshold * 0.999 {
+        if !a.constrains(v) || ev / total <= a.tau[v] * 0.999 {
             continue;
         }
         // The others' share, summed directly when v dominates (the difference would
@@ -59,7 +59,7 @@ fn excess_with(a: &PAttr, sums: &[f64], z: &mut Vec<f64>) -> f64 {
         } else {
             log_odds(z_logits(a, sums), v)
         };
-        out += (logit + a.kappa).max(0.0);
+        out += (logit + a.kappa[v]).max(0.0);
     }
     out
 }
@@ -124,7 +124,7 @@ fn lift_order(p: &Problem, state: &[f64], hidden: &[bool], per_attr: &[f64]) -> 
         .map(|(ai, a)| {
             let post = p.posterior(ai, state);
             let v = (0..a.k)
-                .map(|v| a.constrains(v) && post.probs[v] > a.threshold * 0.999)
+                .map(|v| a.constrains(v) && post.probs[v] > a.tau[v] * 0.999)
                 .collect();
             (ai, v)
         })
@@ -209,7 +209,7 @@ fn effect(
     let mut gain = 0.0;
     let mut helps_some = false;
     for (ai, a) in p.attrs.iter().enumerate() {
-        if !a.touches[i] || a.threshold >= 1.0 {
+        if !a.touches[i] || !a.active() {
             continue;
         }
         scratch.clear();
@@ -414,6 +414,7 @@ mod tests {
                 attribute: 0,
                 threshold,
                 true_value: None,
+                value_levels: None,
             }],
             keep: Default::default(),
             costs: Default::default(),
@@ -472,7 +473,8 @@ mod tests {
         let mut a = p.attrs[0].clone();
         a.k = 2;
         a.log_base = vec![0.5f64.ln(); 2];
-        a.kappa = 0.0;
+        a.tau = vec![0.5; 2];
+        a.kappa = vec![0.0; 2];
         assert!((excess(&a, &[2000.0, 0.0]) - 2000.0).abs() < 1e-9);
         assert!((excess(&a, &[1999.0, 0.0]) - 1999.0).abs() < 1e-9);
         assert_eq!(excess(&a, &[0.0, 2000.0]), 2000.0);

@@ -34,6 +34,7 @@ pub enum Status {
 pub struct AttrState {
     /// Index into the priors' attributes.
     pub attribute: usize,
+    /// The attribute's alert level.
     pub threshold: f64,
     #[serde(skip_serializing_if = "Option::is_none")]
     pub true_value: Option<usize>,
@@ -43,28 +44,42 @@ pub struct AttrState {
     /// The probability of the true value, when stated.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub true_probability: Option<f64>,
-    /// The value the constraint is about: the true value, or the best guess.
+    /// The value the constraint is about: the true value; else the most probable value
+    /// over its own level, if any; else the best guess.
     pub watched: usize,
     /// Its probability.
     pub watched_probability: f64,
+    /// Its own level (the alert level, or lower for a rare value).
+    pub watched_level: f64,
     /// The whole posterior.
     pub probs: Vec<f64>,
-    /// Whether the threshold is met.
+    /// Whether every constrained value is at or under its level.
     pub meets: bool,
 }
 
 impl AttrState {
+    /// `levels`: each value's own level (all equal to `threshold` without the rarity
+    /// rule).
     pub(crate) fn new(
         attribute: usize,
         threshold: f64,
+        levels: &[f64],
         true_value: Option<usize>,
         post: Posterior,
     ) -> AttrState {
-        let watched = true_value.unwrap_or(post.best);
+        let level = |v: usize| levels.get(v).copied().unwrap_or(threshold);
+        let over = |v: usize| level(v) < 1.0 && post.probs[v] > level(v);
+        let watched = true_value.unwrap_or_else(|| {
+            (0..post.probs.len())
+                .filter(|&v| over(v))
+                .max_by(|&x, &y| post.probs[x].total_cmp(&post.probs[y]))
+                .unwrap_or(post.best)
+        });
         let watched_probability = post.probs[watched];
-        // With no true value, every value must be under the threshold; the best guess
-        // is the largest, so checking it is checking them all.
-        let meets = threshold >= 1.0 || watched_probability <= threshold;
+        let meets = match true_value {
+            Some(t) => !over(t),
+            None => !(0..post.probs.len()).any(over),
+        };
         AttrState {
             attribute,
             threshold,
@@ -74,6 +89,7 @@ impl AttrState {
             true_probability: true_value.map(|v| post.probs[v]),
             watched,
             watched_probability,
+            watched_level: level(watched),
             probs: post.probs,
             meets,
         }

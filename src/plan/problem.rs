@@ -25,10 +25,14 @@ pub(crate) struct PAttr {
     pub lambda: f64,
     pub log_base: Vec<f64>,
     pub model: AttrModel,
+    /// The attribute's alert level (what reports show as its level).
     pub threshold: f64,
-    /// `ln((1−τ)/τ)`: a value's probability is at most τ exactly when
-    /// `LSE_{u≠v}(z_u − z_v) ≥ κ`.
-    pub kappa: f64,
+    /// Per value, its own level `τ_v` (the rarity-aware rule; `threshold` for every
+    /// value without it).
+    pub tau: Vec<f64>,
+    /// Per value, `κ_v = ln((1−τ_v)/τ_v)`: value `v`'s probability is at most `τ_v`
+    /// exactly when `LSE_{u≠v}(z_u − z_v) ≥ κ_v`.
+    pub kappa: Vec<f64>,
     pub true_value: Option<usize>,
     /// Per candidate, its summed log-likelihood ratios for this attribute (`n × k`).
     pub w: Vec<f64>,
@@ -57,15 +61,28 @@ impl PAttr {
             .collect()
     }
 
-    /// Constrained values whose probability is over the threshold.
+    /// Constrained values whose probability is over their level.
     pub fn violated(&self, post: &Posterior) -> Vec<usize> {
         (0..self.k)
-            .filter(|&v| self.constrains(v) && post.probs[v] > self.threshold)
+            .filter(|&v| self.constrains(v) && post.probs[v] > self.tau[v])
             .collect()
     }
 
+    /// Whether value `v` has a constraint: its level is under 1, and it is the true
+    /// value when one is stated.
     pub fn constrains(&self, v: usize) -> bool {
-        self.threshold < 1.0 && self.true_value.is_none_or(|t| t == v)
+        self.tau[v] < 1.0 && self.true_value.is_none_or(|t| t == v)
+    }
+
+    /// Whether any value of this attribute is constrained.
+    pub fn active(&self) -> bool {
+        (0..self.k).any(|v| self.constrains(v))
+    }
+
+    /// Whether the levels alone rule out a plan: with no true value every value must
+    /// be at most its level, and probabilities add up to 1.
+    pub fn levels_too_low(&self) -> bool {
+        self.true_value.is_none() && self.tau.iter().sum::<f64>() < 1.0 - 1e-12
     }
 }
 
@@ -114,6 +131,15 @@ pub(crate) fn validate(exposure: &Exposure, request: &PlanRequest) -> Result<(),
             return Err(Error::Threshold {
                 attribute: t.attribute,
                 threshold: t.threshold,
+            });
+        }
+        if let Some(levels) = &t.value_levels
+            && (levels.len() != m.log_base.len() || levels.iter().any(|&l| !(l > 0.0 && l <= 1.0)))
+        {
+            return Err(Error::ValueLevels {
+                attribute: t.attribute,
+                given: levels.len(),
+                count: m.log_base.len(),
             });
         }
         if let Some(v) = t.true_value
@@ -218,15 +244,17 @@ impl Problem {
             for &ci in &touching {
                 touches[ci] = true;
             }
-            let tau = t.threshold;
+            let tau: Vec<f64> = (0..k).map(|v| t.level(v)).collect();
+            let kappa = tau.iter().map(|&x| ((1.0 - x) / x).ln()).collect();
             attrs.push(PAttr {
                 attribute: t.attribute,
                 k,
                 offset: start.len(),
                 lambda,
                 log_base: model.log_base.clone(),
-                threshold: tau,
-                kappa: ((1.0 - tau) / tau).ln(),
+                threshold: t.threshold,
+                tau,
+                kappa,
                 true_value: t.true_value,
                 model,
                 w,
@@ -296,7 +324,7 @@ impl Problem {
     pub fn violated(&self, state: &[f64]) -> Vec<(usize, usize)> {
         let mut out = Vec::new();
         for (ai, a) in self.attrs.iter().enumerate() {
-            if a.threshold >= 1.0 {
+            if !a.active() {
                 continue;
             }
             let post = self.posterior(ai, state);
@@ -309,7 +337,7 @@ impl Problem {
         self.attrs
             .iter()
             .enumerate()
-            .all(|(ai, a)| a.threshold >= 1.0 || a.violated(&self.posterior(ai, state)).is_empty())
+            .all(|(ai, a)| !a.active() || a.violated(&self.posterior(ai, state)).is_empty())
     }
 
     /// Total cost of a set of candidates.

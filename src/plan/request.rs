@@ -26,6 +26,20 @@ pub struct Target {
     pub threshold: f64,
     /// The user's true value (index into the attribute's values), stated privately.
     pub true_value: Option<usize>,
+    /// Per value, its own level `τ_v` in (0, 1] (one per value of the attribute), used
+    /// instead of `threshold` for that value: the rarity-aware rule gives a rare value
+    /// a lower level than the attribute's. `None`: every value at `threshold`.
+    pub value_levels: Option<Vec<f64>>,
+}
+
+impl Target {
+    /// The level value `v` must stay at or under.
+    pub fn level(&self, v: usize) -> f64 {
+        self.value_levels
+            .as_ref()
+            .and_then(|l| l.get(v).copied())
+            .unwrap_or(self.threshold)
+    }
 }
 
 /// How to search.
@@ -189,6 +203,7 @@ impl PlanRequest {
                     attribute: i,
                     threshold: a.threshold,
                     true_value: None,
+                    value_levels: None,
                 })
                 .collect(),
             keep: BTreeSet::new(),
@@ -215,6 +230,7 @@ impl PlanRequest {
                 attribute,
                 threshold: 1.0,
                 true_value: None,
+                value_levels: None,
             });
             self.targets.last_mut().expect("just pushed")
         }
@@ -223,6 +239,11 @@ impl PlanRequest {
     /// Set (or add) the threshold for an attribute.
     pub fn set_threshold(&mut self, attribute: usize, threshold: f64) {
         self.target_mut(attribute).threshold = threshold;
+    }
+
+    /// Give each value of an attribute its own level (see [`Target::value_levels`]).
+    pub fn set_value_levels(&mut self, attribute: usize, levels: Vec<f64>) {
+        self.target_mut(attribute).value_levels = Some(levels);
     }
 
     /// State the user's true value for an attribute.
@@ -245,6 +266,14 @@ pub enum Error {
     DuplicateTarget { attribute: usize },
     #[error("threshold {threshold} for attribute #{attribute} must be above 0 and at most 1")]
     Threshold { attribute: usize, threshold: f64 },
+    #[error(
+        "attribute #{attribute} has {given} per-value levels for {count} values; each must be above 0 and at most 1"
+    )]
+    ValueLevels {
+        attribute: usize,
+        given: usize,
+        count: usize,
+    },
     #[error("value #{value} of attribute #{attribute} does not exist (it has {count})")]
     UnknownValue {
         attribute: usize,
