@@ -12,6 +12,7 @@ mod priors;
 mod scan;
 mod synth;
 
+use std::io::Write;
 use std::process::ExitCode;
 
 use clap::Parser;
@@ -53,7 +54,8 @@ pub fn main() -> ExitCode {
     match result {
         Ok(code) => code,
         Err(e) => {
-            eprintln!("telltale: {e:#}");
+            // Not eprintln!: it panics when standard error is gone (a closed terminal).
+            let _ = writeln!(std::io::stderr(), "telltale: {e:#}");
             ExitCode::from(EXIT_ERROR)
         }
     }
