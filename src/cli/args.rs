@@ -299,6 +299,17 @@ pub struct SourceArgs {
     /// fast (see docs/priors.md).
     #[arg(long)]
     pub no_cache: bool,
+
+    /// Rare values count as exposed, whatever the alert level, when their probability
+    /// is over this and over --rarity-lift times their population rate, e.g. 20% or
+    /// 0.2 (default 20%; 100% turns the rule for rare values off).
+    #[arg(long, value_name = "P")]
+    pub rarity_floor: Option<String>,
+
+    /// How many times its population rate a rare value must pass to count as exposed
+    /// (default 5).
+    #[arg(long, value_name = "X")]
+    pub rarity_lift: Option<f64>,
 }
 
 #[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]

@@ -18,8 +18,10 @@ pub fn run(archive: PathBuf, src: SourceArgs) -> Result<ExitCode> {
     // moment to read, and the loading screen should be up first. A bad option still
     // ends the explorer with the same message.
     let priors = src.priors.clone();
+    let rarity = scan::rarity(&src)?;
     tui::run(tui::Options {
         archive: archive.clone(),
+        rarity,
         input: Box::new(move || scan::input(archive, &src)),
         priors,
     })?;

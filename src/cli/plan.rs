@@ -11,11 +11,11 @@ use telltale::plan::{
     write_text,
 };
 use telltale::priors::Priors;
-use telltale::scan::{Scan, load_priors};
+use telltale::scan::Scan;
 
 use super::args::{PlanArgs, PlanMethod, ReportFormat};
 use super::output::emit;
-use super::scan::{input, note_cache};
+use super::scan::input;
 
 fn split_pair<'a>(flag: &str, s: &'a str) -> Result<(&'a str, &'a str)> {
     s.rsplit_once('=')
@@ -39,7 +39,7 @@ fn attribute(priors: &Priors, flag: &str, given: &str) -> Result<usize> {
 }
 
 /// "0.4", "40%" → 0.4.
-fn probability(flag: &str, s: &str) -> Result<f64> {
+pub(super) fn probability(flag: &str, s: &str) -> Result<f64> {
     let (num, scale) = match s.strip_suffix('%') {
         Some(n) => (n.trim(), 100.0),
         None => (s, 1.0),
@@ -109,8 +109,7 @@ pub fn run(args: &PlanArgs) -> Result<ExitCode> {
              work the plan out, then press e and choose HTML"
         );
     }
-    let priors = load_priors(args.input.priors.as_deref()).context("cannot use the priors")?;
-    note_cache(&priors);
+    let priors = super::scan::priors(&args.input)?;
     let input = input(args.archive.clone(), &args.input)?;
     let scan = Scan::run(&input, &priors)?;
     // The evidence is gathered: the parsed lexicons are not needed again.

@@ -327,6 +327,7 @@ fn read_payload<R: Read>(r: &mut Stream<R>, origin: &str) -> Option<Priors> {
         warnings,
         origin: origin.to_string(),
         cache_notes: Vec::new(),
+        rarity: crate::alert::Rarity::default(),
         store,
         index,
     })

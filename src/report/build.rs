@@ -6,12 +6,13 @@ use std::sync::Arc;
 
 use serde::Serialize;
 
+use crate::alert::Rarity;
 use crate::cautions::CAUTIONS;
 use crate::evidence::Subject;
 use crate::footprint::{Footprint, ItemKind};
 use crate::infer::Exposure;
 use crate::priors::Priors;
-use crate::reading::{attribute_sentence, level};
+use crate::reading::assess;
 
 use super::rows::{RowCount, Rows};
 use super::sources::{
@@ -27,6 +28,9 @@ pub struct ScanReport {
     pub tool: ToolInfo,
     pub archive: ArchiveInfo,
     pub priors: PriorsInfo,
+    /// The rarity part of the alert rule every attribute's level is judged by: a
+    /// value over `floor` and over `lift ×` its population rate counts as exposed.
+    pub rarity: Rarity,
     pub attributes: Vec<AttributeReport>,
     /// Item × attribute rows, most revealing for this person first.
     pub items: Vec<ItemReport>,
@@ -100,6 +104,11 @@ pub struct ValueShare {
     pub label: String,
     pub probability: f64,
     pub base_rate: f64,
+    /// This value's own alert level: `min(threshold, max(rarity floor, rarity lift ×
+    /// base_rate))`.
+    pub alert_level: f64,
+    /// Over its own alert level.
+    pub exposed: bool,
 }
 
 #[derive(Debug, Clone, Serialize)]
@@ -119,6 +128,12 @@ pub struct AttributeReport {
     pub threshold: f64,
     /// exposed, leaning or quiet.
     pub level: String,
+    /// The value the alert rule counts as exposed (the best guess, or a rarer value
+    /// over the rarity floor and lift), if any.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub exposed_value: Option<String>,
+    /// Exposed only by the rarity part of the rule (under the alert level).
+    pub exposed_by_rarity: bool,
     /// Visible pieces of evidence feeding this attribute.
     pub feeding: usize,
     pub reading: String,
@@ -212,6 +227,7 @@ pub fn build_with(
         let post = exposure.posterior(ai);
         let base = attr.base_rates[post.best];
         let guess = &attr.values[post.best];
+        let verdict = assess(attr, &post.probs, attr.threshold, &priors.rarity);
         attributes.push(AttributeReport {
             id: attr.id.clone(),
             label: attr.label.clone(),
@@ -222,17 +238,11 @@ pub fn build_with(
             lift: post.probability / base,
             uniform_rate: attr.uniform_rate(),
             threshold: attr.threshold,
-            level: level(post.probability, base, attr.threshold)
-                .word()
-                .to_string(),
+            level: verdict.level.word().to_string(),
+            exposed_value: verdict.flag.map(|f| attr.values[f.value].id.clone()),
+            exposed_by_rarity: verdict.flag.is_some_and(|f| f.by_rarity),
             feeding: exposure.feeding(ai),
-            reading: attribute_sentence(
-                &attr.label,
-                &guess.label,
-                post.probability,
-                base,
-                attr.threshold,
-            ),
+            reading: verdict.reading,
             special_category: attr.special_category.clone(),
             distribution: attr
                 .values
@@ -244,6 +254,8 @@ pub fn build_with(
                     label: v.label.clone(),
                     probability: p,
                     base_rate: b,
+                    alert_level: priors.rarity.value_level(attr.threshold, b),
+                    exposed: priors.rarity.exposed(attr.threshold, p, b),
                 })
                 .collect(),
         });
@@ -293,6 +305,7 @@ pub fn build_with(
         },
         archive,
         priors: priors_info,
+        rarity: priors.rarity,
         attributes,
         items,
         unmatched,

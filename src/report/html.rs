@@ -10,7 +10,7 @@ use std::io::{self, Write};
 
 use super::build::{AttributeReport, ScanReport};
 use crate::cautions::TITLE;
-use crate::reading::percent;
+use crate::reading::{percent, rarity_note};
 use crate::text::truncate_to_width;
 
 /// The policy: nothing may load, styles only from this page.
@@ -137,7 +137,9 @@ pub fn write_html_with(
     writeln!(
         out,
         "<p class=\"key\">Each chart shows the observer's probabilities for the most likely values (blue bars), \
-         the share of the population with that value (red mark), and your alert level (dashed line).</p>"
+         the share of the population with that value (red mark), and your alert level (dashed line; a short dashed \
+         mark on a bar is a rare value's own, lower level). {}</p>",
+        escape(&rarity_note(&r.rarity))
     )?;
     writeln!(out, "<div class=\"cards\">")?;
     for a in &r.attributes {
@@ -231,6 +233,16 @@ fn write_chart(a: &AttributeReport, out: &mut dyn Write) -> io::Result<()> {
         let label = truncate_to_width(&v.label, 16);
         let bar = (v.probability.clamp(0.0, 1.0) * track).max(1.0);
         let base_x = LABEL + v.base_rate.clamp(0.0, 1.0) * track;
+        if v.alert_level < a.threshold - 1e-9 {
+            // A rare value's own, lower level (the rarity rule).
+            let own_x = LABEL + v.alert_level.clamp(0.0, 1.0) * track;
+            writeln!(
+                out,
+                "<line class=\"limit\" x1=\"{own_x:.1}\" x2=\"{own_x:.1}\" y1=\"{:.1}\" y2=\"{:.1}\"/>",
+                y - 2.0,
+                y + 16.0
+            )?;
+        }
         writeln!(
             out,
             "<text x=\"0\" y=\"{:.1}\">{}</text>\

@@ -40,6 +40,7 @@ impl Serialize for WithRows<'_, '_> {
             tool,
             archive,
             priors,
+            rarity,
             attributes,
             items: _,
             unmatched,
@@ -49,11 +50,12 @@ impl Serialize for WithRows<'_, '_> {
             warnings,
             cautions,
         } = self.head;
-        let mut s = serializer.serialize_struct("ScanReport", 12)?;
+        let mut s = serializer.serialize_struct("ScanReport", 13)?;
         s.serialize_field("format", format)?;
         s.serialize_field("tool", tool)?;
         s.serialize_field("archive", archive)?;
         s.serialize_field("priors", priors)?;
+        s.serialize_field("rarity", rarity)?;
         s.serialize_field("attributes", attributes)?;
         s.serialize_field("items", self.rows)?;
         s.serialize_field("unmatched", unmatched)?;

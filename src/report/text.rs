@@ -6,7 +6,7 @@ use std::io::{self, Write};
 
 use super::build::ScanReport;
 use crate::cautions::TITLE;
-use crate::reading::percent;
+use crate::reading::{percent, rarity_note};
 use crate::text::{display_width, pad_to_width, truncate_to_width, wrap_words};
 
 /// How to render text.
@@ -146,6 +146,7 @@ pub fn write_text(r: &ScanReport, opts: TextOptions, out: &mut dyn Write) -> io:
         "{}",
         p.dim("  (bar: █ the guess's probability, | the population rate)")
     )?;
+    writeln!(out, "{}", wrap_words(&rarity_note(&r.rarity), 76, "  "))?;
     writeln!(out)?;
 
     let shown: Vec<_> = r

@@ -33,6 +33,8 @@ pub struct Options {
     /// lists); its error ends the explorer like any load error.
     pub input: Box<dyn FnOnce() -> Result<ScanInput> + Send>,
     pub priors: Option<PathBuf>,
+    /// The rarity part of the alert rule, from the command line.
+    pub rarity: telltale::alert::Rarity,
 }
 
 /// Where the loading worker is, for the loading screen.
@@ -83,7 +85,8 @@ fn load(opts: Options, tx: &mpsc::Sender<LoadMsg>) -> Result<Ready> {
     };
     stage(Stage::Priors);
     let input = (opts.input)()?;
-    let priors = load_priors(opts.priors.as_deref()).context("cannot use the priors")?;
+    let mut priors = load_priors(opts.priors.as_deref()).context("cannot use the priors")?;
+    priors.rarity = opts.rarity;
     let mut last: Option<(Instant, bool)> = None;
     let scan = Scan::run_with_progress(&input, &priors, &mut |done, total| {
         // The import reports after each file; once all bytes are in, scoring starts.
