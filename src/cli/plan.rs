@@ -60,7 +60,7 @@ fn request(args: &PlanArgs, priors: &Priors, footprint: &Footprint) -> Result<Pl
     for t in &args.thresholds {
         let (a, p) = split_pair("--threshold", t)?;
         let ai = attribute(priors, "--threshold", a)?;
-        req.set_threshold(ai, probability("--threshold", p)?);
+        req.set_alert_level(priors, ai, probability("--threshold", p)?);
     }
     for t in &args.true_values {
         let (a, v) = split_pair("--true", t)?;
