@@ -6,11 +6,11 @@ use std::process::ExitCode;
 
 use anyhow::Result;
 
-use super::args::SourceArgs;
+use super::args::{SessionArgs, SourceArgs};
 use super::scan;
 use crate::tui;
 
-pub fn run(archive: PathBuf, src: SourceArgs) -> Result<ExitCode> {
+pub fn run(archive: PathBuf, src: SourceArgs, session: SessionArgs) -> Result<ExitCode> {
     if !tui::interactive() {
         return scan::run_default(archive, src);
     }
@@ -24,6 +24,8 @@ pub fn run(archive: PathBuf, src: SourceArgs) -> Result<ExitCode> {
         rarity,
         input: Box::new(move || scan::input(archive, &src)),
         priors,
+        no_save: session.no_save || telltale::decisions::no_save_from_env(),
+        remember_real_values: session.remember_real_values,
     })?;
     Ok(ExitCode::SUCCESS)
 }

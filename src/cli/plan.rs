@@ -7,8 +7,8 @@ use std::time::Duration;
 use anyhow::{Context, Result, anyhow, bail};
 use telltale::footprint::Footprint;
 use telltale::plan::{
-    Budget, Method, PlanRequest, build_report, find_subject, solve, write_json, write_markdown,
-    write_text,
+    Budget, Method, PlanRequest, build_report_with, find_subject, solve, write_json,
+    write_markdown, write_text,
 };
 use telltale::priors::Priors;
 use telltale::scan::Scan;
@@ -62,14 +62,32 @@ fn request(args: &PlanArgs, priors: &Priors, footprint: &Footprint) -> Result<Pl
         let ai = attribute(priors, "--threshold", a)?;
         req.set_alert_level(priors, ai, probability("--threshold", p)?);
     }
+    // The words given with --true are the person's real values: no message repeats
+    // them (a terminal, a log or a screen share would keep them).
     for t in &args.true_values {
-        let (a, v) = split_pair("--true", t)?;
-        let ai = attribute(priors, "--true", a)?;
+        let (a, v) = t
+            .rsplit_once('=')
+            .map(|(a, b)| (a.trim(), b.trim()))
+            .filter(|(a, b)| !a.is_empty() && !b.is_empty())
+            .ok_or_else(|| {
+                anyhow!("--true: expected ATTRIBUTE=VALUE, e.g. --true politics=left")
+            })?;
+        let ai = priors
+            .attributes
+            .iter()
+            .position(|x| x.id.eq_ignore_ascii_case(a) || x.label.eq_ignore_ascii_case(a))
+            .ok_or_else(|| {
+                let ids: Vec<&str> = priors.attributes.iter().map(|a| a.id.as_str()).collect();
+                anyhow!(
+                    "--true: no attribute by the name given; the priors have {}",
+                    ids.join(", ")
+                )
+            })?;
         let attr = &priors.attributes[ai];
         let vi = attr.value_index(v).ok_or_else(|| {
             let ids: Vec<&str> = attr.values.iter().map(|x| x.id.as_str()).collect();
             anyhow!(
-                "--true: {} has no value '{v}'; its values are {}",
+                "--true: {} has no value by the name given; its values are {}",
                 attr.id,
                 ids.join(", ")
             )
@@ -116,7 +134,13 @@ pub fn run(args: &PlanArgs) -> Result<ExitCode> {
     telltale::lexicon::release_bundled();
     let req = request(args, &priors, &scan.footprint)?;
     let outcome = solve(&scan.exposure, &req).context("cannot plan")?;
-    let report = build_report(&scan.archive_name, &scan.footprint, &priors, &outcome);
+    let report = build_report_with(
+        &scan.archive_name,
+        &scan.footprint,
+        &priors,
+        &outcome,
+        args.show_real_values,
+    );
     emit(args.output.output.as_deref(), |out| {
         match args.output.format {
             ReportFormat::Text => write_text(&report, out),

@@ -24,6 +24,10 @@ pub const REPORT_FORMAT: u32 = 1;
 
 #[derive(Debug, Clone, Serialize)]
 pub struct ScanReport {
+    /// Set when the document was made knowing the person's real values (the explorer's
+    /// export with a plan aimed at them): every renderer puts it first.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub warning: Option<String>,
     pub format: u32,
     pub tool: ToolInfo,
     pub archive: ArchiveInfo,
@@ -51,6 +55,38 @@ pub struct ScanReport {
 }
 
 impl ScanReport {
+    /// Use the person's own alert levels (one per attribute, in the priors' order)
+    /// instead of the priors': the threshold, level and reading of each attribute are
+    /// worked out again, so every section of a document built from this report and a
+    /// plan made with the same levels says the same thing. Levels that are not
+    /// probabilities are skipped.
+    pub fn set_alert_levels(&mut self, priors: &Priors, levels: &[f64]) {
+        for ((a, attr), &t) in self
+            .attributes
+            .iter_mut()
+            .zip(&priors.attributes)
+            .zip(levels)
+        {
+            if !(t > 0.0 && t <= 1.0) || t == a.threshold {
+                continue;
+            }
+            let probs: Vec<f64> = a.distribution.iter().map(|v| v.probability).collect();
+            if probs.len() != attr.values.len() {
+                continue;
+            }
+            let verdict = assess(attr, &probs, t, &priors.rarity);
+            a.threshold = t;
+            a.level = verdict.level.word().to_string();
+            a.exposed_value = verdict.flag.map(|f| attr.values[f.value].id.clone());
+            a.exposed_by_rarity = verdict.flag.is_some_and(|f| f.by_rarity);
+            a.reading = verdict.reading;
+            for v in &mut a.distribution {
+                v.alert_level = priors.rarity.value_level(t, v.base_rate);
+                v.exposed = priors.rarity.exposed(t, v.probability, v.base_rate);
+            }
+        }
+    }
+
     /// An attribute's label for people, from its id (the id itself if unknown).
     pub fn attribute_label(&self, id: &str) -> String {
         self.attributes
@@ -298,6 +334,7 @@ pub fn build_with(
     );
 
     ScanReport {
+        warning: None,
         format: REPORT_FORMAT,
         tool: ToolInfo {
             name: "telltale".into(),

@@ -30,6 +30,7 @@ h2{font-size:1.2rem;margin:1.75rem 0 .5rem;border-bottom:1px solid var(--line)}
 h3{font-size:1.05rem;margin:0}
 .meta{color:var(--muted);font-size:.9rem}
 .note{border-left:4px solid var(--base);padding:.25rem .75rem;background:var(--card)}
+.private{border:2px solid currentColor;padding:.5rem .75rem;border-radius:.25rem}
 .cards{display:grid;grid-template-columns:repeat(auto-fit,minmax(17rem,1fr));gap:1rem}
 .card{background:var(--card);border-radius:.5rem;padding:.75rem 1rem}
 .head{display:flex;justify-content:space-between;align-items:baseline;gap:.5rem;flex-wrap:wrap}
@@ -92,8 +93,16 @@ pub fn write_html_with(
         "<meta name=\"viewport\" content=\"width=device-width, initial-scale=1\">"
     )?;
     writeln!(out, "<meta name=\"referrer\" content=\"no-referrer\">")?;
-    writeln!(out, "<title>{}</title>", escape(&title))?;
+    let private = if r.warning.is_some() { "PRIVATE: " } else { "" };
+    writeln!(out, "<title>{private}{}</title>", escape(&title))?;
     writeln!(out, "<style>{STYLE}</style>\n</head>\n<body>\n<main>")?;
+    if let Some(w) = &r.warning {
+        writeln!(
+            out,
+            "<p class=\"private\"><strong>{}</strong></p>",
+            escape(w)
+        )?;
+    }
     writeln!(out, "<h1>{}</h1>", escape(&title))?;
     let kinds: Vec<String> = r
         .archive

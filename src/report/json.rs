@@ -36,6 +36,7 @@ struct WithRows<'r, 'a> {
 impl Serialize for WithRows<'_, '_> {
     fn serialize<S: Serializer>(&self, serializer: S) -> Result<S::Ok, S::Error> {
         let ScanReport {
+            warning,
             format,
             tool,
             archive,
@@ -50,7 +51,11 @@ impl Serialize for WithRows<'_, '_> {
             warnings,
             cautions,
         } = self.head;
-        let mut s = serializer.serialize_struct("ScanReport", 13)?;
+        let mut s = serializer.serialize_struct("ScanReport", 14)?;
+        match warning {
+            Some(w) => s.serialize_field("warning", w)?,
+            None => s.skip_field("warning")?,
+        }
         s.serialize_field("format", format)?;
         s.serialize_field("tool", tool)?;
         s.serialize_field("archive", archive)?;

@@ -27,6 +27,9 @@ fn esc(s: &str) -> String {
 
 /// Write the Markdown report; `top` limits the item table.
 pub fn write_markdown(r: &ScanReport, top: usize, out: &mut dyn Write) -> io::Result<()> {
+    if let Some(w) = &r.warning {
+        writeln!(out, "> **{}**\n", esc(w))?;
+    }
     writeln!(out, "# What {} gives away\n", esc(&r.archive.name))?;
     writeln!(
         out,

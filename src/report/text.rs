@@ -73,6 +73,9 @@ fn bar(p: f64, base: f64, width: usize) -> String {
 /// Write the text report.
 pub fn write_text(r: &ScanReport, opts: TextOptions, out: &mut dyn Write) -> io::Result<()> {
     let p = Paint(opts.colour);
+    if let Some(w) = &r.warning {
+        writeln!(out, "{}\n", p.bold(&wrap_words(w, 78, "")))?;
+    }
     writeln!(out, "{}", p.bold("telltale: what your archive gives away"))?;
     let kinds: Vec<String> = r
         .archive

@@ -24,7 +24,7 @@ fn session() -> Session {
 }
 
 /// A demo persona's session, with no saved decisions.
-fn persona(name: &str) -> Session {
+pub(super) fn persona(name: &str) -> Session {
     let priors = load_priors(None).unwrap();
     let input = ScanInput {
         archive: std::path::Path::new(env!("CARGO_MANIFEST_DIR"))
@@ -58,7 +58,7 @@ fn code(c: KeyCode) -> KeyEvent {
     KeyEvent::new(c, KeyModifiers::NONE)
 }
 
-fn press(app: &mut App, keys: &str) -> Vec<Effect> {
+pub(super) fn press(app: &mut App, keys: &str) -> Vec<Effect> {
     keys.chars().flat_map(|c| app.handle_key(key(c))).collect()
 }
 
@@ -97,7 +97,7 @@ fn finish_plan_with(app: &mut App, effects: &[Effect], nodes: u64, stopped: bool
     app.plan_finished(ask, outcome);
 }
 
-fn finish_plan(app: &mut App, effects: &[Effect]) {
+pub(super) fn finish_plan(app: &mut App, effects: &[Effect]) {
     finish_plan_with(app, effects, 20_000, false);
 }
 
