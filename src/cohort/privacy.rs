@@ -269,10 +269,15 @@ mod tests {
             max_items: 50,
         };
         assert!((b.spent() - 2.0).abs() < 1e-12);
-        // 0.2 over 5 people counts: 0.04 each, scale 25.
-        assert!((b.people_scale() - 25.0).abs() < 1e-9);
+        // 0.2 over 5 people counts: 0.04 each, scale 25 — never less, and above it
+        // only by ε's rounding down to a multiple of 2⁻²⁰.
+        assert!(b.people_scale() >= 25.0 && b.people_scale() - 25.0 < 1e-3);
         // 1.8 over 4 histograms: 0.45 each, scale 50/0.45.
-        assert!((b.items_scale() - 50.0 / 0.45).abs() < 1e-9);
+        let nominal = 50.0 / 0.45;
+        assert!(b.items_scale() >= nominal && b.items_scale() - nominal < 1e-3);
+        assert_eq!(b.problem(), None);
+        let tiny = Budget { epsilon: 1e-7, ..b };
+        assert!(tiny.problem().is_some(), "a share under 2^-20 is refused");
         assert!(b.describe().contains("at most 50 items"));
     }
 }
