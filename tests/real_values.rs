@@ -40,7 +40,7 @@ const WARNING: &str = "PRIVATE: made knowing your real values";
 /// (persona, attribute, value, the value's label) cases: the guess and not the guess.
 fn cases() -> Vec<(&'static str, String, String, String)> {
     let mut out = Vec::new();
-    for persona in ["teacher", "reporter", "student"] {
+    for persona in ["teacher", "reporter", "organiser", "student.zip"] {
         let archive = format!("demo-exports/{persona}");
         let scan: serde_json::Value =
             serde_json::from_str(&ok(&telltale(&["scan", &archive, "--format", "json"])))
@@ -154,8 +154,10 @@ fn plan_outputs_made_with_a_real_value_warn_first_and_never_give_it_away() {
                 &text[..text.len().min(300)]
             );
             for tail in after_your_value(&text) {
+                // No probability: an item's bits toward the value may follow (they
+                // say how much one item adds, not where the value stands).
                 assert!(
-                    !tail.contains('%') && !tail.chars().any(|c| c.is_ascii_digit()),
+                    !tail.contains('%') && !tail.contains("probab"),
                     "{persona} {truth} {format}: a figure beside your value: {tail}"
                 );
                 assert!(

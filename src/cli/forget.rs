@@ -13,10 +13,7 @@ use super::scan::input;
 pub fn run(args: &ForgetArgs) -> Result<ExitCode> {
     let store = Store::locate()?;
     let (removed, what) = if args.all {
-        (
-            store.forget_all()?,
-            "every archive's saved decisions".to_string(),
-        )
+        (store.forget_all()?, "for any archive".to_string())
     } else {
         let Some(archive) = &args.archive else {
             anyhow::bail!("give an archive, or --all");
@@ -24,17 +21,24 @@ pub fn run(args: &ForgetArgs) -> Result<ExitCode> {
         // The decisions are filed under the archive's fingerprint, which reading it
         // gives (the same reading the explorer does, without scoring).
         let scan_input = input(archive.clone(), &args.input)?;
-        let fingerprint = telltale::scan::fingerprint(&scan_input)
-            .with_context(|| format!("cannot read {}", archive.display()))?;
+        let fingerprint = telltale::scan::fingerprint(&scan_input).with_context(|| {
+            format!(
+                "cannot read {} to find what was saved for it (telltale forget --all removes what was saved for every archive)",
+                archive.display()
+            )
+        })?;
         (
             store.forget(&fingerprint)?,
-            format!("what was saved for {}", archive.display()),
+            format!("for {}", archive.display()),
         )
     };
     if removed.is_empty() {
-        println!("Nothing to remove: no {what} in {}.", store.dir().display());
+        println!(
+            "Nothing to remove: nothing is saved {what} in {}.",
+            store.dir().display()
+        );
     } else {
-        println!("Removed {what} ({} file(s)):", removed.len());
+        println!("Removed what was saved {what} ({} file(s)):", removed.len());
         for p in &removed {
             println!("  {}", p.display());
         }

@@ -132,9 +132,9 @@ impl App {
                         let value = cursor.checked_sub(1);
                         if self.session.set_real_value(attribute, value) {
                             self.status = Some(if self.session.remembers_real_values() {
-                                "Saved on this computer only (you asked); it never goes into a report."
+                                "Saved on this computer only, as you asked; never in a report."
                             } else {
-                                "Kept until you quit, not saved (--remember-real-values saves it); never in a report."
+                                "Not saved: kept until you quit (--remember-real-values saves it)."
                             }
                             .into());
                             return self.changed();
