@@ -149,6 +149,34 @@ pub fn logits(calibration: &Calibration, log_base: &[f64], sum: &[f64]) -> Vec<f
     }
 }
 
+/// Logits from combined sums that already carry their weights (λ for table evidence,
+/// each source's own weight otherwise; [`crate::combine`]): `log π + weighted` for the
+/// temperature model. The logistic calibration reads the same tempered logits, and its
+/// evidence-spread feature the weighted spread divided by λ (the raw spread when all
+/// the evidence is table evidence, as in the fit).
+pub fn weighted_logits(calibration: &Calibration, log_base: &[f64], weighted: &[f64]) -> Vec<f64> {
+    match calibration {
+        Calibration::Temperature { .. } => tempered(log_base, weighted, 1.0),
+        Calibration::Logistic {
+            lambda,
+            intercept,
+            log_odds,
+            log_base_rate,
+            evidence_spread,
+        } => {
+            let scale = if *lambda > 0.0 { *lambda } else { 1.0 };
+            let sum: Vec<f64> = weighted.iter().map(|w| w / scale).collect();
+            logistic_log_probs(
+                log_base,
+                &sum,
+                scale,
+                *intercept,
+                [*log_odds, *log_base_rate, *evidence_spread],
+            )
+        }
+    }
+}
+
 /// The temperature λ a calibration applies to summed evidence.
 pub fn lambda(calibration: &Calibration) -> f64 {
     match calibration {

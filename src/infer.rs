@@ -1,10 +1,15 @@
 //! Inference: what an observer would conclude from the visible evidence. For each
-//! attribute, `log P(v|S) = log π(v) + λ·Σ_{i∈S} log L_i(v) − log Z` (naive Bayes with
-//! a calibration temperature λ from the priors file), optionally followed by a fitted
-//! logistic calibration of the best guess ([`crate::calibration`]). [`Exposure`] keeps the per-value
+//! attribute, `log P(v|S) = log π(v) + Σ_{i∈S} w_i·log L_i(v) − log Z`, where the weight
+//! `w_i` is its source's (the temperature λ from the priors file for table evidence,
+//! fixed weights for word lists and friends) shared among the visible pieces of one
+//! cause ([`crate::combine`]), optionally followed by a fitted logistic calibration of
+//! the best guess ([`crate::calibration`]) and the rules-of-thumb ceiling. [`Exposure`] keeps the per-value
 //! sums of visible evidence, so hiding or showing one item updates every posterior in
 //! time proportional to that item's evidence, not to the footprint.
 
+use crate::combine::{
+    ALONE, Footing, GroupState, Grouping, RULES_OF_THUMB_CEILING, cap_top, share,
+};
 use crate::evidence::{EvidenceSet, Subject};
 use crate::priors::{Attribute, Calibration, Priors};
 use crate::stats::{argmax, softmax};
@@ -17,6 +22,9 @@ pub struct Posterior {
     pub best: usize,
     /// Its probability.
     pub probability: f64,
+    /// Only rules of thumb (word-list evidence) support it, so its best guess is held
+    /// under [`crate::combine::RULES_OF_THUMB_CEILING`] ([`crate::combine::cap_top`]).
+    pub rests_on_rules: bool,
 }
 
 /// What inference needs of an attribute.
@@ -34,19 +42,36 @@ impl AttrModel {
         }
     }
 
-    /// The posterior given the summed log-likelihood ratios of the visible evidence.
+    /// The posterior given the summed log-likelihood ratios of table evidence alone
+    /// (the temperature λ applies to all of it): what calibration is fitted on.
     pub fn posterior(&self, sum: &[f64]) -> Posterior {
-        let logits = crate::calibration::logits(&self.calibration, &self.log_base, sum);
-        let probs = softmax(&logits);
-        let (best, probability) = argmax(&probs);
+        let lambda = self.weight();
+        let weighted: Vec<f64> = sum.iter().map(|s| lambda * s).collect();
+        self.posterior_combined(&weighted, false)
+    }
+
+    /// The posterior given the combined, weighted sums of the visible evidence
+    /// ([`crate::combine`]: each source's weight and each cause's saturation already
+    /// applied), and whether only rules of thumb support it.
+    pub fn posterior_combined(&self, weighted: &[f64], rests_on_rules: bool) -> Posterior {
+        let logits =
+            crate::calibration::weighted_logits(&self.calibration, &self.log_base, weighted);
+        let mut probs = softmax(&logits);
+        let (mut best, mut probability) = argmax(&probs);
+        if rests_on_rules {
+            probs = cap_top(&logits, &probs, best, RULES_OF_THUMB_CEILING);
+            (best, probability) = argmax(&probs);
+        }
         Posterior {
             probs,
             best,
             probability,
+            rests_on_rules,
         }
     }
 
-    /// The weight one unit of log-likelihood ratio gets (λ for the temperature model).
+    /// The weight one unit of table log-likelihood ratio gets (λ, an inverse
+    /// temperature). Other sources have their own weights ([`crate::combine`]).
     pub fn weight(&self) -> f64 {
         crate::calibration::lambda(&self.calibration)
     }
@@ -58,12 +83,46 @@ pub struct Contribution {
     /// Index into the evidence list.
     pub evidence: usize,
     pub subject: Subject,
-    /// `λ·log₂ L(best guess)`: bits this subject adds toward the observer's best
-    /// guess (negative: it argues against it).
+    /// Its weighted log-likelihood ratio for the best guess, in bits (the weight is
+    /// its source's, shared with the other visible pieces of its cause): what it
+    /// adds toward the observer's best guess (negative: it argues against it).
     pub toward_best_bits: f64,
     /// How much the best guess's probability would fall if this subject were hidden
     /// (leave-one-out, all its evidence for the attribute removed).
     pub loo_drop: f64,
+}
+
+/// One attribute's running state: sums of the visible evidence.
+#[derive(Debug, Clone)]
+struct Tally {
+    /// Plain summed log-likelihood ratios (no weights).
+    raw: Vec<f64>,
+    /// Combined weighted sums: pieces alone at their source weight, plus every
+    /// group's term ([`crate::combine`]).
+    weighted: Vec<f64>,
+    /// Visible pieces resting on data (table, friends, marks) and on rules of thumb.
+    data: usize,
+    rules: usize,
+    /// Visible pieces, and per value those pointing toward it (ratio above 1).
+    feeding: usize,
+    pointing: Vec<usize>,
+}
+
+impl Tally {
+    fn new(k: usize) -> Tally {
+        Tally {
+            raw: vec![0.0; k],
+            weighted: vec![0.0; k],
+            data: 0,
+            rules: 0,
+            feeding: 0,
+            pointing: vec![0; k],
+        }
+    }
+
+    fn rests_on_rules(&self) -> bool {
+        self.data == 0 && self.rules > 0
+    }
 }
 
 /// The live state of one person's exposure: evidence, which subjects are hidden, and
@@ -79,11 +138,9 @@ pub struct Exposure {
     by_subject: Vec<usize>,
     starts: Vec<u32>,
     hidden: Vec<bool>,
-    sums: Vec<Vec<f64>>,
-    feeding: Vec<usize>,
-    /// Per attribute and value: visible pieces of evidence whose likelihood ratio for
-    /// that value is above 1 (they point toward it).
-    pointing: Vec<Vec<usize>>,
+    grouping: Grouping,
+    groups: Vec<GroupState>,
+    tallies: Vec<Tally>,
 }
 
 impl Exposure {
@@ -99,15 +156,28 @@ impl Exposure {
     pub fn with_models(models: Vec<AttrModel>, evidence: EvidenceSet) -> Exposure {
         let n_subjects = evidence.n_items + 1;
         let (by_subject, starts) = group_by_subject(&evidence, n_subjects);
+        let lambdas: Vec<f64> = models.iter().map(AttrModel::weight).collect();
+        let grouping = Grouping::new(&evidence.list, &lambdas);
+        let groups = grouping
+            .groups
+            .iter()
+            .map(|&(a, _)| GroupState {
+                n: 0,
+                sum: vec![0.0; models[a].log_base.len()],
+            })
+            .collect();
         let mut x = Exposure {
-            sums: models.iter().map(|m| vec![0.0; m.log_base.len()]).collect(),
-            feeding: vec![0; models.len()],
-            pointing: models.iter().map(|m| vec![0; m.log_base.len()]).collect(),
+            tallies: models
+                .iter()
+                .map(|m| Tally::new(m.log_base.len()))
+                .collect(),
             models,
             evidence,
             by_subject,
             starts,
             hidden: vec![false; n_subjects],
+            grouping,
+            groups,
         };
         x.recompute();
         x
@@ -116,12 +186,12 @@ impl Exposure {
     /// Rebuild every sum from scratch (incremental updates are exact up to rounding;
     /// this removes even that).
     pub fn recompute(&mut self) {
-        for s in &mut self.sums {
-            s.iter_mut().for_each(|v| *v = 0.0);
+        for t in &mut self.tallies {
+            *t = Tally::new(t.raw.len());
         }
-        self.feeding.iter_mut().for_each(|f| *f = 0);
-        for p in &mut self.pointing {
-            p.iter_mut().for_each(|v| *v = 0);
+        for g in &mut self.groups {
+            g.n = 0;
+            g.sum.iter_mut().for_each(|v| *v = 0.0);
         }
         for slot in 0..self.hidden.len() {
             if self.hidden[slot] {
@@ -130,16 +200,34 @@ impl Exposure {
             let range = self.starts[slot] as usize..self.starts[slot + 1] as usize;
             for &ei in &self.by_subject[range] {
                 let e = &self.evidence.list[ei];
-                for (s, l) in self.sums[e.attribute()].iter_mut().zip(e.log_lr().iter()) {
-                    *s += l;
+                let t = &mut self.tallies[e.attribute()];
+                for ((r, w), l) in t.raw.iter_mut().zip(&mut t.weighted).zip(e.log_lr()) {
+                    *r += l;
+                    if self.grouping.group_of[ei] == ALONE {
+                        *w += self.grouping.weight[ei] * l;
+                    }
                 }
-                for (n, l) in self.pointing[e.attribute()]
-                    .iter_mut()
-                    .zip(e.log_lr().iter())
-                {
+                for (n, l) in t.pointing.iter_mut().zip(e.log_lr().iter()) {
                     *n += usize::from(*l > 0.0);
                 }
-                self.feeding[e.attribute()] += 1;
+                t.feeding += 1;
+                match self.grouping.footing[ei] {
+                    Footing::Data => t.data += 1,
+                    Footing::RuleOfThumb => t.rules += 1,
+                }
+                let g = self.grouping.group_of[ei];
+                if g != ALONE {
+                    let g = &mut self.groups[g as usize];
+                    g.n += 1;
+                    for (s, l) in g.sum.iter_mut().zip(e.log_lr()) {
+                        *s += l;
+                    }
+                }
+            }
+        }
+        for (g, &(a, w)) in self.groups.iter().zip(&self.grouping.groups) {
+            for (v, x) in self.tallies[a].weighted.iter_mut().enumerate() {
+                *x += g.term(w, v);
             }
         }
     }
@@ -169,6 +257,81 @@ impl Exposure {
         &self.by_subject[self.starts[s] as usize..self.starts[s + 1] as usize]
     }
 
+    /// How the evidence is grouped by shared cause, with each piece's source weight.
+    pub fn grouping(&self) -> &Grouping {
+        &self.grouping
+    }
+
+    /// The weight piece `ei` gets now: its source's weight, times its cause group's
+    /// share `f(n)/n` for the group's `n` visible pieces (1 when it stands alone).
+    pub fn piece_weight(&self, ei: usize) -> f64 {
+        let w = self.grouping.weight[ei];
+        match self.grouping.group_of[ei] {
+            ALONE => w,
+            g => w * share(self.groups[g as usize].n.max(1)),
+        }
+    }
+
+    /// Visible pieces in the cause group of piece `ei` (1 when it stands alone).
+    pub fn cause_size(&self, ei: usize) -> usize {
+        match self.grouping.group_of[ei] {
+            ALONE => 1,
+            g => self.groups[g as usize].n,
+        }
+    }
+
+    /// Add (`sign` 1) or remove (−1) piece `ei` from the running sums.
+    fn apply(&mut self, ei: usize, sign: f64) {
+        let e = &self.evidence.list[ei];
+        let t = &mut self.tallies[e.attribute()];
+        let g = self.grouping.group_of[ei];
+        let shown = sign > 0.0;
+        for (r, l) in t.raw.iter_mut().zip(e.log_lr()) {
+            *r += sign * l;
+        }
+        if g == ALONE {
+            let w = self.grouping.weight[ei];
+            for (x, l) in t.weighted.iter_mut().zip(e.log_lr()) {
+                *x += sign * w * l;
+            }
+        } else {
+            let w = self.grouping.groups[g as usize].1;
+            let group = &mut self.groups[g as usize];
+            let before = share(group.n);
+            if shown {
+                group.n += 1;
+            } else {
+                group.n -= 1;
+            }
+            let after = share(group.n);
+            for ((x, s), l) in t.weighted.iter_mut().zip(&mut group.sum).zip(e.log_lr()) {
+                let old = *s;
+                *s += sign * l;
+                *x += w * (after * *s - before * old);
+            }
+        }
+        for (n, l) in t.pointing.iter_mut().zip(e.log_lr().iter()) {
+            if *l > 0.0 {
+                if shown {
+                    *n += 1;
+                } else {
+                    *n -= 1;
+                }
+            }
+        }
+        let count = match self.grouping.footing[ei] {
+            Footing::Data => &mut t.data,
+            Footing::RuleOfThumb => &mut t.rules,
+        };
+        for c in [count, &mut t.feeding] {
+            if shown {
+                *c += 1;
+            } else {
+                *c -= 1;
+            }
+        }
+    }
+
     /// Hide or show a subject; returns whether anything changed. Cost: the subject's
     /// own evidence, independent of footprint size.
     pub fn set_hidden(&mut self, subject: Subject, hidden: bool) -> bool {
@@ -179,28 +342,9 @@ impl Exposure {
         self.hidden[s] = hidden;
         let sign = if hidden { -1.0 } else { 1.0 };
         let range = self.starts[s] as usize..self.starts[s + 1] as usize;
-        for &ei in &self.by_subject[range] {
-            let e = &self.evidence.list[ei];
-            for (sum, l) in self.sums[e.attribute()].iter_mut().zip(e.log_lr().iter()) {
-                *sum += sign * l;
-            }
-            for (n, l) in self.pointing[e.attribute()]
-                .iter_mut()
-                .zip(e.log_lr().iter())
-            {
-                if *l > 0.0 {
-                    if hidden {
-                        *n -= 1;
-                    } else {
-                        *n += 1;
-                    }
-                }
-            }
-            if hidden {
-                self.feeding[e.attribute()] -= 1;
-            } else {
-                self.feeding[e.attribute()] += 1;
-            }
+        for k in range {
+            let ei = self.by_subject[k];
+            self.apply(ei, sign);
         }
         true
     }
@@ -217,47 +361,99 @@ impl Exposure {
 
     /// The observer's current belief about attribute `a`.
     pub fn posterior(&self, a: usize) -> Posterior {
-        self.models[a].posterior(&self.sums[a])
+        let t = &self.tallies[a];
+        self.models[a].posterior_combined(&t.weighted, t.rests_on_rules())
     }
 
-    /// Summed log-likelihood ratios of the visible evidence for attribute `a`.
+    /// Summed log-likelihood ratios of the visible evidence for attribute `a`, without
+    /// weights.
     pub fn sum(&self, a: usize) -> &[f64] {
-        &self.sums[a]
+        &self.tallies[a].raw
+    }
+
+    /// Combined weighted sums of the visible evidence for attribute `a`: the
+    /// posterior's logits less the log base rates (before any calibration beyond the
+    /// weights, and before the rules-of-thumb ceiling).
+    pub fn weighted_sum(&self, a: usize) -> &[f64] {
+        &self.tallies[a].weighted
+    }
+
+    /// Whether only rules of thumb support attribute `a` now.
+    pub fn rests_on_rules(&self, a: usize) -> bool {
+        self.tallies[a].rests_on_rules()
+    }
+
+    /// Visible pieces of evidence for attribute `a` resting on data (table, friends,
+    /// marks) and on rules of thumb.
+    pub fn footings(&self, a: usize) -> (usize, usize) {
+        (self.tallies[a].data, self.tallies[a].rules)
     }
 
     /// How many visible pieces of evidence feed attribute `a`.
     pub fn feeding(&self, a: usize) -> usize {
-        self.feeding[a]
+        self.tallies[a].feeding
     }
 
     /// How many visible pieces of evidence for attribute `a` point toward value `v`
     /// (likelihood ratio above 1). Kept up to date by [`Exposure::set_hidden`], so a
     /// front end can show it after every change without walking all the evidence.
     pub fn pointing_to(&self, a: usize, v: usize) -> usize {
-        self.pointing[a][v]
+        self.tallies[a].pointing[v]
     }
 
     /// The posterior for `a` if `subject` were hidden too (or shown, if hidden now).
     pub fn posterior_toggled(&self, a: usize, subject: Subject) -> Posterior {
         let s = slot(subject, self.evidence.n_items);
         let sign = if self.hidden[s] { 1.0 } else { -1.0 };
-        let mut sum = self.sums[a].clone();
+        let t = &self.tallies[a];
+        let mut weighted = t.weighted.clone();
+        let (mut data, mut rules) = (t.data, t.rules);
+        // Groups touched, with their visible count and sums as they would be.
+        let mut touched: Vec<(u32, GroupState)> = Vec::new();
         for &ei in self.of_slot(s) {
             let e = &self.evidence.list[ei];
-            if e.attribute() == a {
-                for (x, l) in sum.iter_mut().zip(e.log_lr().iter()) {
-                    *x += sign * l;
+            if e.attribute() != a {
+                continue;
+            }
+            match self.grouping.footing[ei] {
+                Footing::Data => data = data.wrapping_add_signed(sign as isize),
+                Footing::RuleOfThumb => rules = rules.wrapping_add_signed(sign as isize),
+            }
+            let g = self.grouping.group_of[ei];
+            if g == ALONE {
+                let w = self.grouping.weight[ei];
+                for (x, l) in weighted.iter_mut().zip(e.log_lr()) {
+                    *x += sign * w * l;
                 }
+                continue;
+            }
+            let at = match touched.iter().position(|(h, _)| *h == g) {
+                Some(at) => at,
+                None => {
+                    touched.push((g, self.groups[g as usize].clone()));
+                    touched.len() - 1
+                }
+            };
+            let state = &mut touched[at].1;
+            state.n = state.n.wrapping_add_signed(sign as isize);
+            for (x, l) in state.sum.iter_mut().zip(e.log_lr()) {
+                *x += sign * l;
             }
         }
-        self.models[a].posterior(&sum)
+        for (g, new) in &touched {
+            let w = self.grouping.groups[*g as usize].1;
+            let old = &self.groups[*g as usize];
+            for (v, x) in weighted.iter_mut().enumerate() {
+                *x += new.term(w, v) - old.term(w, v);
+            }
+        }
+        self.models[a].posterior_combined(&weighted, data == 0 && rules > 0)
     }
 
     /// Every visible subject's contribution to attribute `a`, largest push toward the
     /// best guess first.
     pub fn contributions(&self, a: usize) -> Vec<Contribution> {
         let post = self.posterior(a);
-        let w = self.models[a].weight();
         let mut out: Vec<Contribution> = self
             .evidence
             .list
@@ -269,7 +465,8 @@ impl Exposure {
                 Contribution {
                     evidence: i,
                     subject: e.subject(),
-                    toward_best_bits: w * e.log_lr()[post.best] / std::f64::consts::LN_2,
+                    toward_best_bits: self.piece_weight(i) * e.log_lr()[post.best]
+                        / std::f64::consts::LN_2,
                     loo_drop: post.probability - without.probs[post.best],
                 }
             })
@@ -315,143 +512,4 @@ fn unslot(i: usize, n_items: usize) -> Subject {
 }
 
 #[cfg(test)]
-mod tests {
-    use super::*;
-    use crate::evidence::{Evidence, Origin};
-
-    fn model(base: &[f64], lambda: f64) -> AttrModel {
-        AttrModel {
-            log_base: base.iter().map(|b| b.ln()).collect(),
-            calibration: Calibration::Temperature { lambda },
-        }
-    }
-
-    fn ev(item: usize, p: &[f64], base: &[f64]) -> Evidence {
-        Evidence::from_distribution(Subject::Item(item), 0, p.to_vec(), base, 10.0, Origin::Mark)
-    }
-
-    // Worked example by hand (Bayes' rule): prior (0.5, 0.5); two independent items
-    // each with likelihood ratios (1.6, 0.4) give posterior odds 0.5·1.6² : 0.5·0.4²
-    // = 1.28 : 0.08, so P(v0) = 1.28/1.36 ≈ 0.941176.
-    #[test]
-    fn naive_bayes_matches_bayes_rule() {
-        let base = [0.5, 0.5];
-        let mut set = EvidenceSet::new(2);
-        set.push(ev(0, &[0.8, 0.2], &base));
-        set.push(ev(1, &[0.8, 0.2], &base));
-        let mut x = Exposure::with_models(vec![model(&base, 1.0)], set);
-        let p = x.posterior(0);
-        assert_eq!(p.best, 0);
-        assert!((p.probability - 1.28 / 1.36).abs() < 1e-12);
-        // Hiding one leaves one likelihood ratio: 0.8.
-        assert!(x.set_hidden(Subject::Item(1), true));
-        assert!((x.posterior(0).probability - 0.8).abs() < 1e-12);
-        assert!(!x.set_hidden(Subject::Item(1), true));
-        assert_eq!(x.feeding(0), 1);
-        // Hiding both returns the prior.
-        x.set_hidden(Subject::Item(0), true);
-        assert!((x.posterior(0).probability - 0.5).abs() < 1e-12);
-        assert_eq!(x.hidden_subjects().len(), 2);
-    }
-
-    #[test]
-    fn temperature_tempers() {
-        let base = [0.5, 0.5];
-        let mut set = EvidenceSet::new(1);
-        set.push(ev(0, &[0.8, 0.2], &base));
-        let x = Exposure::with_models(vec![model(&base, 0.5)], set);
-        // λ = 0.5: odds 4^0.5 = 2 → P = 2/3.
-        assert!((x.posterior(0).probability - 2.0 / 3.0).abs() < 1e-12);
-    }
-
-    #[test]
-    fn contributions_and_leave_one_out() {
-        let base = [0.5, 0.5];
-        let mut set = EvidenceSet::new(3);
-        set.push(ev(0, &[0.8, 0.2], &base));
-        set.push(ev(1, &[0.6, 0.4], &base));
-        set.push(ev(2, &[0.3, 0.7], &base));
-        let x = Exposure::with_models(vec![model(&base, 1.0)], set);
-        let c = x.contributions(0);
-        assert_eq!(c.len(), 3);
-        assert_eq!(c[0].subject, Subject::Item(0));
-        assert!((c[0].toward_best_bits - (1.6f64).log2()).abs() < 1e-12);
-        assert!(c[2].toward_best_bits < 0.0);
-        assert!(c[0].loo_drop > 0.0 && c[2].loo_drop < 0.0);
-    }
-
-    #[test]
-    fn incremental_equals_recompute_after_many_toggles() {
-        let base = [0.2, 0.3, 0.5];
-        let mut set = EvidenceSet::new(50);
-        for i in 0..50 {
-            let a = 0.1 + (i % 7) as f64 * 0.1;
-            let p = [a / 2.0, a / 2.0, 1.0 - a];
-            set.push(ev(i, &p, &base));
-        }
-        let mut x = Exposure::with_models(vec![model(&base, 0.8)], set);
-        for step in 0..1000 {
-            let i = (step * 37) % 50;
-            let hidden = x.is_hidden(Subject::Item(i));
-            x.set_hidden(Subject::Item(i), !hidden);
-        }
-        let inc = x.posterior(0);
-        let pointing: Vec<usize> = (0..3).map(|v| x.pointing_to(0, v)).collect();
-        x.recompute();
-        let full = x.posterior(0);
-        for (a, b) in inc.probs.iter().zip(&full.probs) {
-            assert!((a - b).abs() < 1e-12);
-        }
-        assert_eq!(
-            pointing,
-            (0..3).map(|v| x.pointing_to(0, v)).collect::<Vec<_>>()
-        );
-        // Counted directly: visible evidence with a likelihood ratio above 1 per value.
-        for (v, &n) in pointing.iter().enumerate() {
-            let direct = x
-                .evidence()
-                .list
-                .iter()
-                .filter(|e| !x.is_hidden(e.subject()) && e.log_lr()[v] > 0.0)
-                .count();
-            assert_eq!(n, direct);
-        }
-    }
-
-    /// The flat grouping gives each subject exactly its own evidence, in evidence
-    /// order, whatever order the evidence list mixes subjects in (counted directly).
-    #[test]
-    fn evidence_of_lists_each_subjects_own_evidence_in_order() {
-        let base = [0.5, 0.5];
-        let mut set = EvidenceSet::new(6);
-        // Subjects out of order, some repeated, item 4 without evidence.
-        for &i in &[3, 0, 5, 3, 1, 0, 3, 2, 5] {
-            set.push(ev(i, &[0.7, 0.3], &base));
-        }
-        set.push(Evidence::from_distribution(
-            Subject::FriendList,
-            0,
-            vec![0.4, 0.6],
-            &base,
-            10.0,
-            Origin::Mark,
-        ));
-        let x = Exposure::with_models(vec![model(&base, 1.0)], set);
-        let subjects = (0..6).map(Subject::Item).chain([Subject::FriendList]);
-        let mut seen = 0;
-        for subject in subjects {
-            let direct: Vec<usize> = x
-                .evidence()
-                .list
-                .iter()
-                .enumerate()
-                .filter(|(_, e)| e.subject() == subject)
-                .map(|(i, _)| i)
-                .collect();
-            assert_eq!(x.evidence_of(subject), direct.as_slice(), "{subject:?}");
-            seen += direct.len();
-        }
-        assert_eq!(seen, x.evidence().list.len());
-        assert!(x.evidence_of(Subject::Item(4)).is_empty());
-    }
-}
+mod tests;

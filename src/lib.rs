@@ -12,6 +12,7 @@ pub mod archive;
 pub mod calibration;
 pub mod cautions;
 pub mod cohort;
+pub mod combine;
 pub mod decisions;
 pub mod eval;
 pub mod evidence;

@@ -204,6 +204,26 @@ pub fn attribute_sentence(
     }
 }
 
+/// Said after an attribute's sentence when only rules of thumb (word lists: place
+/// names, life stages, belief words) support its guess, whose probability is then held
+/// at or under [`crate::combine::RULES_OF_THUMB_CEILING`].
+pub fn rules_of_thumb_note() -> String {
+    format!(
+        "This guess rests only on rules of thumb (words in item names), not on counted data, so it is never put above {}.",
+        percent(crate::combine::RULES_OF_THUMB_CEILING)
+    )
+}
+
+/// An attribute's sentence, with [`rules_of_thumb_note`] when only rules of thumb
+/// support the guess.
+pub fn with_footing(sentence: String, rests_on_rules: bool) -> String {
+    if rests_on_rules {
+        format!("{sentence} {}", rules_of_thumb_note())
+    } else {
+        sentence
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -231,6 +251,12 @@ mod tests {
         let s = attribute_sentence("Age band", "25–34", 0.68, 0.18, 0.5);
         assert!(s.contains("about 7 times in 10"), "{s}");
         assert!(s.contains("3.8×"), "{s}");
+        assert_eq!(with_footing(s.clone(), false), s);
+        let r = with_footing(s.clone(), true);
+        assert!(
+            r.starts_with(&s) && r.contains("rules of thumb") && r.contains("85%"),
+            "{r}"
+        );
     }
 
     fn religion() -> Attribute {

@@ -57,6 +57,23 @@ pub fn smooth_against(
     (p, q)
 }
 
+/// Member counts released with noise of variance `σ²` on every count, scaled to the
+/// sample size they are worth: `n_eff = n² / (n + K·σ²)` for `n` members over `K`
+/// values. The share `c(v)/n` of a sample of `n` has variance about `p(1−p)/n`, and
+/// the noise adds `σ²/n²`; taking `p(1−p) ≈ 1/K` (an average cell; common practice, no
+/// source), the sum is the variance of a clean sample of `n_eff`. Counts well inside
+/// the noise (`n ≲ K·σ²`) shrink to a fraction of one member, so the item then adds
+/// about nothing; with no noise the counts are returned unchanged.
+pub fn noise_equivalent(counts: &[f64], noise_variance: f64) -> Vec<f64> {
+    let n: f64 = counts.iter().map(|c| c.max(0.0)).sum();
+    if noise_variance.is_nan() || noise_variance <= 0.0 || n <= 0.0 {
+        return counts.to_vec();
+    }
+    let k = counts.len().max(1) as f64;
+    let ratio = n / (n + k * noise_variance);
+    counts.iter().map(|c| c.max(0.0) * ratio).collect()
+}
+
 /// Shannon entropy in bits, with `0·log 0 = 0`.
 pub fn entropy_bits(p: &[f64]) -> f64 {
     -p.iter()
@@ -227,6 +244,12 @@ mod tests {
         let p = softmax(&[-1e6, 0.0]);
         assert!(close(p[1], 1.0));
         assert!(close(log_sum_exp(&[0.0, 0.0]), 2f64.ln()));
+        // Noise: 400 members over 4 values with noise variance 100 per count are
+        // worth 400²/(400 + 4·100) = 200 clean members (arithmetic).
+        let c = noise_equivalent(&[100.0, 100.0, 150.0, 50.0], 100.0);
+        assert!(close(c.iter().sum::<f64>(), 200.0));
+        assert!(close(c[2] / c[3], 3.0));
+        assert_eq!(noise_equivalent(&[3.0, 1.0], 0.0), vec![3.0, 1.0]);
         assert_eq!(argmax(&[0.1, 0.7, 0.7]), (1, 0.7));
     }
 }

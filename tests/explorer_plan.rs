@@ -93,7 +93,14 @@ fn explorer_plan_equals_the_plan_command() {
     // Defaults: every attribute at the priors' alert level.
     let mut s = session("teacher");
     let ours = explorer(&s, false);
-    assert_eq!(ours["status"], "optimal");
+    // Place names group by shared cause and rules of thumb alone have a ceiling
+    // (docs/model-card.md, "Combining evidence"): the linear bounds are then not a
+    // proof, so a plan that meets every level is "feasible" rather than "optimal".
+    assert!(
+        ours["status"] == "optimal" || ours["status"] == "feasible",
+        "{}",
+        ours["status"]
+    );
     assert_eq!(essentials(&ours), essentials(&cli(&[archive])));
 
     // A kept item, a changed alert level and a stated true value.

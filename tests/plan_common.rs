@@ -41,7 +41,12 @@ pub fn exposure(n: usize, attrs: &[Attr]) -> Exposure {
                     info_bits: 0.0,
                     support: 1.0,
                 },
-                Origin::Mark,
+                // Reference-table evidence (the temperature λ applies to it), one
+                // reference item per archive item, so no two share a cause.
+                Origin::Table {
+                    matched_by: telltale::priors::MatchedBy::Name,
+                    reference: format!("reference {i}").into(),
+                },
             ));
         }
     }

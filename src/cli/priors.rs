@@ -119,7 +119,7 @@ fn build(args: &PriorsBuildArgs) -> Result<ExitCode> {
             created: args.created.clone().unwrap_or_else(today),
             settings,
             method_note: note,
-            synthetic: false,
+            synthetic: telltale::synth::cohort::is_synthetic_cohort(&args.cohort.cohort),
         },
     );
     write_private(&args.output, |out| write_priors(&built.file, out))
@@ -139,6 +139,15 @@ fn build(args: &PriorsBuildArgs) -> Result<ExitCode> {
         args.cohort.max_items,
         budget.people_scale()
     );
+    if let Some(w) = built
+        .file
+        .provenance
+        .privacy
+        .as_ref()
+        .and_then(|p| p.warning.as_deref())
+    {
+        eprintln!("warning: {w} (also written into the file)");
+    }
     if let Some(s) = args.seed {
         eprintln!(
             "warning: --seed {s} makes the noise reproducible; anyone who knows the seed can remove it. Do not share this file as private."

@@ -11,10 +11,11 @@ use rand::Rng;
 use super::counts::Counts;
 use super::error::{Error, Result};
 use super::load::Schema;
-use super::privacy::Budget;
+use super::privacy::{Budget, laplace_variance};
 use crate::priors::{
     AttributeSpec, Calibration, FORMAT, ItemSpec, MemberSpec, PriorsFile, PrivacySpec, Provenance,
 };
+use crate::stats::noise_equivalent;
 
 /// Statistics ready to be written.
 #[derive(Debug, Clone, PartialEq)]
@@ -234,6 +235,10 @@ pub fn build_file(schema: &Schema, table: &Table, params: &BuildParams) -> Built
                 sensitivity: b.items_sensitivity(),
                 min_members: params.min_members,
                 budget_split: b.describe(),
+                item_noise_scale: Some(b.items_scale()),
+                item_noise_variance: Some(laplace_variance(b.items_scale())),
+                warning: noise_check(table, laplace_variance(b.items_scale()))
+                    .map(|c| c.warning(b.epsilon)),
             }),
             format!(
                 "Member counts from about {contributors} consenting contributors' archives (a noisy count), released with the discrete Laplace mechanism (ε = {}); ",
@@ -273,6 +278,92 @@ pub fn build_file(schema: &Schema, table: &Table, params: &BuildParams) -> Built
     }
 }
 
+/// How much the released item counts are worth once their noise is accounted for.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct NoiseCheck {
+    /// Median, over written items and attributes, of the clean sample the noisy counts
+    /// are worth ([`noise_equivalent`]).
+    pub median_worth: f64,
+    /// Share of those item × attribute counts worth at least one member.
+    pub worth_one: f64,
+}
+
+impl NoiseCheck {
+    /// The sentence written into the file and printed by `priors build`.
+    pub fn warning(&self, epsilon: f64) -> String {
+        format!(
+            "This cohort is too small for ε = {epsilon}: once the noise is accounted for, the median item's member counts are worth {:.2} members, and only {:.0}% of item counts are worth one member or more. Expect guesses from this file to be little better than guessing the most common value; use a larger cohort or a larger ε.",
+            self.median_worth,
+            self.worth_one * 100.0
+        )
+    }
+}
+
+/// Below this median worth (in members) a release counts as too noisy to be useful
+/// (common practice, no source: a typical item then says less than one member's
+/// declaration, so an observer's guess stays near the most common value).
+pub const USEFUL_MEDIAN_WORTH: f64 = 1.0;
+
+/// `Some` when the released table is too noisy to be useful: the median written item
+/// count is worth less than [`USEFUL_MEDIAN_WORTH`] members (or nothing was written).
+pub fn noise_check(table: &Table, noise_variance: f64) -> Option<NoiseCheck> {
+    let mut worth: Vec<f64> = table
+        .items
+        .iter()
+        .zip(&table.keep)
+        .filter(|(_, k)| **k)
+        .flat_map(|(per_attr, _)| per_attr.iter())
+        .map(|c| noise_equivalent(c, noise_variance).iter().sum::<f64>())
+        .collect();
+    worth.sort_by(f64::total_cmp);
+    let check = NoiseCheck {
+        median_worth: worth.get(worth.len() / 2).copied().unwrap_or(0.0),
+        worth_one: if worth.is_empty() {
+            0.0
+        } else {
+            worth.iter().filter(|&&w| w >= 1.0).count() as f64 / worth.len() as f64
+        },
+    };
+    (check.median_worth < USEFUL_MEDIAN_WORTH).then_some(check)
+}
+
 fn round6(x: f64) -> f64 {
     (x * 1e6).round() / 1e6
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn table(sizes: &[f64]) -> Table {
+        Table {
+            items: sizes.iter().map(|&n| vec![vec![n / 4.0; 4]; 2]).collect(),
+            keep: vec![true; sizes.len()],
+            people: vec![vec![1.0; 4]; 2],
+            memberships: vec![vec![1.0; 4]; 2],
+            contributors: 100.0,
+        }
+    }
+
+    /// The guide's practice run: m = 50, ε = 4, four attributes give Laplace scale
+    /// 50/0.9 ≈ 55.6 on each item count (variance 2b² ≈ 6,173; Dwork & Roth 2014), and
+    /// a few dozen members per item are worth well under one member.
+    #[test]
+    fn small_cohorts_are_flagged_and_large_ones_are_not() {
+        let b: f64 = 50.0 / 0.9;
+        let var = laplace_variance(b);
+        let small = noise_check(&table(&[20.0, 40.0, 60.0, 80.0, 100.0]), var)
+            .expect("a 500-member cohort at ε = 4 is too noisy");
+        // Median item 60 members over 4 values: 60²/(60 + 4·6172.8) ≈ 0.145.
+        assert!((small.median_worth - 3600.0 / (60.0 + 4.0 * var)).abs() < 1e-9);
+        assert_eq!(small.worth_one, 0.0);
+        assert!(small.warning(4.0).contains("too small for ε = 4"));
+        // Items of 20,000 members are worth thousands: no warning.
+        assert!(noise_check(&table(&[20_000.0; 5]), var).is_none());
+        // No noise, no warning; nothing written, a warning.
+        assert!(noise_check(&table(&[5.0; 3]), 0.0).is_none());
+        let mut none = table(&[5.0]);
+        none.keep = vec![false];
+        assert!(noise_check(&none, var).is_some());
+    }
 }

@@ -42,6 +42,12 @@ pub enum Origin {
 pub struct LexiconRule {
     pub rule: String,
     pub detail: String,
+    /// The cause this evidence shares with other evidence of the same attribute, for
+    /// the dependence-aware combination ([`crate::combine`]). `None`: the rule itself,
+    /// with the value the evidence points to most. A source whose rule names cover
+    /// several causes (or one cause under several names) sets it.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub cause: Option<String>,
 }
 
 impl Origin {
@@ -50,6 +56,21 @@ impl Origin {
         Origin::Lexicon(Arc::new(LexiconRule {
             rule: rule.into(),
             detail: detail.into(),
+            cause: None,
+        }))
+    }
+
+    /// Evidence from a lexicon rule, with the cause it shares with other evidence
+    /// named ([`LexiconRule::cause`]).
+    pub fn lexicon_with_cause(
+        rule: impl Into<String>,
+        detail: impl Into<String>,
+        cause: impl Into<String>,
+    ) -> Origin {
+        Origin::Lexicon(Arc::new(LexiconRule {
+            rule: rule.into(),
+            detail: detail.into(),
+            cause: Some(cause.into()),
         }))
     }
 

@@ -5,7 +5,10 @@
 //! multinomial naive Bayes over memberships prescribes: `P(i|v)/P(i) = p_i(v)/μ(v)`.
 //! An item whose members look like everyone's memberships then carries no evidence,
 //! even where people with some values join more items overall. Smoothing is described
-//! at [`crate::stats::smooth_against`].
+//! at [`crate::stats::smooth_against`]. Counts released with noise (a priors file that
+//! records its noise variance) first become the clean sample they are worth
+//! ([`crate::stats::noise_equivalent`]), so an item whose counts sit within the noise
+//! adds about nothing; its support is then that sample's size.
 //!
 //! Evidence depends only on the attribute and the counts, and large tables repeat the
 //! same counts many times (items with a handful of members), so items whose counts are
@@ -18,7 +21,7 @@ use foldhash::{HashMap, HashMapExt};
 use super::model::{Evidence, EvidenceSet, Origin, Subject};
 use crate::footprint::Footprint;
 use crate::priors::{MatchedBy, Priors};
-use crate::stats::smooth_against;
+use crate::stats::{noise_equivalent, smooth_against};
 
 /// Add the priors-table evidence for every matched item.
 pub fn from_table(footprint: &Footprint, priors: &Priors, set: &mut EvidenceSet) {
@@ -37,6 +40,12 @@ pub fn from_table(footprint: &Footprint, priors: &Priors, set: &mut EvidenceSet)
         .sum();
     set.list.reserve_exact(pieces);
     let mut counts = Vec::new();
+    // Counts released with noise are worth fewer members (docs/priors.md).
+    let noise = priors
+        .provenance
+        .privacy
+        .as_ref()
+        .map_or(0.0, |p| p.item_count_variance());
     // (attribute, coding, coded counts) → the evidence already made from them.
     let mut made: HashMap<(usize, u8, &[u8]), usize> = HashMap::new();
     for (i, ri, matched_by) in matched {
@@ -57,6 +66,9 @@ pub fn from_table(footprint: &Footprint, priors: &Priors, set: &mut EvidenceSet)
             }
             reference.counts_into(ai, &mut counts);
             let attr = &priors.attributes[ai];
+            if noise > 0.0 {
+                counts = noise_equivalent(&counts, noise);
+            }
             let (p, q) = smooth_against(
                 &counts,
                 &attr.member_rates,

@@ -68,9 +68,11 @@ pub(crate) fn explain(
                         let bits: f64 = exposure
                             .evidence_of(s)
                             .iter()
-                            .map(|&e| &exposure.evidence().list[e])
-                            .filter(|e| e.attribute() == a.attribute)
-                            .map(|e| a.lambda * e.log_lr()[v] / std::f64::consts::LN_2)
+                            .map(|&ei| (ei, &exposure.evidence().list[ei]))
+                            .filter(|(_, e)| e.attribute() == a.attribute)
+                            .map(|(ei, e)| {
+                                exposure.piece_weight(ei) * e.log_lr()[v] / std::f64::consts::LN_2
+                            })
                             .sum();
                         (bits > 0.0).then_some((s, bits))
                     })

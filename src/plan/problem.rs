@@ -2,15 +2,34 @@
 //! that are not kept and carry evidence; the rest are pruned), their costs, and for
 //! each protected attribute the summed log-likelihood ratios each candidate adds, the
 //! visible sums with every candidate shown, and the constraint. Feasibility is always
-//! decided by the same calibrated posterior the scan uses ([`AttrModel::posterior`]);
-//! the bounds use the fact that the model's logits are `ln π(v) + λ·sum(v)`.
+//! decided by the same combined, calibrated posterior the scan uses
+//! ([`AttrModel::posterior_combined`], [`crate::combine`]). The sums are weighted (each
+//! piece's source weight and its cause group's share with every candidate shown), so
+//! the bounds and greedy's scores use logits `ln π(v) + sum(v)` (λ = 1 here). Where
+//! pieces share a cause, hiding some of them changes the others' share: the state then
+//! also carries each such group's visible count and plain sums, and the counts of
+//! visible data and rule-of-thumb pieces, and the posterior is worked out from those;
+//! the linear bounds are then not proven ([`Problem::bounds_proven`]).
 
 use std::collections::HashMap;
 
 use super::request::{Error, PlanRequest};
-use crate::evidence::Subject;
+use crate::combine::{ALONE, Footing, share};
+use crate::evidence::{Evidence, Subject};
 use crate::infer::{AttrModel, Exposure, Posterior};
 use crate::priors::Calibration;
+
+/// A cause group whose visible count can change when candidates are hidden.
+#[derive(Debug, Clone)]
+pub(crate) struct PGroup {
+    /// Source weight of its pieces.
+    pub weight: f64,
+    /// Its share `f(n)/n` with every candidate shown (what the linear sums assume).
+    pub start_share: f64,
+    /// Where its `k` plain sums and then its visible count sit in a state (relative to
+    /// the attribute's `extra_at`).
+    pub at: usize,
+}
 
 /// One protected attribute, ready for the solvers.
 #[derive(Debug, Clone)]
@@ -41,6 +60,17 @@ pub(crate) struct PAttr {
     pub order: Vec<u16>,
     /// Per candidate: whether it has evidence for this attribute.
     pub touches: Vec<bool>,
+    /// Cause groups some candidate belongs to (empty: the sums are exact).
+    pub groups: Vec<PGroup>,
+    /// Per candidate, its pieces in those groups: (group, index into `pieces`).
+    pub in_groups: Vec<Vec<(u32, u32)>>,
+    /// The evidence pieces `in_groups` refers to.
+    pub pieces: Vec<Evidence>,
+    /// Per candidate, its visible pieces resting on data and on rules of thumb.
+    pub footing: Vec<(u32, u32)>,
+    /// Where this attribute's extra state starts: each group's sums and count, then
+    /// the visible data and rule-of-thumb counts.
+    pub extra_at: usize,
 }
 
 impl PAttr {
@@ -59,6 +89,50 @@ impl PAttr {
             .zip(sums)
             .map(|(b, s)| b + self.lambda * s)
             .collect()
+    }
+
+    /// Length of the extra state.
+    pub fn extra_len(&self) -> usize {
+        self.groups.len() * (self.k + 1) + 2
+    }
+
+    /// Hide (`sign` −1) or show (1) candidate `i` in the extra state.
+    fn move_extra(&self, state: &mut [f64], i: usize, sign: f64) {
+        let base = self.extra_at;
+        for &(g, e) in &self.in_groups[i] {
+            let at = base + self.groups[g as usize].at;
+            let l = self.pieces[e as usize].log_lr();
+            for (x, l) in state[at..at + self.k].iter_mut().zip(l) {
+                *x += sign * l;
+            }
+            state[at + self.k] += sign;
+        }
+        let (data, rules) = self.footing[i];
+        let counts = base + self.groups.len() * (self.k + 1);
+        state[counts] += sign * data as f64;
+        state[counts + 1] += sign * rules as f64;
+    }
+
+    /// The combined posterior in a state: the linear sums, corrected for each group's
+    /// share at its visible count, and the rules-of-thumb ceiling.
+    pub fn posterior_in(&self, state: &[f64]) -> Posterior {
+        let sums = &state[self.offset..self.offset + self.k];
+        let base = self.extra_at;
+        let counts = base + self.groups.len() * (self.k + 1);
+        let rests_on_rules = state[counts] < 0.5 && state[counts + 1] > 0.5;
+        if self.groups.is_empty() {
+            return self.model.posterior_combined(sums, rests_on_rules);
+        }
+        let mut weighted = sums.to_vec();
+        for g in &self.groups {
+            let at = base + g.at;
+            let n = state[at + self.k].round().max(0.0) as usize;
+            let d = g.weight * (share(n) - g.start_share);
+            for (x, s) in weighted.iter_mut().zip(&state[at..at + self.k]) {
+                *x += d * s;
+            }
+        }
+        self.model.posterior_combined(&weighted, rests_on_rules)
     }
 
     /// Constrained values whose probability is over their level.
@@ -205,34 +279,86 @@ impl Problem {
         let cost: Vec<f64> = subjects.iter().map(|&s| request.cost(s)).collect();
         let mut attrs = Vec::new();
         let mut start = Vec::new();
+        let mut extras: Vec<Vec<f64>> = Vec::new();
         let mut bounds_proven = true;
         for t in &request.targets {
             let model = exposure.models()[t.attribute].clone();
             let k = model.log_base.len();
-            let lambda = match &model.calibration {
-                Calibration::Temperature { lambda } => *lambda,
-                Calibration::Logistic { lambda, .. } => {
-                    bounds_proven = false;
-                    *lambda
-                }
-            };
+            if let Calibration::Logistic { .. } = &model.calibration {
+                bounds_proven = false;
+            }
+            let grouping = exposure.grouping();
             let mut w = vec![0.0; n * k];
             let mut touching = Vec::new();
+            let mut groups: Vec<PGroup> = Vec::new();
+            let mut group_at: HashMap<u32, u32> = HashMap::new();
+            let mut in_groups: Vec<Vec<(u32, u32)>> = vec![Vec::new(); n];
+            let mut pieces: Vec<Evidence> = Vec::new();
+            let mut footing = vec![(0u32, 0u32); n];
             for (ci, &s) in subjects.iter().enumerate() {
                 let mut any = false;
-                for &e in exposure.evidence_of(s) {
-                    let e = &exposure.evidence().list[e];
-                    if e.attribute() == t.attribute {
-                        any = true;
-                        for (x, l) in w[ci * k..(ci + 1) * k].iter_mut().zip(e.log_lr().iter()) {
-                            *x += l;
+                for &ei in exposure.evidence_of(s) {
+                    let e = &exposure.evidence().list[ei];
+                    if e.attribute() != t.attribute {
+                        continue;
+                    }
+                    any = true;
+                    let pw = exposure.piece_weight(ei);
+                    for (x, l) in w[ci * k..(ci + 1) * k].iter_mut().zip(e.log_lr().iter()) {
+                        *x += pw * l;
+                    }
+                    match grouping.footing[ei] {
+                        Footing::Data => footing[ci].0 += 1,
+                        Footing::RuleOfThumb => footing[ci].1 += 1,
+                    }
+                    let g = grouping.group_of[ei];
+                    if g != ALONE {
+                        let next = groups.len() as u32;
+                        let at = *group_at.entry(g).or_insert(next);
+                        if at == next {
+                            groups.push(PGroup {
+                                weight: grouping.weight[ei],
+                                start_share: share(exposure.cause_size(ei)),
+                                at: 0,
+                            });
                         }
+                        in_groups[ci].push((at, pieces.len() as u32));
+                        pieces.push(e.clone());
                     }
                 }
                 if any {
                     touching.push(ci);
                 }
             }
+            // Each group's plain sums and visible count with every candidate shown:
+            // its whole visible membership (kept subjects included).
+            let mut group_start: Vec<f64> = vec![0.0; groups.len() * (k + 1)];
+            for (i, g) in groups.iter_mut().enumerate() {
+                g.at = i * (k + 1);
+            }
+            if !groups.is_empty() {
+                for (ei, e) in exposure.evidence().list.iter().enumerate() {
+                    if e.attribute() != t.attribute || exposure.is_hidden(e.subject()) {
+                        continue;
+                    }
+                    if let Some(&at) = group_at.get(&grouping.group_of[ei]) {
+                        let at = groups[at as usize].at;
+                        for (x, l) in group_start[at..at + k].iter_mut().zip(e.log_lr()) {
+                            *x += l;
+                        }
+                        group_start[at + k] += 1.0;
+                    }
+                }
+            }
+            let (data, rules) = exposure.footings(t.attribute);
+            let kept_data = data as u32 - footing.iter().map(|f| f.0).sum::<u32>();
+            // Hiding can change a group's share, or leave only rules of thumb (and
+            // the ceiling): the linear bounds then do not hold.
+            if !groups.is_empty() || (rules > 0 && kept_data == 0) {
+                bounds_proven = false;
+            }
+            group_start.extend([data as f64, rules as f64]);
+            extras.push(group_start);
             let mut order = Vec::with_capacity(n * k);
             for ci in 0..n {
                 let row = &w[ci * k..(ci + 1) * k];
@@ -250,7 +376,7 @@ impl Problem {
                 attribute: t.attribute,
                 k,
                 offset: start.len(),
-                lambda,
+                lambda: 1.0,
                 log_base: model.log_base.clone(),
                 threshold: t.threshold,
                 tau,
@@ -260,8 +386,17 @@ impl Problem {
                 w,
                 order,
                 touches,
+                groups,
+                in_groups,
+                pieces,
+                footing,
+                extra_at: 0,
             });
-            start.extend_from_slice(exposure.sum(t.attribute));
+            start.extend_from_slice(exposure.weighted_sum(t.attribute));
+        }
+        for (a, extra) in attrs.iter_mut().zip(extras) {
+            a.extra_at = start.len();
+            start.extend(extra);
         }
         let unit_costs = cost.iter().all(|&c| c == 1.0);
         let integral_costs = cost.iter().all(|&c| c.fract() == 0.0);
@@ -298,6 +433,7 @@ impl Problem {
             for (x, w) in state[a.offset..a.offset + a.k].iter_mut().zip(a.w(i)) {
                 *x -= w;
             }
+            a.move_extra(state, i, -1.0);
         }
     }
 
@@ -307,6 +443,7 @@ impl Problem {
             for (x, w) in state[a.offset..a.offset + a.k].iter_mut().zip(a.w(i)) {
                 *x += w;
             }
+            a.move_extra(state, i, 1.0);
         }
     }
 
@@ -316,8 +453,7 @@ impl Problem {
 
     /// The calibrated posterior of attribute `a` (index into `attrs`) in a state.
     pub fn posterior(&self, a: usize, state: &[f64]) -> Posterior {
-        let at = &self.attrs[a];
-        at.model.posterior(self.sums(at, state))
+        self.attrs[a].posterior_in(state)
     }
 
     /// Constraints (attribute index into `attrs`, value) that a state violates.
@@ -372,6 +508,11 @@ impl Problem {
             a.offset = start.len() - a.k;
             attrs.push(a);
         }
+        for a in &mut attrs {
+            let from = a.extra_at;
+            a.extra_at = start.len();
+            start.extend_from_slice(&self.start[from..from + a.extra_len()]);
+        }
         Problem {
             attrs,
             start,
@@ -389,9 +530,10 @@ fn twin_classes(subjects: &[Subject], cost: &[f64], exposure: &Exposure) -> Vec<
         let mut key = vec![cost[ci].to_bits()];
         let mut ev: Vec<usize> = exposure.evidence_of(s).to_vec();
         ev.sort_by_key(|&e| exposure.evidence().list[e].attribute());
-        for e in ev {
-            let e = &exposure.evidence().list[e];
+        for ei in ev {
+            let e = &exposure.evidence().list[ei];
             key.push(e.attribute() as u64);
+            key.push(u64::from(exposure.grouping().group_of[ei]));
             key.extend(e.log_lr().iter().map(|x| x.to_bits()));
         }
         let next = seen.len();

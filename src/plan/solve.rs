@@ -64,7 +64,10 @@ pub fn solve_with_progress(
                 (g, c)
             });
             let s = search(&p, warm, &request.budget, progress);
-            let proven = p.bounds_proven;
+            // Pigeonhole infeasibility holds whatever the posterior model; the linear
+            // bounds only where the combination is linear (Problem::bounds_proven).
+            let pigeonhole = p.attrs.iter().any(|a| a.levels_too_low());
+            let proven = p.bounds_proven || (pigeonhole && s.best.is_none());
             let status = match (&s.best, s.stopped) {
                 (Some(_), None) if proven => Status::Optimal,
                 (Some(_), _) => Status::Feasible,

@@ -72,6 +72,12 @@ impl Writer {
             self.f64(s.sensitivity);
             self.f64(s.min_members);
             self.str(&s.budget_split);
+            for x in [s.item_noise_scale, s.item_noise_variance] {
+                self.u8(x.is_some() as u8);
+                self.f64(x.unwrap_or(0.0));
+            }
+            self.u8(s.warning.is_some() as u8);
+            self.str(s.warning.as_deref().unwrap_or(""));
         }
     }
 
@@ -181,12 +187,25 @@ impl<'b> Reader<'b> {
         let has_contributors = self.bool()?;
         let contributors = self.u64()?;
         let privacy = if self.bool()? {
+            let (mechanism, epsilon, sensitivity, min_members, budget_split) = (
+                self.string()?,
+                self.f64()?,
+                self.f64()?,
+                self.f64()?,
+                self.string()?,
+            );
+            let (has_scale, scale) = (self.bool()?, self.f64()?);
+            let (has_variance, variance) = (self.bool()?, self.f64()?);
+            let (has_warning, warning) = (self.bool()?, self.string()?);
             Some(PrivacySpec {
-                mechanism: self.string()?,
-                epsilon: self.f64()?,
-                sensitivity: self.f64()?,
-                min_members: self.f64()?,
-                budget_split: self.string()?,
+                mechanism,
+                epsilon,
+                sensitivity,
+                min_members,
+                budget_split,
+                item_noise_scale: has_scale.then_some(scale),
+                item_noise_variance: has_variance.then_some(variance),
+                warning: has_warning.then_some(warning),
             })
         } else {
             None

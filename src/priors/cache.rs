@@ -26,7 +26,7 @@ use super::store::{HAS_ID, Items, KIND_MASK, TAG_F64, width};
 use crate::footprint::ItemKind;
 
 /// Bumped whenever the layout below changes; a cache of another version is refused.
-pub const CACHE_VERSION: u32 = 2;
+pub const CACHE_VERSION: u32 = 3;
 
 /// Environment variable naming telltale's cache folder (the priors caches go in its
 /// `priors/` folder). Empty or unset: the platform's cache folder.

@@ -57,6 +57,37 @@ pub struct PrivacySpec {
     pub min_members: f64,
     /// How the budget was split across attributes and items, in words.
     pub budget_split: String,
+    /// Scale `b` of the noise added to each released item-by-value member count
+    /// (Laplace: `b = Δ/ε` for that histogram's share of ε).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub item_noise_scale: Option<f64>,
+    /// Variance of that noise (Laplace: `2b²`; Dwork & Roth 2014, §3.3). Evidence from
+    /// each item is shrunk toward the membership rates by it (docs/priors.md).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub item_noise_variance: Option<f64>,
+    /// Written when the cohort was too small for its ε to give useful statistics.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub warning: Option<String>,
+}
+
+impl PrivacySpec {
+    /// The variance of the noise on each item count: as recorded; else `2b²` from the
+    /// recorded scale; else, for a Laplace file that records neither, `2(Δ/ε)²` (a
+    /// lower bound: each histogram had only part of ε).
+    pub fn item_count_variance(&self) -> f64 {
+        let v = self
+            .item_noise_variance
+            .or_else(|| self.item_noise_scale.map(|b| 2.0 * b * b))
+            .unwrap_or_else(|| {
+                if self.mechanism == "laplace" && self.epsilon > 0.0 {
+                    let b = self.sensitivity / self.epsilon;
+                    2.0 * b * b
+                } else {
+                    0.0
+                }
+            });
+        if v.is_finite() && v > 0.0 { v } else { 0.0 }
+    }
 }
 
 /// One protected attribute.

@@ -12,7 +12,7 @@ use crate::evidence::Subject;
 use crate::footprint::{Footprint, ItemKind};
 use crate::infer::Exposure;
 use crate::priors::Priors;
-use crate::reading::assess;
+use crate::reading::{assess, with_footing};
 
 use super::rows::{RowCount, Rows};
 use super::sources::{
@@ -173,6 +173,10 @@ pub struct AttributeReport {
     /// Visible pieces of evidence feeding this attribute.
     pub feeding: usize,
     pub reading: String,
+    /// Only rules of thumb (word lists) support the guess, so its probability is held
+    /// at or under the stated ceiling (left out of the JSON when false).
+    #[serde(skip_serializing_if = "std::ops::Not::not")]
+    pub rests_on_rules_of_thumb: bool,
     #[serde(skip_serializing_if = "Option::is_none")]
     pub special_category: Option<String>,
     pub distribution: Vec<ValueShare>,
@@ -278,7 +282,8 @@ pub fn build_with(
             exposed_value: verdict.flag.map(|f| attr.values[f.value].id.clone()),
             exposed_by_rarity: verdict.flag.is_some_and(|f| f.by_rarity),
             feeding: exposure.feeding(ai),
-            reading: verdict.reading,
+            reading: with_footing(verdict.reading, post.rests_on_rules),
+            rests_on_rules_of_thumb: post.rests_on_rules,
             special_category: attr.special_category.clone(),
             distribution: attr
                 .values

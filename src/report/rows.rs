@@ -39,15 +39,14 @@ struct Guess {
     best: usize,
     /// Its probability.
     probability: f64,
-    /// The weight one unit of log-likelihood ratio gets (λ).
-    weight: f64,
 }
 
 impl Guess {
-    /// `λ·log₂ L(best guess)`: bits this piece of evidence adds toward the best guess
-    /// (the same figure as [`crate::infer::Contribution::toward_best_bits`]).
-    fn toward_best_bits(&self, log_lr: &[f64]) -> f64 {
-        self.weight * log_lr[self.best] / std::f64::consts::LN_2
+    /// `w·log₂ L(best guess)`: bits this piece of evidence adds toward the best guess at
+    /// its weight `w` ([`Exposure::piece_weight`]; the same figure as
+    /// [`crate::infer::Contribution::toward_best_bits`]).
+    fn toward_best_bits(&self, weight: f64, log_lr: &[f64]) -> f64 {
+        weight * log_lr[self.best] / std::f64::consts::LN_2
     }
 }
 
@@ -80,7 +79,6 @@ impl<'a> Rows<'a> {
                 Guess {
                     best: post.best,
                     probability: post.probability,
-                    weight: exposure.models()[ai].weight(),
                 }
             })
             .collect();
@@ -93,7 +91,8 @@ impl<'a> Rows<'a> {
         // attribute, then by evidence order (so the sort is deterministic).
         let key = |&i: &u32| {
             let e = &list[i as usize];
-            let bits = guesses[e.attribute()].toward_best_bits(e.log_lr());
+            let bits = guesses[e.attribute()]
+                .toward_best_bits(exposure.piece_weight(i as usize), e.log_lr());
             (bits, e.info_bits(), e.attribute())
         };
         order.sort_unstable_by(|a, b| {
@@ -152,7 +151,7 @@ impl<'a> Rows<'a> {
             reveals_label: strings.value_labels[leaning].clone(),
             bits: e.info_bits(),
             homogeneity: e.homogeneity(),
-            contribution_bits: guess.toward_best_bits(e.log_lr()),
+            contribution_bits: guess.toward_best_bits(self.exposure.piece_weight(ei), e.log_lr()),
             if_hidden_drop: guess.probability - without.probs[guess.best],
             support: e.support(),
             source: e.origin.kind(),

@@ -106,10 +106,13 @@ pub fn source_reports(
             // thousands of pieces.
             let mine = || list.iter().filter(move |e| kind_of(&e.origin) == Some(kind));
             let (pieces, subjects) = count_pieces_and_subjects(mine(), n_items);
-            let bits: f64 = mine()
-                .filter(|e| !exposure.is_hidden(e.subject()))
-                .map(|e| {
-                    exposure.models()[e.attribute()].weight() * e.log_lr()[bests[e.attribute()]]
+            let bits: f64 = list
+                .iter()
+                .enumerate()
+                .filter(|(_, e)| kind_of(&e.origin) == Some(kind))
+                .filter(|(_, e)| !exposure.is_hidden(e.subject()))
+                .map(|(ei, e)| {
+                    exposure.piece_weight(ei) * e.log_lr()[bests[e.attribute()]]
                         / std::f64::consts::LN_2
                 })
                 .sum();
@@ -123,9 +126,11 @@ pub fn source_reports(
                 SourceKind::Places => {
                     // Items per value they point at, and their joint weight.
                     let mut by_value: BTreeMap<(usize, usize), (usize, f64)> = BTreeMap::new();
-                    for e in mine().filter(|e| !exposure.is_hidden(e.subject())) {
+                    for (ei, e) in list.iter().enumerate().filter(|(_, e)| {
+                        kind_of(&e.origin) == Some(kind) && !exposure.is_hidden(e.subject())
+                    }) {
                         let v = e.leaning();
-                        let w = exposure.models()[e.attribute()].weight();
+                        let w = exposure.piece_weight(ei);
                         let slot = by_value.entry((e.attribute(), v)).or_insert((0, 0.0));
                         slot.0 += 1;
                         slot.1 += w * e.log_lr()[v] / std::f64::consts::LN_2;

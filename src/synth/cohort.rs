@@ -19,6 +19,16 @@ use super::stream;
 use super::words::{FIRST_NAMES, LAST_NAMES};
 use super::world::{Profile, draw_profile};
 
+/// The file `generate_cohort` leaves beside the invented archives, so that priors
+/// built from them say they are synthetic.
+pub const SYNTHETIC_MARKER: &str = "telltale-synthetic-cohort.txt";
+
+/// Whether a cohort folder was made by [`generate_cohort`] (it holds
+/// [`SYNTHETIC_MARKER`]).
+pub fn is_synthetic_cohort(dir: &Path) -> bool {
+    dir.join(SYNTHETIC_MARKER).is_file()
+}
+
 /// Sizes and seed of a synthetic cohort.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct CohortConfig {
@@ -74,6 +84,13 @@ pub fn generate_cohort(cfg: &CohortConfig, out_dir: &Path) -> io::Result<Vec<Coh
     let catalogue = catalogue::build(&mut stream(cfg.seed, 1), cfg.items);
     fs::create_dir_all(out_dir)?;
     fs::write(out_dir.join("telltale-mapping.toml"), layout_a::MAPPING)?;
+    fs::write(
+        out_dir.join(SYNTHETIC_MARKER),
+        format!(
+            "The archives in this folder are invented members of the Lanternwick network (telltale synth cohort, seed {}). Priors built from them are marked synthetic.\n",
+            cfg.seed
+        ),
+    )?;
     let mut rng = stream(cfg.seed, 4);
     let now = demo_now();
     let width = cfg.members.to_string().len().max(4);

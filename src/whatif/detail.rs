@@ -92,7 +92,7 @@ pub fn item_detail(s: &Session, subject: Subject) -> ItemDetail {
         let e = &x.evidence().list[ei];
         let attr = &s.priors.attributes[e.attribute()];
         let post = x.posterior(e.attribute());
-        let w = x.models()[e.attribute()].weight();
+        let w = x.piece_weight(ei);
         // The reference the ratios were taken against: μ(v) = p(v) / L(v).
         let mut bars: Vec<ValueBar> = e
             .distribution()

@@ -5,7 +5,7 @@
 use super::session::Session;
 use crate::alert::Flag;
 use crate::evidence::Subject;
-use crate::reading::{Level, assess};
+use crate::reading::{Level, assess, with_footing};
 
 /// What the overview shows for one attribute.
 #[derive(Debug, Clone, PartialEq)]
@@ -55,7 +55,7 @@ pub fn overview(s: &Session) -> Vec<AttributeSummary> {
             AttributeSummary {
                 attribute: a,
                 label: attr.label.clone(),
-                reading: verdict.reading,
+                reading: with_footing(verdict.reading, post.rests_on_rules),
                 guess_label: guess,
                 probability: post.probability,
                 base_rate: base,

@@ -122,7 +122,6 @@ pub struct ItemRow {
 pub fn item_rows(s: &Session, q: &RowQuery) -> Vec<ItemRow> {
     let x = s.exposure();
     let bests: Vec<usize> = (0..s.n_attributes()).map(|a| x.posterior(a).best).collect();
-    let weights: Vec<f64> = x.models().iter().map(|m| m.weight()).collect();
     let needle = name_key(&q.search);
     let fp = s.footprint();
     let mut rows = Vec::with_capacity(fp.items.len() + 1);
@@ -149,8 +148,7 @@ pub fn item_rows(s: &Session, q: &RowQuery) -> Vec<ItemRow> {
             if q.attribute.is_some_and(|a| a != e.attribute()) {
                 continue;
             }
-            let c =
-                weights[e.attribute()] * e.log_lr()[bests[e.attribute()]] / std::f64::consts::LN_2;
+            let c = x.piece_weight(ei) * e.log_lr()[bests[e.attribute()]] / std::f64::consts::LN_2;
             if chosen.is_none_or(|(_, best)| c > best) {
                 chosen = Some((ei, c));
             }
