@@ -57,9 +57,11 @@ impl Level {
 }
 
 /// Classify a best guess: over threshold → exposed; at least 1.5× the base rate (and
-/// 5 points above it) → leaning; else quiet (common practice, no source).
+/// 5 points above it) → leaning; else quiet (common practice, no source). A value at
+/// least as common in the population as the threshold is never exposed: guessing it
+/// needs no footprint (the "somewhere else" remainder of the home levels).
 pub fn level(probability: f64, base_rate: f64, threshold: f64) -> Level {
-    if probability > threshold {
+    if probability > threshold && base_rate < threshold {
         Level::Exposed
     } else if probability >= 1.5 * base_rate && probability - base_rate >= 0.05 {
         Level::Leaning

@@ -22,12 +22,12 @@ fn root() -> PathBuf {
 }
 
 fn session(persona: &str) -> Session {
-    let priors = load_priors(None).unwrap();
+    let mut priors = load_priors(None).unwrap();
     let input = ScanInput {
         archive: root().join("demo-exports").join(persona),
         ..ScanInput::default()
     };
-    let scan = Scan::run(&input, &priors).unwrap();
+    let scan = Scan::run(&input, &mut priors).unwrap();
     let fp = scan.footprint.fingerprint.clone();
     Session::open(scan, priors, &Decisions::new(&fp))
 }

@@ -109,10 +109,10 @@ pub fn run(args: &PlanArgs) -> Result<ExitCode> {
              work the plan out, then press e and choose HTML"
         );
     }
-    let priors = load_priors(args.input.priors.as_deref()).context("cannot use the priors")?;
+    let mut priors = load_priors(args.input.priors.as_deref()).context("cannot use the priors")?;
     note_cache(&priors);
     let input = input(args.archive.clone(), &args.input)?;
-    let scan = Scan::run(&input, &priors)?;
+    let scan = Scan::run(&input, &mut priors)?;
     // The evidence is gathered: the parsed lexicons are not needed again.
     telltale::lexicon::release_bundled();
     let req = request(args, &priors, &scan.footprint)?;

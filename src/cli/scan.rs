@@ -44,11 +44,11 @@ pub fn note_cache(priors: &telltale::priors::Priors) {
 }
 
 pub fn run(args: &ScanArgs) -> Result<ExitCode> {
-    let priors = load_priors(args.input.priors.as_deref()).context("cannot use the priors")?;
+    let mut priors = load_priors(args.input.priors.as_deref()).context("cannot use the priors")?;
     note_cache(&priors);
     let input = input(args.archive.clone(), &args.input)?;
     let pb = super::cohort::byte_bar("importing");
-    let scan = Scan::run_with_progress(&input, &priors, &mut |done, total| {
+    let scan = Scan::run_with_progress(&input, &mut priors, &mut |done, total| {
         super::cohort::byte_progress(&pb, done, total)
     });
     pb.finish_and_clear();

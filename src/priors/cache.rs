@@ -329,6 +329,7 @@ fn read_payload<R: Read>(r: &mut Stream<R>, origin: &str) -> Option<Priors> {
         cache_notes: Vec::new(),
         store,
         index,
+        file_attributes: None,
     })
 }
 

@@ -144,6 +144,7 @@ impl<'de> Visitor<'de> for Top<'_> {
                 cache_notes: Vec::new(),
                 store,
                 index,
+                file_attributes: None,
             })
         })())
     }
