@@ -123,7 +123,12 @@ impl Scan {
         check_attribute_names(&mut footprint, priors, &mapping_origin);
         crate::resident::trim();
         let mut evidence = evidence::gather(&footprint, priors, sources);
-        if let Some(gazetteer) = sources.places.as_ref().map(evidence::Lexicon::get) {
+        if let Some(gazetteer) = sources
+            .places
+            .as_ref()
+            .filter(|_| sources.home_levels)
+            .map(evidence::Lexicon::get)
+        {
             let cues = crate::lexicon::bundled_place_cues();
             evidence = evidence::fit_home_levels(priors, evidence, &gazetteer, &cues);
         }

@@ -20,10 +20,11 @@ pub fn input(archive: PathBuf, src: &SourceArgs) -> Result<ScanInput> {
             .apply(setting)
             .map_err(|e| anyhow::anyhow!("--limit {setting}: {e}"))?;
     }
-    let sources = match &src.sources {
+    let mut sources = match &src.sources {
         Some(list) => Sources::parse_list(list).map_err(|e| anyhow::anyhow!("--sources: {e}"))?,
         None => Sources::all(),
     };
+    sources.home_levels = src.home_levels;
     Ok(ScanInput {
         archive,
         mapping: src.mapping.clone(),
