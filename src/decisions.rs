@@ -45,12 +45,34 @@ pub struct Decisions {
     /// Item key ([`crate::footprint::Item::key`], or [`FRIEND_LIST_KEY`]) → mark.
     #[serde(default)]
     pub marks: BTreeMap<String, Mark>,
-    /// Attribute id → the user's real value id. Private: never written to a report.
+    /// Attribute id → the user's real value id. Private: never written to a report,
+    /// and saved only when the person asks (`--remember-real-values`).
     #[serde(default)]
     pub real_values: BTreeMap<String, String>,
     /// Attribute id → the user's own alert level (probability, 0–1).
     #[serde(default)]
     pub targets: BTreeMap<String, f64>,
+    /// The plan's goal in the explorer: [`GOAL_BEST_GUESS`] or [`GOAL_REAL_VALUE`]
+    /// (absent: the default, no confident best guess).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub goal: Option<String>,
+    /// The person asked for their real values to be saved (without it, none are).
+    #[serde(default)]
+    pub remember_real_values: bool,
+}
+
+/// The saved goal "no confident best guess".
+pub const GOAL_BEST_GUESS: &str = "best-guess";
+/// The saved goal "my real value not guessable".
+pub const GOAL_REAL_VALUE: &str = "real-value";
+
+/// Environment variable that turns on the no-save mode for every run (a shared
+/// workshop computer): set to anything but empty or `0`.
+pub const NO_SAVE_ENV: &str = "TELLTALE_NO_SAVE";
+
+/// Whether [`NO_SAVE_ENV`] asks for the no-save mode.
+pub fn no_save_from_env() -> bool {
+    std::env::var_os(NO_SAVE_ENV).is_some_and(|v| !v.is_empty() && v != "0")
 }
 
 impl Decisions {
@@ -109,6 +131,10 @@ pub enum Error {
     Dir { dir: PathBuf, source: io::Error },
     #[error("cannot save your decisions to {file}: {source}")]
     Write { file: PathBuf, source: io::Error },
+    #[error("nothing is saved in the no-save mode")]
+    NoSave,
+    #[error("cannot remove {file}: {source}")]
+    Remove { file: PathBuf, source: io::Error },
 }
 
 /// What loading found.
@@ -238,6 +264,68 @@ impl Store {
         Ok(path)
     }
 
+    /// Remove everything saved for one archive: its decisions file, copies of it set
+    /// aside as unreadable, and unfinished temporary files. Returns the files removed
+    /// (none when nothing was saved).
+    pub fn forget(&self, fingerprint: &str) -> Result<Vec<PathBuf>, Error> {
+        let path = self.path_for(fingerprint);
+        let stem = safe_name(fingerprint);
+        let aside = format!("{stem}.unreadable-");
+        self.remove_matching(|name| {
+            name == format!("{stem}.json")
+                || (name.starts_with(&aside) && name.ends_with(".json"))
+                || crate::safe_write::is_temp_name(name)
+        })
+        .map(|mut removed| {
+            removed.sort_by_key(|p| p != &path);
+            removed
+        })
+    }
+
+    /// Remove every archive's saved decisions, the copies set aside, and the note
+    /// that the cautions were shown. Returns the files removed.
+    pub fn forget_all(&self) -> Result<Vec<PathBuf>, Error> {
+        let mut removed = self.remove_matching(|_| true)?;
+        let seen = self.dir.join("cautions-seen");
+        match fs::remove_file(&seen) {
+            Ok(()) => removed.push(seen),
+            Err(e) if e.kind() == io::ErrorKind::NotFound => {}
+            Err(source) => return Err(Error::Remove { file: seen, source }),
+        }
+        // Empty folders go too (they say telltale was used here); a folder that still
+        // holds something someone put there stays.
+        let _ = fs::remove_dir(self.decisions_dir());
+        let _ = fs::remove_dir(&self.dir);
+        Ok(removed)
+    }
+
+    /// Remove the files of the decisions folder whose names pass `pick`.
+    fn remove_matching(&self, pick: impl Fn(&str) -> bool) -> Result<Vec<PathBuf>, Error> {
+        let dir = self.decisions_dir();
+        let entries = match fs::read_dir(&dir) {
+            Ok(e) => e,
+            Err(e) if e.kind() == io::ErrorKind::NotFound => return Ok(Vec::new()),
+            Err(source) => return Err(Error::Dir { dir, source }),
+        };
+        let mut removed = Vec::new();
+        for entry in entries.flatten() {
+            let name = entry.file_name();
+            let name = name.to_string_lossy();
+            let is_file = entry.file_type().is_ok_and(|t| t.is_file());
+            if !is_file || !pick(&name) {
+                continue;
+            }
+            let path = entry.path();
+            fs::remove_file(&path).map_err(|source| Error::Remove {
+                file: path.clone(),
+                source,
+            })?;
+            removed.push(path);
+        }
+        removed.sort();
+        Ok(removed)
+    }
+
     /// Whether the cautions have been shown once on this computer.
     pub fn cautions_seen(&self) -> bool {
         self.dir.join("cautions-seen").exists()
@@ -315,8 +403,31 @@ mod tests {
         d.marks.insert("like:id:7".into(), Mark::Hide);
         d.marks.insert("group:name:chess club".into(), Mark::Keep);
         d.real_values.insert("age".into(), "35-44".into());
+        d.remember_real_values = true;
+        d.goal = Some(GOAL_REAL_VALUE.into());
         d.targets.insert("age".into(), 0.4);
         d
+    }
+
+    #[test]
+    fn forget_removes_one_archive_and_says_what() {
+        let dir = tempfile::tempdir().unwrap();
+        let store = Store::at(dir.path().join("data"));
+        let a = store.save(&sample("aa11")).unwrap();
+        let b = store.save(&sample("bb22")).unwrap();
+        // A copy set aside as unreadable belongs to the same archive.
+        fs::write(a.with_file_name("aa11.unreadable-1.json"), b"{").unwrap();
+        let removed = store.forget("aa11").unwrap();
+        assert_eq!(removed.len(), 2, "{removed:?}");
+        assert_eq!(removed[0], a, "the decisions file first");
+        assert!(!a.exists() && b.exists());
+        assert!(!store.load("aa11").restored);
+        assert!(store.forget("aa11").unwrap().is_empty(), "nothing left");
+        store.mark_cautions_seen().unwrap();
+        let all = store.forget_all().unwrap();
+        assert_eq!(all.len(), 2, "{all:?}");
+        assert!(!b.exists() && !store.cautions_seen());
+        assert!(!store.dir().exists(), "empty folders go too");
     }
 
     #[test]

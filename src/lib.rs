@@ -7,6 +7,7 @@
 //! archive → [`import`] (through a [`mapping`]) → [`footprint`] → [`evidence`] (from
 //! [`priors`] and other sources) → [`infer`] → [`report`].
 
+pub mod alert;
 pub mod archive;
 pub mod calibration;
 pub mod cautions;

@@ -1,6 +1,9 @@
 //! Plain-words readings of the numbers, for people who are not statisticians:
 //! "an observer would guess 25–34 and be right about 7 times in 10".
 
+use crate::alert::{Flag, Rarity};
+use crate::priors::Attribute;
+
 /// A probability as a natural frequency: "about 7 times in 10", "about 1 time in 25",
 /// "almost every time (more than 19 times in 20)".
 pub fn how_often(p: f64) -> String {
@@ -59,18 +62,116 @@ impl Level {
 /// Classify a best guess: over threshold → exposed; at least 1.5× the base rate (and
 /// 5 points above it) → leaning; else quiet (common practice, no source). A value at
 /// least as common in the population as the threshold is never exposed: guessing it
-/// needs no footprint (the "somewhere else" remainder of the home levels).
+/// needs no footprint (the "somewhere else" remainder of the home levels). This looks at
+/// the best guess and the alert level only; [`assess`] applies the whole alert rule.
 pub fn level(probability: f64, base_rate: f64, threshold: f64) -> Level {
     if probability > threshold && base_rate < threshold {
         Level::Exposed
-    } else if probability >= 1.5 * base_rate && probability - base_rate >= 0.05 {
+    } else {
+        leaning_or_quiet(probability, base_rate)
+    }
+}
+
+fn leaning_or_quiet(probability: f64, base_rate: f64) -> Level {
+    if probability >= 1.5 * base_rate && probability - base_rate >= 0.05 {
         Level::Leaning
     } else {
         Level::Quiet
     }
 }
 
-/// One sentence about one attribute.
+/// One attribute judged by the whole alert rule ([`crate::alert`]).
+#[derive(Debug, Clone, PartialEq)]
+pub struct Assessment {
+    /// The best guess (value index) and its probability.
+    pub best: usize,
+    pub probability: f64,
+    pub base_rate: f64,
+    pub level: Level,
+    /// The value the rule counts as exposed, if any (the best guess or a rarer one).
+    pub flag: Option<Flag>,
+    /// The plain-words reading.
+    pub reading: String,
+}
+
+/// Judge one attribute's posterior by its alert level and the rarity rule, and say it
+/// in plain words: the one place the reports and the explorer get their verdict and
+/// sentence from.
+pub fn assess(attr: &Attribute, probs: &[f64], alert_level: f64, rarity: &Rarity) -> Assessment {
+    let (best, probability) = crate::stats::argmax(probs);
+    let base_rate = attr.base_rates[best];
+    let flag = rarity.flag(alert_level, probs, &attr.base_rates);
+    let level = if flag.is_some() {
+        Level::Exposed
+    } else {
+        leaning_or_quiet(probability, base_rate)
+    };
+    let guess = &attr.values[best].label;
+    let mut reading = attribute_sentence(&attr.label, guess, probability, base_rate, alert_level);
+    if let Some(f) = flag.filter(|f| f.by_rarity) {
+        reading = if f.value == best {
+            format!(
+                "An observer would guess {guess} and be right {}, {} its population rate of {}. That is under your alert level of {}, but for a value this rare a guess over {} and over {} its rate counts as exposed.",
+                how_often(probability),
+                times(probability, base_rate),
+                percent(base_rate),
+                percent(alert_level),
+                percent(rarity.floor),
+                times_plain(rarity.lift),
+            )
+        } else {
+            format!(
+                "{reading} But {} is at {}, {} its population rate of {}: for a value this rare a guess over {} and over {} its rate counts as exposed.",
+                attr.values[f.value].label,
+                percent(f.probability),
+                times(f.probability, f.base_rate),
+                percent(f.base_rate),
+                percent(rarity.floor),
+                times_plain(rarity.lift),
+            )
+        };
+    }
+    Assessment {
+        best,
+        probability,
+        base_rate,
+        level,
+        flag,
+        reading,
+    }
+}
+
+/// The rarity part of the alert rule in one sentence, for the reports and screens.
+pub fn rarity_note(r: &Rarity) -> String {
+    if r.is_on() {
+        format!(
+            "Rare values count too: a value over {} and over {} its population rate counts as exposed, whatever the alert level.",
+            percent(r.floor),
+            times_plain(r.lift)
+        )
+    } else {
+        "Only the alert levels count: the rule for rare values is off.".into()
+    }
+}
+
+/// "16×": how many times a rate.
+fn times(p: f64, base: f64) -> String {
+    if base > 0.0 {
+        times_plain(p / base)
+    } else {
+        "many times".into()
+    }
+}
+
+fn times_plain(x: f64) -> String {
+    if x >= 10.0 || (x - x.round()).abs() < 0.05 {
+        format!("{x:.0}×")
+    } else {
+        format!("{x:.1}×")
+    }
+}
+
+/// One sentence about one attribute's best guess against one alert level.
 pub fn attribute_sentence(
     attribute_label: &str,
     guess_label: &str,
@@ -132,5 +233,63 @@ mod tests {
         let s = attribute_sentence("Age band", "25–34", 0.68, 0.18, 0.5);
         assert!(s.contains("about 7 times in 10"), "{s}");
         assert!(s.contains("3.8×"), "{s}");
+    }
+
+    fn religion() -> Attribute {
+        // The demo priors' religion rates (rounded): Christian, none, Jewish.
+        let base_rates = vec![0.50, 0.46, 0.04];
+        Attribute {
+            id: "religion".into(),
+            label: "Religion".into(),
+            values: ["Christian", "None", "Jewish"]
+                .iter()
+                .map(|l| crate::priors::AttrValue {
+                    id: l.to_lowercase(),
+                    label: l.to_string(),
+                })
+                .collect(),
+            log_base: base_rates.iter().map(|b: &f64| b.ln()).collect(),
+            member_rates: base_rates.clone(),
+            base_rates,
+            threshold: 0.7,
+            smoothing: 4.0,
+            pseudocount: 1.0,
+            special_category: None,
+            calibration: crate::priors::Calibration::Temperature { lambda: 1.0 },
+        }
+    }
+
+    #[test]
+    fn assess_applies_the_rarity_rule() {
+        let a = religion();
+        let r = Rarity::default();
+        // Jewish at 63% (16× its rate) under a 70% level: exposed for rarity.
+        let x = assess(&a, &[0.2, 0.17, 0.63], 0.7, &r);
+        assert_eq!(x.level, Level::Exposed);
+        assert_eq!(x.flag.map(|f| (f.value, f.by_rarity)), Some((2, true)));
+        assert!(x.reading.contains("16×"), "{}", x.reading);
+        assert!(
+            x.reading.contains("under your alert level of 70%"),
+            "{}",
+            x.reading
+        );
+        // A rare value that is not the best guess is named after the best guess.
+        let x = assess(&a, &[0.52, 0.23, 0.25], 0.7, &r);
+        assert_eq!(x.level, Level::Exposed);
+        assert_eq!(x.best, 0);
+        assert!(x.reading.contains("Jewish is at 25%"), "{}", x.reading);
+        // With the rule off, the same posterior is only leaning or quiet.
+        let x = assess(&a, &[0.2, 0.17, 0.63], 0.7, &Rarity::OFF);
+        assert_ne!(x.level, Level::Exposed);
+        assert!(x.flag.is_none());
+        // Over the alert level: the usual sentence.
+        let x = assess(&a, &[0.9, 0.05, 0.05], 0.7, &r);
+        assert_eq!(x.flag.map(|f| (f.value, f.by_rarity)), Some((0, false)));
+        assert!(
+            x.reading.contains("over your alert level of 70%"),
+            "{}",
+            x.reading
+        );
+        assert!(rarity_note(&r).contains("over 20% and over 5×"));
     }
 }

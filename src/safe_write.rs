@@ -88,6 +88,11 @@ fn sync_dir(dir: &Path) {
     let _ = dir;
 }
 
+/// Whether a file name is one of [`write_atomic`]'s temporary files.
+pub fn is_temp_name(name: &str) -> bool {
+    name.starts_with(TEMP_PREFIX) && name.ends_with(TEMP_SUFFIX)
+}
+
 /// Remove temporary files this module left behind in `dir` (after a crash) that are
 /// older than `min_age`. Best effort; returns how many were removed.
 pub fn remove_stale_temps(dir: &Path, min_age: std::time::Duration) -> usize {

@@ -67,6 +67,22 @@ pub struct Scan {
     pub exposure: Exposure,
 }
 
+/// The fingerprint saved decisions are filed under: the archive read through its
+/// mapping, nothing scored.
+pub fn fingerprint(input: &ScanInput) -> Result<String, Error> {
+    let mut archive = Archive::open(&input.archive, &input.limits)?;
+    let mapping = match &input.mapping {
+        Some(p) => Mapping::load(p)?,
+        None => {
+            let found = mapping::locate(&mut archive)?;
+            Mapping::parse(&found.text, &found.origin)?
+        }
+    };
+    let footprint =
+        import::import_with_progress(&mut archive, &mapping, &input.limits, &mut |_, _| {})?;
+    Ok(footprint.fingerprint)
+}
+
 impl Scan {
     /// Import an archive and score it against the priors.
     ///

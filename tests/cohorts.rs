@@ -161,7 +161,7 @@ fn priors_build_records_privacy_and_leaks_no_names() {
         .privacy
         .as_ref()
         .expect("privacy recorded");
-    assert_eq!(privacy.mechanism, "laplace");
+    assert_eq!(privacy.mechanism, "discrete_laplace");
     assert_eq!(privacy.epsilon, 4.0);
     assert_eq!(privacy.min_members, 3.0);
     assert_eq!(privacy.sensitivity, 50.0);

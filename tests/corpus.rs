@@ -68,7 +68,7 @@ fn every_malformed_archive_gets_its_message() {
         .filter(|p| p.join("case.toml").exists())
         .collect();
     dirs.sort();
-    assert!(dirs.len() >= 19, "corpus has {} cases", dirs.len());
+    assert!(dirs.len() >= 40, "corpus has {} cases", dirs.len());
     let failures: Vec<String> = dirs
         .iter()
         .filter_map(|d| run_case(d).err().map(|e| format!("{}: {e}", d.display())))

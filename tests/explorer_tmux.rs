@@ -80,10 +80,15 @@ impl Tmux {
 
     /// [`Tmux::start_with`] on another archive path.
     fn start_on(&mut self, name: &str, data_dir: &Path, env: &str, archive: &str) {
+        self.start_args(name, data_dir, env, &format!("'{archive}'"));
+    }
+
+    /// Start the explorer with these (already quoted) command-line arguments.
+    fn start_args(&mut self, name: &str, data_dir: &Path, env: &str, args: &str) {
         self.target = name.to_string();
         let bin = env!("CARGO_BIN_EXE_telltale");
         let cmd = format!(
-            "exec env {env} TELLTALE_DATA_DIR='{}' NO_COLOR=1 TERM=xterm-256color '{bin}' '{archive}'",
+            "exec env {env} TELLTALE_DATA_DIR='{}' NO_COLOR=1 TERM=xterm-256color '{bin}' {args}",
             data_dir.display()
         );
         self.run(&[
@@ -392,6 +397,74 @@ fn closing_the_terminal_saves_and_quits() {
 }
 
 /// The text of the one decisions file saved under the data folder.
+/// Workshop use: with --no-save (or TELLTALE_NO_SAVE=1) the cautions open every run
+/// and the data folder is never created; after a normal run has saved decisions,
+/// `telltale forget ARCHIVE` removes them and says which file went.
+#[test]
+fn workshop_mode_saves_nothing_and_forget_removes_what_was_saved() {
+    let Some(mut t) = driver(
+        "workshop_mode_saves_nothing_and_forget_removes_what_was_saved",
+        "the no-save mode",
+        "telltale-workshop",
+    ) else {
+        return;
+    };
+    let archive = concat!(env!("CARGO_MANIFEST_DIR"), "/demo-exports/reporter");
+    let root = tempfile::tempdir().unwrap();
+    let data = root.path().join("data");
+    for (run, env, args) in [
+        ("ws1", "", format!("explore --no-save '{archive}'")),
+        ("ws2", "TELLTALE_NO_SAVE=1", format!("'{archive}'")),
+    ] {
+        t.start_args(run, &data, env, &args);
+        t.wait_for("the cautions", |s| s.contains("Before you act on this"));
+        t.keys(&["Space"]);
+        t.wait_for("the overview", |s| s.contains("population rate"));
+        t.keys(&["2"]);
+        t.wait_for("the item list", |s| s.contains("gives away"));
+        t.keys(&["x"]);
+        t.wait_for("the hidden mark", |s| s.contains("Hidden (what-if)"));
+        t.keys(&["q"]);
+        t.wait_for("the program to end", |_| t.pane("#{pane_dead}") == "1");
+        assert!(
+            !data.exists(),
+            "{run}: the no-save mode wrote to the data folder"
+        );
+    }
+    // A normal run saves; forget removes it and names the file.
+    t.start_args("ws3", &data, "", &format!("'{archive}'"));
+    t.wait_for("the cautions", |s| s.contains("Before you act on this"));
+    t.keys(&["Space"]);
+    t.wait_for("the overview", |s| s.contains("population rate"));
+    t.keys(&["2"]);
+    t.wait_for("the item list", |s| s.contains("gives away"));
+    t.keys(&["x"]);
+    t.wait_for("the hidden mark", |s| s.contains("Hidden (what-if)"));
+    t.keys(&["q"]);
+    t.wait_for("the program to end", |_| t.pane("#{pane_dead}") == "1");
+    assert!(saved_decisions(&data).contains("\"hide\""));
+    let out = Command::new(env!("CARGO_BIN_EXE_telltale"))
+        .args(["forget", archive])
+        .env("TELLTALE_DATA_DIR", &data)
+        .output()
+        .unwrap();
+    let said = String::from_utf8_lossy(&out.stdout);
+    assert!(out.status.success(), "{said}");
+    assert!(said.contains("Removed") && said.contains(".json"), "{said}");
+    let left: Vec<_> = std::fs::read_dir(data.join("decisions"))
+        .map(|d| d.flatten().map(|e| e.path()).collect())
+        .unwrap_or_default();
+    assert!(left.is_empty(), "left behind: {left:?}");
+    let again = Command::new(env!("CARGO_BIN_EXE_telltale"))
+        .args(["forget", "--all"])
+        .env("TELLTALE_DATA_DIR", &data)
+        .output()
+        .unwrap();
+    let said = String::from_utf8_lossy(&again.stdout);
+    assert!(said.contains("cautions-seen"), "{said}");
+    assert!(!data.exists(), "forget --all leaves no folder behind");
+}
+
 fn saved_decisions(data: &std::path::Path) -> String {
     let saved = std::fs::read_dir(data.join("decisions"))
         .unwrap()

@@ -75,3 +75,28 @@ fn zip_inputs_never_panic() {
         }
     }
 }
+
+#[test]
+fn priors_json_inputs_never_panic() {
+    replay("priors_json", telltale::fuzzing::priors_json);
+}
+
+#[test]
+fn priors_cache_inputs_never_panic() {
+    replay("priors_cache", telltale::fuzzing::priors_cache);
+    // Every single-byte flip of the first 600 payload bytes, and every cut of a short
+    // prefix, with the checksum made to match (so the reader's own checks are tested).
+    for at in 0..600u16 {
+        let [lo, hi] = at.to_le_bytes();
+        telltale::fuzzing::priors_cache(&[0, lo, hi, 0xff]);
+        telltale::fuzzing::priors_cache(&[0, lo, hi, 0x01]);
+    }
+    for cut in 0..=255u8 {
+        telltale::fuzzing::priors_cache(&[0, cut]);
+    }
+}
+
+#[test]
+fn friends_csv_inputs_never_panic() {
+    replay("friends_csv", telltale::fuzzing::friends_csv);
+}

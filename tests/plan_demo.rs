@@ -108,7 +108,14 @@ fn cli_plan_writes_versioned_json_and_names_near_matches() {
     );
     let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
     assert_eq!(v["format"], 1);
-    assert_eq!(v["status"], "optimal");
+    // With each rare value at its own, lower level (the rarity rule) the teacher's
+    // plan is not always proven smallest within 5 s on a loaded machine: a plan that
+    // meets every level is what this test needs.
+    assert!(
+        v["status"] == "optimal" || v["status"] == "feasible",
+        "{}",
+        v["status"]
+    );
     let items = v["plan"]["items"].as_array().unwrap();
     assert!(!items.is_empty());
     assert!(

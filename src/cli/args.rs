@@ -17,6 +17,9 @@ pub struct Cli {
 
     #[command(flatten)]
     pub input: SourceArgs,
+
+    #[command(flatten)]
+    pub session: SessionArgs,
 }
 
 #[derive(Debug, Subcommand)]
@@ -39,6 +42,39 @@ pub enum Command {
     /// Write a first mapping for a new archive layout, or check one against an archive.
     #[command(subcommand)]
     Mapping(MappingCommand),
+    /// Remove what the explorer saved on this computer for an archive (hidden and
+    /// kept items, real values, alert levels, goal), or for every archive with --all.
+    Forget(ForgetArgs),
+}
+
+/// What the explorer keeps between runs.
+#[derive(Debug, Args, Clone, Default)]
+pub struct SessionArgs {
+    /// Restore nothing and save nothing on this computer (a shared or workshop
+    /// computer): the cautions open every run. Setting TELLTALE_NO_SAVE=1 does the same
+    /// for every run.
+    #[arg(long, visible_alias = "fresh")]
+    pub no_save: bool,
+
+    /// Save your real values with your other decisions, so they come back next time.
+    /// RISK: anyone who can read your files on this computer can then read them.
+    #[arg(long, conflicts_with = "no_save")]
+    pub remember_real_values: bool,
+}
+
+#[derive(Debug, Args)]
+pub struct ForgetArgs {
+    /// The archive whose saved decisions to remove (zip file or unpacked folder).
+    #[arg(required_unless_present = "all", conflicts_with = "all")]
+    pub archive: Option<PathBuf>,
+
+    /// Remove the saved decisions of every archive, and the note that the cautions
+    /// were shown (so they open again).
+    #[arg(long)]
+    pub all: bool,
+
+    #[command(flatten)]
+    pub input: SourceArgs,
 }
 
 #[derive(Debug, Subcommand)]
@@ -305,6 +341,17 @@ pub struct SourceArgs {
     /// fast (see docs/priors.md).
     #[arg(long)]
     pub no_cache: bool,
+
+    /// Rare values count as exposed, whatever the alert level, when their probability
+    /// is over this and over --rarity-lift times their population rate, e.g. 20% or
+    /// 0.2 (default 20%; 100% turns the rule for rare values off).
+    #[arg(long, value_name = "P")]
+    pub rarity_floor: Option<String>,
+
+    /// How many times its population rate a rare value must pass to count as exposed
+    /// (default 5).
+    #[arg(long, value_name = "X")]
+    pub rarity_lift: Option<f64>,
 }
 
 #[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
@@ -371,6 +418,9 @@ pub struct ExploreArgs {
 
     #[command(flatten)]
     pub input: SourceArgs,
+
+    #[command(flatten)]
+    pub session: SessionArgs,
 }
 
 #[derive(Debug, Args)]
@@ -395,9 +445,16 @@ pub struct PlanArgs {
     pub keep: Vec<String>,
 
     /// Your true value for an attribute, e.g. --true politics=left: then only that
-    /// value's probability must stay under the alert level. Never written to reports.
+    /// value's probability must stay under the alert level. The report never names it
+    /// or gives its probability, and starts with a warning that it was made knowing it.
     #[arg(long = "true", value_name = "ATTR=VALUE")]
     pub true_values: Vec<String>,
+
+    /// Name your --true values and give their probabilities in the report. RISK: anyone
+    /// who sees the report then reads your real values off it; use only for a report
+    /// you keep to yourself.
+    #[arg(long)]
+    pub show_real_values: bool,
 
     /// How much you mind hiding an item (default 1 each), e.g. --cost "Night Owls=3".
     #[arg(long = "cost", value_name = "ITEM=W")]

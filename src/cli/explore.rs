@@ -6,11 +6,11 @@ use std::process::ExitCode;
 
 use anyhow::Result;
 
-use super::args::SourceArgs;
+use super::args::{SessionArgs, SourceArgs};
 use super::scan;
 use crate::tui;
 
-pub fn run(archive: PathBuf, src: SourceArgs) -> Result<ExitCode> {
+pub fn run(archive: PathBuf, src: SourceArgs, session: SessionArgs) -> Result<ExitCode> {
     if !tui::interactive() {
         return scan::run_default(archive, src);
     }
@@ -18,10 +18,14 @@ pub fn run(archive: PathBuf, src: SourceArgs) -> Result<ExitCode> {
     // moment to read, and the loading screen should be up first. A bad option still
     // ends the explorer with the same message.
     let priors = src.priors.clone();
+    let rarity = scan::rarity(&src)?;
     tui::run(tui::Options {
         archive: archive.clone(),
+        rarity,
         input: Box::new(move || scan::input(archive, &src)),
         priors,
+        no_save: session.no_save || telltale::decisions::no_save_from_env(),
+        remember_real_values: session.remember_real_values,
     })?;
     Ok(ExitCode::SUCCESS)
 }

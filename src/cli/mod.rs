@@ -5,6 +5,7 @@ mod args;
 mod cohort;
 mod eval;
 mod explore;
+mod forget;
 mod mapping;
 mod output;
 mod plan;
@@ -27,9 +28,10 @@ pub fn main() -> ExitCode {
     let no_cache = match &cli.command {
         Some(Command::Scan(a)) => a.input.no_cache,
         Some(Command::Plan(a)) => a.input.no_cache,
-        Some(Command::Explore(a)) => a.input.no_cache,
+        // The no-save mode leaves the priors cache alone too.
+        Some(Command::Explore(a)) => a.input.no_cache || a.session.no_save,
         Some(_) => false,
-        None => cli.input.no_cache,
+        None => cli.input.no_cache || cli.session.no_save,
     };
     if no_cache {
         telltale::priors::disable_cache();
@@ -37,13 +39,14 @@ pub fn main() -> ExitCode {
     let result = match cli.command {
         Some(Command::Scan(args)) => scan::run(&args),
         Some(Command::Plan(args)) => plan::run(&args),
-        Some(Command::Explore(args)) => explore::run(args.archive, args.input),
+        Some(Command::Explore(args)) => explore::run(args.archive, args.input, args.session),
         Some(Command::Synth(cmd)) => synth::run(cmd),
         Some(Command::Priors(cmd)) => priors::run(cmd),
         Some(Command::Eval(args)) => eval::run(&args),
         Some(Command::Mapping(cmd)) => mapping::run(cmd),
+        Some(Command::Forget(args)) => forget::run(&args),
         None => match cli.archive {
-            Some(archive) => explore::run(archive, cli.input),
+            Some(archive) => explore::run(archive, cli.input, cli.session),
             None => {
                 use clap::CommandFactory;
                 let _ = Cli::command().print_help();

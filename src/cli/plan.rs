@@ -7,15 +7,15 @@ use std::time::Duration;
 use anyhow::{Context, Result, anyhow, bail};
 use telltale::footprint::Footprint;
 use telltale::plan::{
-    Budget, Method, PlanRequest, build_report, find_subject, solve, write_json, write_markdown,
-    write_text,
+    Budget, Method, PlanRequest, build_report_with, find_subject, solve, write_json,
+    write_markdown, write_text,
 };
 use telltale::priors::Priors;
-use telltale::scan::{Scan, load_priors};
+use telltale::scan::Scan;
 
 use super::args::{PlanArgs, PlanMethod, ReportFormat};
 use super::output::emit;
-use super::scan::{input, note_cache};
+use super::scan::input;
 
 fn split_pair<'a>(flag: &str, s: &'a str) -> Result<(&'a str, &'a str)> {
     s.rsplit_once('=')
@@ -39,7 +39,7 @@ fn attribute(priors: &Priors, flag: &str, given: &str) -> Result<usize> {
 }
 
 /// "0.4", "40%" → 0.4.
-fn probability(flag: &str, s: &str) -> Result<f64> {
+pub(super) fn probability(flag: &str, s: &str) -> Result<f64> {
     let (num, scale) = match s.strip_suffix('%') {
         Some(n) => (n.trim(), 100.0),
         None => (s, 1.0),
@@ -60,16 +60,34 @@ fn request(args: &PlanArgs, priors: &Priors, footprint: &Footprint) -> Result<Pl
     for t in &args.thresholds {
         let (a, p) = split_pair("--threshold", t)?;
         let ai = attribute(priors, "--threshold", a)?;
-        req.set_threshold(ai, probability("--threshold", p)?);
+        req.set_alert_level(priors, ai, probability("--threshold", p)?);
     }
+    // The words given with --true are the person's real values: no message repeats
+    // them (a terminal, a log or a screen share would keep them).
     for t in &args.true_values {
-        let (a, v) = split_pair("--true", t)?;
-        let ai = attribute(priors, "--true", a)?;
+        let (a, v) = t
+            .rsplit_once('=')
+            .map(|(a, b)| (a.trim(), b.trim()))
+            .filter(|(a, b)| !a.is_empty() && !b.is_empty())
+            .ok_or_else(|| {
+                anyhow!("--true: expected ATTRIBUTE=VALUE, e.g. --true politics=left")
+            })?;
+        let ai = priors
+            .attributes
+            .iter()
+            .position(|x| x.id.eq_ignore_ascii_case(a) || x.label.eq_ignore_ascii_case(a))
+            .ok_or_else(|| {
+                let ids: Vec<&str> = priors.attributes.iter().map(|a| a.id.as_str()).collect();
+                anyhow!(
+                    "--true: no attribute by the name given; the priors have {}",
+                    ids.join(", ")
+                )
+            })?;
         let attr = &priors.attributes[ai];
         let vi = attr.value_index(v).ok_or_else(|| {
             let ids: Vec<&str> = attr.values.iter().map(|x| x.id.as_str()).collect();
             anyhow!(
-                "--true: {} has no value '{v}'; its values are {}",
+                "--true: {} has no value by the name given; its values are {}",
                 attr.id,
                 ids.join(", ")
             )
@@ -109,15 +127,20 @@ pub fn run(args: &PlanArgs) -> Result<ExitCode> {
              work the plan out, then press e and choose HTML"
         );
     }
-    let mut priors = load_priors(args.input.priors.as_deref()).context("cannot use the priors")?;
-    note_cache(&priors);
+    let mut priors = super::scan::priors(&args.input)?;
     let input = input(args.archive.clone(), &args.input)?;
     let scan = Scan::run(&input, &mut priors)?;
     // The evidence is gathered: the parsed lexicons are not needed again.
     telltale::lexicon::release_bundled();
     let req = request(args, &priors, &scan.footprint)?;
     let outcome = solve(&scan.exposure, &req).context("cannot plan")?;
-    let report = build_report(&scan.archive_name, &scan.footprint, &priors, &outcome);
+    let report = build_report_with(
+        &scan.archive_name,
+        &scan.footprint,
+        &priors,
+        &outcome,
+        args.show_real_values,
+    );
     emit(args.output.output.as_deref(), |out| {
         match args.output.format {
             ReportFormat::Text => write_text(&report, out),

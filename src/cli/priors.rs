@@ -6,7 +6,7 @@ use std::process::ExitCode;
 use anyhow::{Context, Result};
 use rand::SeedableRng;
 use rand_chacha::ChaCha20Rng;
-use telltale::cohort::fit::fit_all;
+use telltale::cohort::fit::{fit_all, pseudo_members};
 use telltale::cohort::privacy::{Budget, DEFAULT_PEOPLE_SHARE};
 use telltale::cohort::{BuildParams, Table, bound_contributions, build_file, count, noisy_table};
 use telltale::priors::write_priors;
@@ -55,7 +55,7 @@ fn build(args: &PriorsBuildArgs) -> Result<ExitCode> {
     };
     let counted = bound_contributions(&cohort.members, args.cohort.max_items, &mut rng);
     let counts = count(&cohort.members, &counted, schema.n_items(), &cards);
-    let table = noisy_table(&counts, &budget, args.cohort.min_members, &mut rng);
+    let table = noisy_table(&counts, &budget, args.cohort.min_members, &mut rng)?;
     let (settings, note) = if args.calibrate {
         let attrs: Vec<(String, Vec<f64>)> = schema
             .priors
@@ -69,9 +69,13 @@ fn build(args: &PriorsBuildArgs) -> Result<ExitCode> {
                 )
             })
             .collect();
-        let fits = fit_all(&table, &cohort.members, Some(&counted), &attrs);
+        // Fitted on members drawn from the released (noisy) table, never on the
+        // contributors themselves: post-processing, so ε covers it.
+        let pseudo = pseudo_members(&table, &mut rng);
+        let fits = fit_all(&table, &pseudo, None, &attrs);
         eprintln!(
-            "\nCalibration fitted on the cohort (leave-one-out evidence; in-sample for the calibration weights):"
+            "\nCalibration fitted on {} members drawn from the released noisy counts (not on the contributors, so ε covers it):",
+            pseudo.len()
         );
         eprintln!(
             "  {:<12} {:>7} {:>6} {:>4} {:>9} {:>10} {:>10} {:>10}",
@@ -96,7 +100,7 @@ fn build(args: &PriorsBuildArgs) -> Result<ExitCode> {
                     .map(|f| (f.smoothing, f.pseudocount, f.calibration.clone()))
                     .collect(),
             ),
-            " Smoothing and the logistic calibration were fitted on the same contributors' declared attributes (leave-one-out); those few fitted numbers are not covered by ε.".to_string(),
+            " Smoothing and the logistic calibration were fitted on members drawn from the released noisy counts (post-processing: ε covers them); the draw knows only those counts, not which items go together, so the calibration corrects less overconfidence than a fit on the contributors would.".to_string(),
         )
     } else {
         (
@@ -129,7 +133,7 @@ fn build(args: &PriorsBuildArgs) -> Result<ExitCode> {
         built.file.provenance.contributors.unwrap_or(0)
     );
     eprintln!(
-        "Privacy: ε = {} per contributor; Laplace scale {:.2} on each item count (at most {} items per contributor), {:.2} on each people count.",
+        "Privacy: ε = {} per contributor; discrete Laplace scale {:.2} on each item count (at most {} items per contributor), {:.2} on each people count.",
         args.epsilon,
         budget.items_scale(),
         args.cohort.max_items,

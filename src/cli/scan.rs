@@ -34,6 +34,27 @@ pub fn input(archive: PathBuf, src: &SourceArgs) -> Result<ScanInput> {
     })
 }
 
+/// Load the priors the flags name (or the bundled ones), note what the cache did, and
+/// apply the rarity settings of the alert rule.
+pub fn priors(src: &SourceArgs) -> Result<telltale::priors::Priors> {
+    let mut priors = load_priors(src.priors.as_deref()).context("cannot use the priors")?;
+    note_cache(&priors);
+    priors.rarity = rarity(src)?;
+    Ok(priors)
+}
+
+/// The rarity settings from --rarity-floor and --rarity-lift (defaults where not
+/// given), checked.
+pub fn rarity(src: &SourceArgs) -> Result<telltale::alert::Rarity> {
+    let default = telltale::alert::Rarity::default();
+    let floor = match &src.rarity_floor {
+        Some(s) => super::plan::probability("--rarity-floor", s)?,
+        None => default.floor,
+    };
+    let lift = src.rarity_lift.unwrap_or(default.lift);
+    telltale::alert::Rarity::new(floor, lift).map_err(|e| anyhow::anyhow!("{e}"))
+}
+
 /// What the priors cache did, on a terminal only (scripts stay quiet).
 pub fn note_cache(priors: &telltale::priors::Priors) {
     use std::io::IsTerminal;
@@ -45,8 +66,7 @@ pub fn note_cache(priors: &telltale::priors::Priors) {
 }
 
 pub fn run(args: &ScanArgs) -> Result<ExitCode> {
-    let mut priors = load_priors(args.input.priors.as_deref()).context("cannot use the priors")?;
-    note_cache(&priors);
+    let mut priors = priors(&args.input)?;
     let input = input(args.archive.clone(), &args.input)?;
     let pb = super::cohort::byte_bar("importing");
     let scan = Scan::run_with_progress(&input, &mut priors, &mut |done, total| {

@@ -11,6 +11,8 @@ use linfa::prelude::*;
 use linfa_logistic::LogisticRegression;
 use ndarray::{Array1, Array2};
 
+use rand::Rng;
+
 use super::load::Member;
 use super::release::Table;
 use crate::calibration::top_label;
@@ -244,4 +246,57 @@ pub fn fit_all(
             }
         })
         .collect()
+}
+
+/// Members drawn per attribute at most by [`pseudo_members`] (common practice, no
+/// source: enough for a four-weight regression, few enough to fit in a moment).
+pub const PSEUDO_MEMBERS_PER_ATTRIBUTE: usize = 2000;
+
+/// Invented labelled members drawn from a *released* table, so smoothing and
+/// calibration can be fitted without looking at the real contributors again: a fit on
+/// them is post-processing of the noisy release and costs no privacy budget (Dwork &
+/// Roth 2014, Proposition 2.1). For each attribute, about `people[a][v]` members (all
+/// scaled down to at most [`PSEUDO_MEMBERS_PER_ATTRIBUTE`]) declare value `v` and
+/// nothing else; each shows every kept item independently with probability
+/// `items[i][a][v] / people[a][v]` (capped at 1). The draw knows only the released
+/// marginal counts, not which items go together, so a calibration fitted on it
+/// corrects less overconfidence than one fitted on the real members would.
+pub fn pseudo_members(table: &Table, rng: &mut impl Rng) -> Vec<Member> {
+    let n_attr = table.people.len();
+    let mut out = Vec::new();
+    for a in 0..n_attr {
+        let people = &table.people[a];
+        let total: f64 = people.iter().map(|p| p.max(0.0)).sum();
+        if total <= 0.0 {
+            continue;
+        }
+        let scale = (PSEUDO_MEMBERS_PER_ATTRIBUTE as f64 / total).min(1.0);
+        for (v, &n_v) in people.iter().enumerate() {
+            if n_v <= 0.0 {
+                continue;
+            }
+            let draws = (n_v * scale).round() as usize;
+            let rates: Vec<(u32, f64)> = table
+                .items
+                .iter()
+                .enumerate()
+                .filter(|(i, _)| table.keep[*i])
+                .filter_map(|(i, per_attr)| {
+                    let r = (per_attr[a][v].max(0.0) / n_v).min(1.0);
+                    (r > 0.0).then_some((i as u32, r))
+                })
+                .collect();
+            for _ in 0..draws {
+                let mut values = vec![None; n_attr];
+                values[a] = Some(v);
+                let items = rates
+                    .iter()
+                    .filter(|(_, r)| rng.random_bool(*r))
+                    .map(|(i, _)| *i)
+                    .collect();
+                out.push(Member { items, values });
+            }
+        }
+    }
+    out
 }

@@ -1,5 +1,5 @@
 //! From counts to a priors file: exact tables (for evaluation and tests) or tables
-//! released with the Laplace mechanism ([`super::privacy`]), then post-processed —
+//! released with the discrete Laplace mechanism ([`super::privacy`]), then post-processed —
 //! items with fewer than K (noisy) members dropped, negative counts set to 0, counts
 //! rounded — and written with the schema's attributes, the cohort's base and
 //! membership rates and a provenance that records the privacy parameters.
@@ -9,8 +9,9 @@ use std::collections::BTreeMap;
 use rand::Rng;
 
 use super::counts::Counts;
+use super::error::{Error, Result};
 use super::load::Schema;
-use super::privacy::{Budget, laplace};
+use super::privacy::Budget;
 use crate::priors::{
     AttributeSpec, Calibration, FORMAT, ItemSpec, MemberSpec, PriorsFile, PrivacySpec, Provenance,
 };
@@ -110,34 +111,43 @@ pub fn exact_table(counts: &Counts, min_members: f64) -> Table {
     )
 }
 
-/// The table released with the Laplace mechanism: noise on every count of every
-/// candidate item (zero counts too), on the population histograms and on the number
-/// of contributors, with the scales `budget` gives.
+/// The table released with the discrete Laplace mechanism: integer noise from the
+/// exact sampler on every count of every candidate item (zero counts too), on the
+/// population histograms and on the number of contributors, with the scales `budget`
+/// gives. Fails only when the budget cannot be used ([`Budget::problem`]).
 pub fn noisy_table(
     counts: &Counts,
     budget: &Budget,
     min_members: f64,
     rng: &mut impl Rng,
-) -> Table {
-    let bi = budget.items_scale();
-    let bp = budget.people_scale();
+) -> Result<Table> {
+    if let Some(p) = budget.problem() {
+        return Err(Error::Params(p));
+    }
+    let (Some(item_noise), Some(people_noise)) = (budget.items_noise(), budget.people_noise())
+    else {
+        return Err(Error::Params("the privacy budget cannot be used".into()));
+    };
+    // Counts are whole numbers; the noise is too, so the released values are exact
+    // integers (the rounding below changes nothing for them).
+    let mut noisy = |x: f64, n: &super::privacy::DiscreteLaplace| x.round() + n.sample(rng) as f64;
     let items = counts
         .items
         .iter()
         .map(|per_attr| {
             per_attr
                 .iter()
-                .map(|c| c.iter().map(|x| x + laplace(rng, bi)).collect())
+                .map(|c| c.iter().map(|&x| noisy(x, &item_noise)).collect())
                 .collect()
         })
         .collect();
     let people = counts
         .people
         .iter()
-        .map(|c| c.iter().map(|x| x + laplace(rng, bp)).collect())
+        .map(|c| c.iter().map(|&x| noisy(x, &people_noise)).collect())
         .collect();
-    let contributors = counts.contributors + laplace(rng, bp);
-    finish(items, people, contributors, min_members, true)
+    let contributors = noisy(counts.contributors, &people_noise);
+    Ok(finish(items, people, contributors, min_members, true))
 }
 
 /// What goes into the file besides the table.
@@ -219,14 +229,14 @@ pub fn build_file(schema: &Schema, table: &Table, params: &BuildParams) -> Built
     let (privacy, how) = match &params.budget {
         Some(b) => (
             Some(PrivacySpec {
-                mechanism: "laplace".into(),
+                mechanism: "discrete_laplace".into(),
                 epsilon: b.epsilon,
                 sensitivity: b.items_sensitivity(),
                 min_members: params.min_members,
                 budget_split: b.describe(),
             }),
             format!(
-                "Member counts from about {contributors} consenting contributors' archives (a noisy count), released with the Laplace mechanism (ε = {}); ",
+                "Member counts from about {contributors} consenting contributors' archives (a noisy count), released with the discrete Laplace mechanism (ε = {}); ",
                 b.epsilon
             ),
         ),

@@ -11,7 +11,7 @@ use rand::seq::index::sample;
 use rand_chacha::ChaCha8Rng;
 
 use super::report::{AttrEval, Bin, EVAL_FORMAT, EvalReport, ShareRow};
-use crate::cohort::fit::{ECE_BINS, fit_all};
+use crate::cohort::fit::{ECE_BINS, fit_all, pseudo_members};
 use crate::cohort::privacy::{Budget, DEFAULT_PEOPLE_SHARE};
 use crate::cohort::{
     BuildParams, Cohort, Error, Member, Result, Schema, Table, bound_contributions, build_file,
@@ -29,7 +29,8 @@ pub struct EvalParams {
     pub folds: usize,
     /// Public shares for the accuracy curve, each in (0, 1].
     pub shares: Vec<f64>,
-    /// Release the training statistics with the Laplace mechanism at this ε.
+    /// Release the training statistics with the discrete Laplace mechanism at this ε
+    /// (the calibration then fitted from the released table, as `priors build` does).
     pub epsilon: Option<f64>,
     pub max_items: usize,
     pub min_members: f64,
@@ -68,7 +69,7 @@ fn train(
                 n_attributes: cards.len(),
                 max_items: params.max_items,
             };
-            noisy_table(&counts, &budget, params.min_members, rng)
+            noisy_table(&counts, &budget, params.min_members, rng)?
         }
         None => exact_table(&counts, params.min_members),
     };
@@ -84,7 +85,14 @@ fn train(
             )
         })
         .collect();
-    let fits = fit_all(&table, members, Some(&counted), &attrs);
+    // Released with noise, the calibration is fitted as `priors build` fits it: on
+    // members drawn from the released table (post-processing, inside ε).
+    let fits = if params.epsilon.is_some() {
+        let pseudo = pseudo_members(&table, rng);
+        fit_all(&table, &pseudo, None, &attrs)
+    } else {
+        fit_all(&table, members, Some(&counted), &attrs)
+    };
     let settings = fits
         .iter()
         .map(|f| (f.smoothing, f.pseudocount, f.calibration.clone()))

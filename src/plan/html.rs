@@ -7,7 +7,7 @@
 
 use std::io::{self, Write};
 
-use super::render::{state_words, why};
+use super::render::{figure_or, state_words, verdict, why, withheld};
 use super::report::{AttrReport, PlanReport};
 use crate::reading::percent;
 use crate::report::escape_html as escape;
@@ -15,6 +15,13 @@ use crate::report::escape_html as escape;
 /// Write the section (an `<h2>` and what follows it).
 pub fn write_html_section(r: &PlanReport, out: &mut dyn Write) -> io::Result<()> {
     writeln!(out, "<h2>Hiding plan</h2>")?;
+    if let Some(w) = &r.warning {
+        writeln!(
+            out,
+            "<p class=\"private\"><strong>{}</strong></p>",
+            escape(w)
+        )?;
+    }
     writeln!(out, "<p class=\"note\">{}</p>", escape(&r.summary))?;
     if let Some(plan) = &r.plan
         && !plan.items.is_empty()
@@ -43,7 +50,7 @@ pub fn write_html_section(r: &PlanReport, out: &mut dyn Write) -> io::Result<()>
     )?;
     writeln!(out, "<div class=\"cards\">")?;
     for a in &r.attributes {
-        write_attribute(a, out)?;
+        write_attribute(r, a, out)?;
     }
     writeln!(out, "</div>")?;
     if !r.coarse_moves.is_empty() {
@@ -77,9 +84,9 @@ pub fn write_html_section(r: &PlanReport, out: &mut dyn Write) -> io::Result<()>
                 "{}: {} at {} with everything you allow hidden (alert level {}; with nothing visible {})",
                 b.attribute_label,
                 b.value_label,
-                percent(b.probability),
+                figure_or(b.probability, "over it"),
                 percent(b.threshold),
-                percent(b.prior_probability)
+                figure_or(b.prior_probability, "not shown")
             );
             if !kept.is_empty() {
                 line.push_str(&format!("; kept items giving it away: {}", kept.join(", ")));
@@ -104,8 +111,10 @@ fn watched(s: &super::report::StateReport) -> f64 {
 }
 
 /// One attribute's card: before and after as two bars against the alert level.
-fn write_attribute(a: &AttrReport, out: &mut dyn Write) -> io::Result<()> {
-    let verdict = if a.after.meets {
+fn write_attribute(r: &PlanReport, a: &AttrReport, out: &mut dyn Write) -> io::Result<()> {
+    let verdict = if withheld(r, a) {
+        ("quiet", verdict(r, a))
+    } else if a.after.meets {
         ("quiet", "under")
     } else {
         ("exposed", "still over")

@@ -37,7 +37,10 @@ pub use outcome::{
     Reason, SearchStats, Status,
 };
 pub use render::{write_json, write_markdown, write_markdown_section, write_text};
-pub use report::{PLAN_REPORT_FORMAT, PlanReport, build as build_report};
+pub use report::{
+    PLAN_REPORT_FORMAT, PlanReport, RealValues, build as build_report,
+    build_with as build_report_with,
+};
 pub use request::{
     Budget, Error, Method, MoveKind, MoveSpec, PlanRequest, Progress, Target, standard_moves,
 };

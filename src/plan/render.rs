@@ -3,7 +3,7 @@
 
 use std::io::{self, Write};
 
-use super::report::{PlanReport, StateReport, cost_words};
+use super::report::{AttrReport, PlanReport, RealValues, StateReport, YOUR_VALUE_ID, cost_words};
 use crate::cautions::TITLE;
 use crate::reading::percent;
 use crate::text::{display_width, pad_to_width, wrap_words};
@@ -26,6 +26,31 @@ pub(super) fn state_words(s: &StateReport) -> String {
     }
 }
 
+/// Whether an attribute's real value was given and is kept out of the report.
+pub(super) fn withheld(r: &PlanReport, a: &AttrReport) -> bool {
+    a.true_value_given && r.real_values == RealValues::Withheld
+}
+
+/// The verdict on an attribute after the plan, in a word or two.
+pub(super) fn verdict(r: &PlanReport, a: &AttrReport) -> &'static str {
+    if withheld(r, a) {
+        "aimed at your value"
+    } else if a.after.meets {
+        "ok"
+    } else {
+        "STILL OVER"
+    }
+}
+
+/// A figure, or words in its place when it was withheld (NaN: a real value's own).
+pub(super) fn figure_or(p: f64, withheld: &str) -> String {
+    if p.is_nan() {
+        withheld.to_string()
+    } else {
+        percent(p)
+    }
+}
+
 pub(super) fn why(r: &PlanReport, i: usize) -> String {
     let Some(plan) = &r.plan else {
         return String::new();
@@ -40,7 +65,7 @@ pub(super) fn why(r: &PlanReport, i: usize) -> String {
                 x.attribute_label,
                 x.value_label,
                 x.bits,
-                if x.needed {
+                if x.needed && x.value != YOUR_VALUE_ID {
                     format!("; shown again: {}", percent(x.probability_if_shown))
                 } else {
                     String::new()
@@ -53,6 +78,9 @@ pub(super) fn why(r: &PlanReport, i: usize) -> String {
 
 /// Write the text report.
 pub fn write_text(r: &PlanReport, out: &mut dyn Write) -> io::Result<()> {
+    if let Some(w) = &r.warning {
+        writeln!(out, "{}\n", wrap_words(w, 78, ""))?;
+    }
     writeln!(out, "telltale plan: what to hide")?;
     writeln!(
         out,
@@ -105,7 +133,7 @@ pub fn write_text(r: &PlanReport, out: &mut dyn Write) -> io::Result<()> {
             state_words(&a.before),
             state_words(&a.after),
             percent(a.threshold),
-            if a.after.meets { "ok" } else { "STILL OVER" }
+            verdict(r, a)
         )?;
     }
     if !r.coarse_moves.is_empty() {
@@ -152,7 +180,7 @@ pub fn write_text(r: &PlanReport, out: &mut dyn Write) -> io::Result<()> {
                 "• {}: with everything you allow hidden, {} is at {} (alert level {}).",
                 b.attribute_label,
                 b.value_label,
-                percent(b.probability),
+                figure_or(b.probability, "a level over it"),
                 percent(b.threshold)
             );
             if b.threshold * (b.values as f64) < 1.0 {
@@ -250,6 +278,9 @@ fn esc(s: &str) -> String {
 
 /// Write the Markdown report.
 pub fn write_markdown(r: &PlanReport, out: &mut dyn Write) -> io::Result<()> {
+    if let Some(w) = &r.warning {
+        writeln!(out, "> **{}**\n", esc(w))?;
+    }
     writeln!(out, "# What to hide in {}\n", esc(&r.archive))?;
     write_markdown_body(r, "##", out)?;
     writeln!(out, "\n## {}\n", TITLE)?;
@@ -298,7 +329,11 @@ fn write_markdown_body(r: &PlanReport, h: &str, out: &mut dyn Write) -> io::Resu
             esc(&state_words(&a.before)),
             esc(&state_words(&a.after)),
             percent(a.threshold),
-            if a.after.meets { "yes" } else { "no" }
+            match verdict(r, a) {
+                "ok" => "yes",
+                "STILL OVER" => "no",
+                other => other,
+            }
         )?;
     }
     if !r.coarse_moves.is_empty() {
@@ -325,9 +360,9 @@ fn write_markdown_body(r: &PlanReport, h: &str, out: &mut dyn Write) -> io::Resu
                 "- {}: {} at {} with everything allowed hidden (alert level {}; with nothing visible {}){}",
                 esc(&b.attribute_label),
                 esc(&b.value_label),
-                percent(b.probability),
+                figure_or(b.probability, "over it"),
                 percent(b.threshold),
-                percent(b.prior_probability),
+                figure_or(b.prior_probability, "not shown"),
                 if kept.is_empty() {
                     String::new()
                 } else {

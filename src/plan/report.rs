@@ -1,14 +1,17 @@
 //! The plan report: the outcome with names (items, attributes, values) resolved from
 //! the footprint and priors, and one plain-words summary — exactly what
 //! `telltale plan --format json` writes (format 1: add fields, never rename them).
-//! A value the user stated privately is never named in it; only its probability is.
+//! A value the user stated privately is never named in it, and neither is its
+//! probability or anything else a reader could match against the other values' figures
+//! (unless the person asks with [`RealValues::Shown`]); a report made knowing one
+//! carries [`crate::cautions::REAL_VALUES_WARNING`] as its first field.
 
 use serde::Serialize;
 
 use super::exact::StopReason;
 use super::outcome::{AttrState, PlanOutcome, Status};
 use super::request::{Method, MoveKind};
-use crate::cautions::CAUTIONS;
+use crate::cautions::{CAUTIONS, REAL_VALUES_SHOWN, REAL_VALUES_WARNING};
 use crate::evidence::Subject;
 use crate::footprint::Footprint;
 use crate::priors::Priors;
@@ -21,9 +24,26 @@ pub const PLAN_REPORT_FORMAT: u32 = 1;
 pub const YOUR_VALUE_ID: &str = "(your value)";
 pub const YOUR_VALUE: &str = "your value";
 
+/// Whether a plan was made knowing the person's real values, and whether the report
+/// may show them.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "lowercase")]
+pub enum RealValues {
+    /// No real value was given.
+    None,
+    /// Given, and kept out of the report: no name, no probability.
+    Withheld,
+    /// Given, and shown in full because the person asked.
+    Shown,
+}
+
 #[derive(Debug, Clone, Serialize)]
 pub struct PlanReport {
+    /// Present when the plan was made knowing real values: say so before anything else.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub warning: Option<String>,
     pub format: u32,
+    pub real_values: RealValues,
     pub tool: String,
     pub archive: String,
     pub priors: String,
@@ -175,14 +195,22 @@ pub fn subject_name(footprint: &Footprint, s: Subject) -> (String, String, Optio
     }
 }
 
-fn state(priors: &Priors, s: &AttrState) -> StateReport {
+fn state(priors: &Priors, s: &AttrState, show_real: bool) -> StateReport {
     let a = &priors.attributes[s.attribute];
+    // With the real value withheld, whether *it* is over the alert level would name it
+    // beside the guess's figure ("Jewish 100%, your value over 30%"); the state then
+    // says only what the guess does, as a report made without the real value would.
+    let withheld = s.true_value.is_some() && !show_real;
     StateReport {
         guess: a.values[s.best].id.clone(),
         guess_label: a.values[s.best].label.clone(),
         probability: s.probability,
-        true_value_probability: s.true_probability,
-        meets: s.meets,
+        true_value_probability: if withheld { None } else { s.true_probability },
+        meets: if withheld {
+            s.probability <= s.threshold + 1e-12
+        } else {
+            s.meets
+        },
     }
 }
 
@@ -194,19 +222,36 @@ fn noun(n: usize, one: &str, many: &str) -> String {
     }
 }
 
-/// Build the report.
+/// Build the report, keeping any real value out of it.
 pub fn build(
     archive_name: &str,
     footprint: &Footprint,
     priors: &Priors,
     o: &PlanOutcome,
 ) -> PlanReport {
+    build_with(archive_name, footprint, priors, o, false)
+}
+
+/// Build the report; `show_real` names the real values in full and gives their
+/// probabilities (only when the person asks: the report then is as private as the
+/// values themselves).
+pub fn build_with(
+    archive_name: &str,
+    footprint: &Footprint,
+    priors: &Priors,
+    o: &PlanOutcome,
+    show_real: bool,
+) -> PlanReport {
     let attr_id = |a: usize| priors.attributes[a].id.clone();
     // A privately stated value is never named: where a reason or an obstacle is about
     // it, the report says "your value" instead.
     let stated = |a: usize| o.before.iter().find(|s| s.attribute == a)?.true_value;
+    let any_real = o.before.iter().any(|s| s.true_value.is_some());
     let value_words = |a: usize, v: usize| -> (String, String) {
-        if stated(a) == Some(v) {
+        if stated(a) == Some(v) && show_real {
+            let value = &priors.attributes[a].values[v];
+            (value.id.clone(), format!("{YOUR_VALUE}, {}", value.label))
+        } else if stated(a) == Some(v) {
             (YOUR_VALUE_ID.into(), YOUR_VALUE.into())
         } else {
             let value = &priors.attributes[a].values[v];
@@ -256,8 +301,8 @@ pub fn build(
             label: priors.attributes[b.attribute].label.clone(),
             threshold: b.threshold,
             true_value_given: b.true_value.is_some(),
-            before: state(priors, b),
-            after: state(priors, a),
+            before: state(priors, b, show_real),
+            after: state(priors, a, show_real),
         })
         .collect();
     let coarse_moves = o
@@ -274,7 +319,7 @@ pub fn build(
             after: m
                 .after
                 .iter()
-                .map(|s| (attr_id(s.attribute), state(priors, s)))
+                .map(|s| (attr_id(s.attribute), state(priors, s, show_real)))
                 .collect(),
         })
         .collect();
@@ -284,13 +329,17 @@ pub fn build(
             .iter()
             .map(|b| {
                 let a = &priors.attributes[b.attribute];
+                // The real value's own figures would name it against the scan's
+                // distribution: withheld, they are left out (null in JSON).
+                let hide = stated(b.attribute) == Some(b.value) && !show_real;
+                let figure = |p: f64| if hide { f64::NAN } else { p };
                 BlockedReport {
                     attribute: a.id.clone(),
                     attribute_label: a.label.clone(),
                     value_label: value_words(b.attribute, b.value).1,
-                    probability: b.probability,
+                    probability: figure(b.probability),
                     threshold: b.threshold,
-                    prior_probability: b.prior_probability,
+                    prior_probability: figure(b.prior_probability),
                     kept_items: b
                         .kept
                         .iter()
@@ -311,15 +360,26 @@ pub fn build(
         .file_name()
         .map(|n| n.to_string_lossy().into_owned())
         .unwrap_or_else(|| priors.origin.clone());
+    let real_values = match (any_real, show_real) {
+        (false, _) => RealValues::None,
+        (true, false) => RealValues::Withheld,
+        (true, true) => RealValues::Shown,
+    };
     PlanReport {
+        warning: match real_values {
+            RealValues::None => None,
+            RealValues::Withheld => Some(REAL_VALUES_WARNING.to_string()),
+            RealValues::Shown => Some(format!("{REAL_VALUES_WARNING} {REAL_VALUES_SHOWN}")),
+        },
         format: PLAN_REPORT_FORMAT,
+        real_values,
         tool: format!("telltale {}", env!("CARGO_PKG_VERSION")),
         archive: archive_name.to_string(),
         priors: priors_name,
         priors_synthetic: priors.provenance.synthetic,
         method: o.method,
         status: o.status,
-        summary: summary(o, priors),
+        summary: summary(o, priors, show_real),
         plan,
         lower_bound: o.lower_bound,
         stopped: o.stopped,
@@ -353,8 +413,8 @@ pub fn cost_words(count: usize, cost: f64) -> String {
     }
 }
 
-/// The one-sentence answer.
-pub fn summary(o: &PlanOutcome, priors: &Priors) -> String {
+/// The one-sentence answer; `show_real` names real values and their figures.
+pub fn summary(o: &PlanOutcome, priors: &Priors, show_real: bool) -> String {
     let best_move = o
         .moves
         .iter()
@@ -401,13 +461,26 @@ pub fn summary(o: &PlanOutcome, priors: &Priors) -> String {
                         .before
                         .iter()
                         .any(|x| x.attribute == b.attribute && x.true_value == Some(b.value));
+                    if stated && !show_real {
+                        // No figure: the real value's probability would name it.
+                        s.push_str(&format!(
+                            " {}: even with everything you allow hidden, {YOUR_VALUE} stays over your alert level of {}",
+                            a.label,
+                            percent(b.threshold)
+                        ));
+                        if !b.kept.is_empty() {
+                            s.push_str(" because of items you keep visible");
+                        }
+                        s.push('.');
+                        continue;
+                    }
                     s.push_str(&format!(
                         " {}: even with everything you allow hidden, {} is at {}, over your alert level of {}",
                         a.label,
                         if stated {
-                            YOUR_VALUE
+                            format!("{YOUR_VALUE}, {}", a.values[b.value].label)
                         } else {
-                            a.values[b.value].label.as_str()
+                            a.values[b.value].label.clone()
                         },
                         percent(b.probability),
                         percent(b.threshold)

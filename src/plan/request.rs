@@ -191,8 +191,9 @@ pub struct PlanRequest {
 }
 
 impl PlanRequest {
-    /// Every attribute of the priors protected at its own threshold; exact method,
-    /// default budget, no coarse moves.
+    /// Every attribute of the priors protected at its own threshold, each value at its
+    /// own level by the priors' alert rule ([`crate::alert`]: a rare value's level is
+    /// lower); exact method, default budget, no coarse moves.
     pub fn from_priors(priors: &Priors) -> PlanRequest {
         PlanRequest {
             targets: priors
@@ -203,7 +204,7 @@ impl PlanRequest {
                     attribute: i,
                     threshold: a.threshold,
                     true_value: None,
-                    value_levels: None,
+                    value_levels: rarity_levels(priors, i, a.threshold),
                 })
                 .collect(),
             keep: BTreeSet::new(),
@@ -236,9 +237,22 @@ impl PlanRequest {
         }
     }
 
-    /// Set (or add) the threshold for an attribute.
+    /// Set (or add) an attribute's alert level, each value at its own level by the
+    /// priors' alert rule ([`crate::alert`]): what `telltale plan --threshold` and the
+    /// explorer use.
+    pub fn set_alert_level(&mut self, priors: &Priors, attribute: usize, level: f64) {
+        let levels = rarity_levels(priors, attribute, level);
+        let t = self.target_mut(attribute);
+        t.threshold = level;
+        t.value_levels = levels;
+    }
+
+    /// Set (or add) the threshold for an attribute: one level for every value (no
+    /// rarity rule; [`PlanRequest::set_alert_level`] applies it).
     pub fn set_threshold(&mut self, attribute: usize, threshold: f64) {
-        self.target_mut(attribute).threshold = threshold;
+        let t = self.target_mut(attribute);
+        t.threshold = threshold;
+        t.value_levels = None;
     }
 
     /// Give each value of an attribute its own level (see [`Target::value_levels`]).
@@ -255,6 +269,15 @@ impl PlanRequest {
     pub fn cost(&self, subject: Subject) -> f64 {
         self.costs.get(&subject).copied().unwrap_or(1.0)
     }
+}
+
+/// Each value's own level for an attribute at alert level `level`, by the priors'
+/// rarity setting; `None` when that gives every value `level` (the rule is off, or no
+/// value is rare enough), or the attribute does not exist.
+fn rarity_levels(priors: &Priors, attribute: usize, level: f64) -> Option<Vec<f64>> {
+    let a = priors.attributes.get(attribute)?;
+    let levels = priors.rarity.value_levels(level, &a.base_rates);
+    levels.iter().any(|&l| l < level).then_some(levels)
 }
 
 /// A problem with the request itself.

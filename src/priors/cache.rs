@@ -40,7 +40,7 @@ pub const MIN_CACHED_BYTES: usize = 8 << 20;
 pub const MIN_CACHED_ITEMS: usize = 20_000;
 
 const MAGIC: &[u8; 8] = b"TTPRIORC";
-const HEADER_LEN: usize = 8 + 4 + 32 + 8 + 32;
+pub(crate) const HEADER_LEN: usize = 8 + 4 + 32 + 8 + 32;
 
 static DISABLED: AtomicBool = AtomicBool::new(false);
 
@@ -327,6 +327,7 @@ fn read_payload<R: Read>(r: &mut Stream<R>, origin: &str) -> Option<Priors> {
         warnings,
         origin: origin.to_string(),
         cache_notes: Vec::new(),
+        rarity: crate::alert::Rarity::default(),
         store,
         index,
         file_attributes: None,

@@ -1,6 +1,7 @@
 //! Checking a priors file: the attributes (values, rates, thresholds, smoothing,
 //! calibration — any problem refuses the file) and the reference items one by one (a
-//! duplicate id, an unknown attribute or a count list of the wrong length is skipped
+//! duplicate id, an unknown attribute, a count list of the wrong length or a count that
+//! is not a number or over [`MAX_COUNT`] is skipped
 //! with a warning; the first few are listed, the rest counted). The item checks feed
 //! the columnar store and the match index as they go, so the JSON reader can check
 //! items while it streams them.
@@ -15,6 +16,11 @@ use super::model::{AttrValue, Attribute, DEFAULT_SMOOTHING};
 use super::store::Items;
 use crate::footprint::ItemKind;
 use crate::text::name_key;
+
+/// The largest member count believed: 10¹⁵, over 100,000 times the world's population
+/// (about 8.2 billion in 2025, UN World Population Prospects 2024, from memory), so
+/// only a broken or hostile file reaches it.
+pub(crate) const MAX_COUNT: f64 = 1e15;
 
 /// Item-level problems listed in detail before they are only counted.
 const DETAILED_PROBLEMS: usize = 10;
@@ -278,11 +284,27 @@ impl<'a> ItemBuilder<'a> {
                 self.note(w);
                 continue;
             }
+            // A count no group of people can have — not a number, or far more members
+            // than people alive — makes the attribute's counts meaningless: ignored,
+            // not clamped into something that looks like evidence. A count below
+            // zero (noise released without clamping) is taken as 0, with a warning.
+            if let Some(&bad) = m.iter().find(|c| !c.is_finite() || **c > MAX_COUNT) {
+                let w = format!(
+                    "{}: '{attr_id}' has a count of {bad:e}, more members than any group can have; ignored",
+                    at()
+                );
+                self.note(w);
+                continue;
+            }
+            if let Some(&bad) = m.iter().find(|c| **c < 0.0) {
+                let w = format!(
+                    "{}: '{attr_id}' has a count below 0 ({bad}); taken as 0",
+                    at()
+                );
+                self.note(w);
+            }
             let start = self.counts.len();
-            self.counts.extend(
-                m.iter()
-                    .map(|&c| if c.is_finite() { c.max(0.0) } else { 0.0 }),
-            );
+            self.counts.extend(m.iter().map(|&c| c.max(0.0)));
             self.members.push((ai, start..self.counts.len()));
         }
         self.members.sort_by_key(|(a, _)| *a);

@@ -46,7 +46,8 @@ pub struct Provenance {
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct PrivacySpec {
-    /// "laplace".
+    /// "discrete_laplace" (integer noise from an exact sampler); files from earlier
+    /// versions say "laplace" (continuous noise).
     pub mechanism: String,
     /// Total privacy budget ε for one contributor.
     pub epsilon: f64,

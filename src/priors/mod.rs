@@ -21,6 +21,9 @@ pub use cache::{
     CACHE_DIR_ENV, CACHE_VERSION, MIN_CACHED_BYTES, MIN_CACHED_ITEMS, cache_dir, cache_path,
     disable_cache, hash_file,
 };
+pub(crate) use cache::{
+    HEADER_LEN as CACHE_HEADER_LEN, decode_from as decode_cache, encode as encode_cache,
+};
 pub use error::{Error, Result};
 pub use file::{
     AttributeSpec, Calibration, FORMAT, ItemSpec, MemberSpec, PriorsFile, PrivacySpec, Provenance,

@@ -70,6 +70,10 @@ pub struct Priors {
     /// What happened with the binary cache (used, written, refused and why); empty
     /// when no cache was involved. For a note on standard error, never a report.
     pub cache_notes: Vec<String>,
+    /// The rarity part of the alert rule ([`crate::alert`]): a run-time setting (flags,
+    /// the explorer, saved decisions), not read from the file. With the attributes'
+    /// thresholds it is the one set of alert levels every report, screen and plan uses.
+    pub rarity: crate::alert::Rarity,
     pub(crate) store: Items,
     pub(crate) index: Index,
     /// The attributes as the file gives them, kept while a scan has replaced them with
@@ -143,6 +147,7 @@ impl Priors {
             warnings,
             origin: origin.to_string(),
             cache_notes: Vec::new(),
+            rarity: crate::alert::Rarity::default(),
             store: items,
             index,
             file_attributes: None,

@@ -142,6 +142,7 @@ impl<'de> Visitor<'de> for Top<'_> {
                 warnings,
                 origin: origin.to_string(),
                 cache_notes: Vec::new(),
+                rarity: crate::alert::Rarity::default(),
                 store,
                 index,
                 file_attributes: None,

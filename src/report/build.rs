@@ -6,12 +6,13 @@ use std::sync::Arc;
 
 use serde::Serialize;
 
+use crate::alert::Rarity;
 use crate::cautions::CAUTIONS;
 use crate::evidence::Subject;
 use crate::footprint::{Footprint, ItemKind};
 use crate::infer::Exposure;
 use crate::priors::Priors;
-use crate::reading::{attribute_sentence, level};
+use crate::reading::assess;
 
 use super::rows::{RowCount, Rows};
 use super::sources::{
@@ -23,10 +24,17 @@ pub const REPORT_FORMAT: u32 = 1;
 
 #[derive(Debug, Clone, Serialize)]
 pub struct ScanReport {
+    /// Set when the document was made knowing the person's real values (the explorer's
+    /// export with a plan aimed at them): every renderer puts it first.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub warning: Option<String>,
     pub format: u32,
     pub tool: ToolInfo,
     pub archive: ArchiveInfo,
     pub priors: PriorsInfo,
+    /// The rarity part of the alert rule every attribute's level is judged by: a
+    /// value over `floor` and over `lift ×` its population rate counts as exposed.
+    pub rarity: Rarity,
     pub attributes: Vec<AttributeReport>,
     /// Item × attribute rows, most revealing for this person first.
     pub items: Vec<ItemReport>,
@@ -47,6 +55,38 @@ pub struct ScanReport {
 }
 
 impl ScanReport {
+    /// Use the person's own alert levels (one per attribute, in the priors' order)
+    /// instead of the priors': the threshold, level and reading of each attribute are
+    /// worked out again, so every section of a document built from this report and a
+    /// plan made with the same levels says the same thing. Levels that are not
+    /// probabilities are skipped.
+    pub fn set_alert_levels(&mut self, priors: &Priors, levels: &[f64]) {
+        for ((a, attr), &t) in self
+            .attributes
+            .iter_mut()
+            .zip(&priors.attributes)
+            .zip(levels)
+        {
+            if !(t > 0.0 && t <= 1.0) || t == a.threshold {
+                continue;
+            }
+            let probs: Vec<f64> = a.distribution.iter().map(|v| v.probability).collect();
+            if probs.len() != attr.values.len() {
+                continue;
+            }
+            let verdict = assess(attr, &probs, t, &priors.rarity);
+            a.threshold = t;
+            a.level = verdict.level.word().to_string();
+            a.exposed_value = verdict.flag.map(|f| attr.values[f.value].id.clone());
+            a.exposed_by_rarity = verdict.flag.is_some_and(|f| f.by_rarity);
+            a.reading = verdict.reading;
+            for v in &mut a.distribution {
+                v.alert_level = priors.rarity.value_level(t, v.base_rate);
+                v.exposed = priors.rarity.exposed(t, v.probability, v.base_rate);
+            }
+        }
+    }
+
     /// An attribute's label for people, from its id (the id itself if unknown).
     pub fn attribute_label(&self, id: &str) -> String {
         self.attributes
@@ -100,6 +140,11 @@ pub struct ValueShare {
     pub label: String,
     pub probability: f64,
     pub base_rate: f64,
+    /// This value's own alert level: `min(threshold, max(rarity floor, rarity lift ×
+    /// base_rate))`.
+    pub alert_level: f64,
+    /// Over its own alert level.
+    pub exposed: bool,
 }
 
 #[derive(Debug, Clone, Serialize)]
@@ -119,6 +164,12 @@ pub struct AttributeReport {
     pub threshold: f64,
     /// exposed, leaning or quiet.
     pub level: String,
+    /// The value the alert rule counts as exposed (the best guess, or a rarer value
+    /// over the rarity floor and lift), if any.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub exposed_value: Option<String>,
+    /// Exposed only by the rarity part of the rule (under the alert level).
+    pub exposed_by_rarity: bool,
     /// Visible pieces of evidence feeding this attribute.
     pub feeding: usize,
     pub reading: String,
@@ -212,6 +263,7 @@ pub fn build_with(
         let post = exposure.posterior(ai);
         let base = attr.base_rates[post.best];
         let guess = &attr.values[post.best];
+        let verdict = assess(attr, &post.probs, attr.threshold, &priors.rarity);
         attributes.push(AttributeReport {
             id: attr.id.clone(),
             label: attr.label.clone(),
@@ -222,17 +274,11 @@ pub fn build_with(
             lift: post.probability / base,
             uniform_rate: attr.uniform_rate(),
             threshold: attr.threshold,
-            level: level(post.probability, base, attr.threshold)
-                .word()
-                .to_string(),
+            level: verdict.level.word().to_string(),
+            exposed_value: verdict.flag.map(|f| attr.values[f.value].id.clone()),
+            exposed_by_rarity: verdict.flag.is_some_and(|f| f.by_rarity),
             feeding: exposure.feeding(ai),
-            reading: attribute_sentence(
-                &attr.label,
-                &guess.label,
-                post.probability,
-                base,
-                attr.threshold,
-            ),
+            reading: verdict.reading,
             special_category: attr.special_category.clone(),
             distribution: attr
                 .values
@@ -244,6 +290,8 @@ pub fn build_with(
                     label: v.label.clone(),
                     probability: p,
                     base_rate: b,
+                    alert_level: priors.rarity.value_level(attr.threshold, b),
+                    exposed: priors.rarity.exposed(attr.threshold, p, b),
                 })
                 .collect(),
         });
@@ -286,6 +334,7 @@ pub fn build_with(
     );
 
     ScanReport {
+        warning: None,
         format: REPORT_FORMAT,
         tool: ToolInfo {
             name: "telltale".into(),
@@ -293,6 +342,7 @@ pub fn build_with(
         },
         archive,
         priors: priors_info,
+        rarity: priors.rarity,
         attributes,
         items,
         unmatched,

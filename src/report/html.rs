@@ -10,7 +10,7 @@ use std::io::{self, Write};
 
 use super::build::{AttributeReport, ScanReport};
 use crate::cautions::TITLE;
-use crate::reading::percent;
+use crate::reading::{percent, rarity_note};
 use crate::text::truncate_to_width;
 
 /// The policy: nothing may load, styles only from this page.
@@ -30,6 +30,7 @@ h2{font-size:1.2rem;margin:1.75rem 0 .5rem;border-bottom:1px solid var(--line)}
 h3{font-size:1.05rem;margin:0}
 .meta{color:var(--muted);font-size:.9rem}
 .note{border-left:4px solid var(--base);padding:.25rem .75rem;background:var(--card)}
+.private{border:2px solid currentColor;padding:.5rem .75rem;border-radius:.25rem}
 .cards{display:grid;grid-template-columns:repeat(auto-fit,minmax(17rem,1fr));gap:1rem}
 .card{background:var(--card);border-radius:.5rem;padding:.75rem 1rem}
 .head{display:flex;justify-content:space-between;align-items:baseline;gap:.5rem;flex-wrap:wrap}
@@ -92,8 +93,16 @@ pub fn write_html_with(
         "<meta name=\"viewport\" content=\"width=device-width, initial-scale=1\">"
     )?;
     writeln!(out, "<meta name=\"referrer\" content=\"no-referrer\">")?;
-    writeln!(out, "<title>{}</title>", escape(&title))?;
+    let private = if r.warning.is_some() { "PRIVATE: " } else { "" };
+    writeln!(out, "<title>{private}{}</title>", escape(&title))?;
     writeln!(out, "<style>{STYLE}</style>\n</head>\n<body>\n<main>")?;
+    if let Some(w) = &r.warning {
+        writeln!(
+            out,
+            "<p class=\"private\"><strong>{}</strong></p>",
+            escape(w)
+        )?;
+    }
     writeln!(out, "<h1>{}</h1>", escape(&title))?;
     let kinds: Vec<String> = r
         .archive
@@ -137,7 +146,9 @@ pub fn write_html_with(
     writeln!(
         out,
         "<p class=\"key\">Each chart shows the observer's probabilities for the most likely values (blue bars), \
-         the share of the population with that value (red mark), and your alert level (dashed line).</p>"
+         the share of the population with that value (red mark), and your alert level (dashed line; a short dashed \
+         mark on a bar is a rare value's own, lower level). {}</p>",
+        escape(&rarity_note(&r.rarity))
     )?;
     writeln!(out, "<div class=\"cards\">")?;
     for a in &r.attributes {
@@ -231,6 +242,16 @@ fn write_chart(a: &AttributeReport, out: &mut dyn Write) -> io::Result<()> {
         let label = truncate_to_width(&v.label, 16);
         let bar = (v.probability.clamp(0.0, 1.0) * track).max(1.0);
         let base_x = LABEL + v.base_rate.clamp(0.0, 1.0) * track;
+        if v.alert_level < a.threshold - 1e-9 {
+            // A rare value's own, lower level (the rarity rule).
+            let own_x = LABEL + v.alert_level.clamp(0.0, 1.0) * track;
+            writeln!(
+                out,
+                "<line class=\"limit\" x1=\"{own_x:.1}\" x2=\"{own_x:.1}\" y1=\"{:.1}\" y2=\"{:.1}\"/>",
+                y - 2.0,
+                y + 16.0
+            )?;
+        }
         writeln!(
             out,
             "<text x=\"0\" y=\"{:.1}\">{}</text>\

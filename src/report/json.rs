@@ -36,10 +36,12 @@ struct WithRows<'r, 'a> {
 impl Serialize for WithRows<'_, '_> {
     fn serialize<S: Serializer>(&self, serializer: S) -> Result<S::Ok, S::Error> {
         let ScanReport {
+            warning,
             format,
             tool,
             archive,
             priors,
+            rarity,
             attributes,
             items: _,
             unmatched,
@@ -49,11 +51,16 @@ impl Serialize for WithRows<'_, '_> {
             warnings,
             cautions,
         } = self.head;
-        let mut s = serializer.serialize_struct("ScanReport", 12)?;
+        let mut s = serializer.serialize_struct("ScanReport", 14)?;
+        match warning {
+            Some(w) => s.serialize_field("warning", w)?,
+            None => s.skip_field("warning")?,
+        }
         s.serialize_field("format", format)?;
         s.serialize_field("tool", tool)?;
         s.serialize_field("archive", archive)?;
         s.serialize_field("priors", priors)?;
+        s.serialize_field("rarity", rarity)?;
         s.serialize_field("attributes", attributes)?;
         s.serialize_field("items", self.rows)?;
         s.serialize_field("unmatched", unmatched)?;

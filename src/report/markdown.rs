@@ -4,7 +4,7 @@ use std::io::{self, Write};
 
 use super::build::ScanReport;
 use crate::cautions::TITLE;
-use crate::reading::percent;
+use crate::reading::{percent, rarity_note};
 
 /// Escape text for a Markdown table cell or line.
 fn esc(s: &str) -> String {
@@ -27,6 +27,9 @@ fn esc(s: &str) -> String {
 
 /// Write the Markdown report; `top` limits the item table.
 pub fn write_markdown(r: &ScanReport, top: usize, out: &mut dyn Write) -> io::Result<()> {
+    if let Some(w) = &r.warning {
+        writeln!(out, "> **{}**\n", esc(w))?;
+    }
     writeln!(out, "# What {} gives away\n", esc(&r.archive.name))?;
     writeln!(
         out,
@@ -88,6 +91,7 @@ pub fn write_markdown(r: &ScanReport, top: usize, out: &mut dyn Write) -> io::Re
         writeln!(out, "- **{}:** {}", esc(&a.label), esc(&a.reading))?;
     }
     writeln!(out)?;
+    writeln!(out, "{}\n", esc(&rarity_note(&r.rarity)))?;
 
     writeln!(out, "## Items that give the most away\n")?;
     let shown: Vec<_> = r

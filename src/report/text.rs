@@ -6,7 +6,7 @@ use std::io::{self, Write};
 
 use super::build::ScanReport;
 use crate::cautions::TITLE;
-use crate::reading::percent;
+use crate::reading::{percent, rarity_note};
 use crate::text::{display_width, pad_to_width, truncate_to_width, wrap_words};
 
 /// How to render text.
@@ -73,6 +73,9 @@ fn bar(p: f64, base: f64, width: usize) -> String {
 /// Write the text report.
 pub fn write_text(r: &ScanReport, opts: TextOptions, out: &mut dyn Write) -> io::Result<()> {
     let p = Paint(opts.colour);
+    if let Some(w) = &r.warning {
+        writeln!(out, "{}\n", p.bold(&wrap_words(w, 78, "")))?;
+    }
     writeln!(out, "{}", p.bold("telltale: what your archive gives away"))?;
     let kinds: Vec<String> = r
         .archive
@@ -146,6 +149,7 @@ pub fn write_text(r: &ScanReport, opts: TextOptions, out: &mut dyn Write) -> io:
         "{}",
         p.dim("  (bar: █ the guess's probability, | the population rate)")
     )?;
+    writeln!(out, "{}", wrap_words(&rarity_note(&r.rarity), 76, "  "))?;
     writeln!(out)?;
 
     let shown: Vec<_> = r

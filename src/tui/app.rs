@@ -45,6 +45,29 @@ pub struct App {
 }
 
 impl App {
+    /// The decisions to save: the session's, with the plan's goal.
+    pub fn decisions(&self) -> telltale::decisions::Decisions {
+        let mut d = self.session.decisions();
+        d.goal = Some(
+            match self.goal {
+                Goal::BestGuess => telltale::decisions::GOAL_BEST_GUESS,
+                Goal::RealValue => telltale::decisions::GOAL_REAL_VALUE,
+            }
+            .to_string(),
+        );
+        d
+    }
+
+    /// Take up a saved goal. "My real value" stays chosen even when the real values
+    /// themselves were not saved: attributes without a stated value fall back to the
+    /// best guess until the person states it again.
+    pub fn restore_goal(&mut self, saved: Option<&str>) {
+        self.goal = match saved {
+            Some(telltale::decisions::GOAL_REAL_VALUE) => Goal::RealValue,
+            _ => Goal::BestGuess,
+        };
+    }
+
     pub fn new(session: Session) -> App {
         let mut app = App {
             session,
@@ -422,7 +445,10 @@ impl App {
                     Goal::BestGuess => Goal::RealValue,
                     Goal::RealValue => Goal::BestGuess,
                 };
-                return self.plan_effects();
+                // The goal is a decision like the others: saved, restored on reopening.
+                let mut fx = self.plan_effects();
+                fx.push(Effect::SaveDecisions);
+                return fx;
             }
             Action::AcceptPlan => {
                 let Some(result) = self.current_plan() else {

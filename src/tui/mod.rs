@@ -22,3 +22,5 @@ pub use terminal::interactive;
 
 #[cfg(test)]
 mod tests;
+#[cfg(test)]
+mod tests_private;

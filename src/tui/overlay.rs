@@ -131,9 +131,12 @@ impl App {
                         self.overlay = None;
                         let value = cursor.checked_sub(1);
                         if self.session.set_real_value(attribute, value) {
-                            self.status = Some(
-                                "Saved on this computer only; it never goes into a report.".into(),
-                            );
+                            self.status = Some(if self.session.remembers_real_values() {
+                                "Saved on this computer only, as you asked; never in a report."
+                            } else {
+                                "Not saved: kept until you quit (--remember-real-values saves it)."
+                            }
+                            .into());
                             return self.changed();
                         }
                     }

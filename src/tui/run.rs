@@ -33,6 +33,12 @@ pub struct Options {
     /// lists); its error ends the explorer like any load error.
     pub input: Box<dyn FnOnce() -> Result<ScanInput> + Send>,
     pub priors: Option<PathBuf>,
+    /// The rarity part of the alert rule, from the command line.
+    pub rarity: telltale::alert::Rarity,
+    /// Workshop mode: restore nothing, save nothing, show the cautions first.
+    pub no_save: bool,
+    /// Save real values with the other decisions (the person asked).
+    pub remember_real_values: bool,
 }
 
 /// Where the loading worker is, for the loading screen.
@@ -84,6 +90,7 @@ fn load(opts: Options, tx: &mpsc::Sender<LoadMsg>) -> Result<Ready> {
     stage(Stage::Priors);
     let input = (opts.input)()?;
     let mut priors = load_priors(opts.priors.as_deref()).context("cannot use the priors")?;
+    priors.rarity = opts.rarity;
     let mut last: Option<(Instant, bool)> = None;
     let scan = Scan::run_with_progress(&input, &mut priors, &mut |done, total| {
         // The import reports after each file; once all bytes are in, scoring starts.
@@ -100,10 +107,30 @@ fn load(opts: Options, tx: &mpsc::Sender<LoadMsg>) -> Result<Ready> {
     // The evidence is gathered: the parsed lexicons are not needed again this session.
     telltale::lexicon::release_bundled();
     stage(Stage::Opening);
+    let fingerprint = scan.footprint.fingerprint.clone();
+    if opts.no_save {
+        // Nothing is read from or written to the data folder: not the decisions, not
+        // the note that the cautions were shown (so they open every run).
+        let session = Session::open(
+            scan,
+            priors,
+            &telltale::decisions::Decisions::new(&fingerprint),
+        );
+        let mut app = App::new(session);
+        app.show_cautions_first();
+        app.status = Some(
+            "Nothing is saved in this mode (--no-save): your marks and values end when you quit."
+                .into(),
+        );
+        return Ok(Ready {
+            app,
+            store: Err(telltale::decisions::Error::NoSave),
+            can_save: false,
+        });
+    }
     let store = Store::locate();
     let mut notes = Vec::new();
     let mut can_save = true;
-    let fingerprint = scan.footprint.fingerprint.clone();
     let (saved, restored) = match &store {
         Ok(store) => {
             let loaded = store.load(&fingerprint);
@@ -119,8 +146,12 @@ fn load(opts: Options, tx: &mpsc::Sender<LoadMsg>) -> Result<Ready> {
             (telltale::decisions::Decisions::new(&fingerprint), false)
         }
     };
-    let session = Session::open(scan, priors, &saved);
+    let mut session = Session::open(scan, priors, &saved);
+    if opts.remember_real_values {
+        session.set_remember_real_values(true);
+    }
     let mut app = App::new(session);
+    app.restore_goal(saved.goal.as_deref());
     if let Ok(s) = &store
         && !s.cautions_seen()
     {
@@ -128,7 +159,7 @@ fn load(opts: Options, tx: &mpsc::Sender<LoadMsg>) -> Result<Ready> {
     }
     if restored && app.session.hidden_count() + app.session.kept_count() > 0 {
         app.status = Some(format!(
-            "Restored your saved decisions: {} hidden, {} kept.",
+            "Restored your saved decisions: {} hidden, {} kept. (telltale forget ARCHIVE removes them.)",
             app.session.hidden_count(),
             app.session.kept_count()
         ));
@@ -268,7 +299,7 @@ pub fn run(opts: Options) -> Result<()> {
         }
         if std::mem::take(&mut save_pending)
             && let (Ok(store), true) = (&store, can_save)
-            && let Err(e) = store.save(&app.session.decisions())
+            && let Err(e) = store.save(&app.decisions())
         {
             app.status = Some(e.to_string());
             dirty = true;
@@ -356,7 +387,7 @@ pub fn run(opts: Options) -> Result<()> {
     }
     // Decisions are saved on every change; save once more in case the last save failed.
     if let (Ok(store), true) = (&store, can_save) {
-        let _ = store.save(&app.session.decisions());
+        let _ = store.save(&app.decisions());
     }
     drop(guard);
     match failed {
@@ -404,10 +435,13 @@ fn next_event(timeout: Duration) -> Wait {
 /// Write the report of the current state, with the hiding plan when one was worked
 /// out for it; returns the message for the footer.
 pub(super) fn export(app: &App, format: ExportFormat, path: &std::path::Path) -> String {
-    let report = app
+    let mut report = app
         .session
         .report(telltale::report::RowCount::First(EXPORT_TOP));
     let plan = app.current_plan().map(|p| &p.report);
+    // A plan aimed at the real values makes the whole document private: its warning
+    // goes first, before the scan's sections.
+    report.warning = plan.and_then(|p| p.warning.clone());
     let result = write_atomic(path, |w| match format {
         ExportFormat::Html => write_html_with(&report, EXPORT_TOP, w, &mut |out| match plan {
             Some(p) => plan::write_html_section(p, out),
@@ -427,8 +461,16 @@ pub(super) fn export(app: &App, format: ExportFormat, path: &std::path::Path) ->
     } else {
         " (no hiding plan: none worked out for the current marks; open screen 3 first)"
     };
+    let private = if report.warning.is_some() {
+        " It was made knowing your real values: keep it to yourself."
+    } else {
+        ""
+    };
     match result {
-        Ok(()) => format!("Wrote {}{with}, readable by you only.", shown.display()),
+        Ok(()) => format!(
+            "Wrote {}{with}, readable by you only.{private}",
+            shown.display()
+        ),
         Err(e) => format!("Could not write {}: {e}", shown.display()),
     }
 }

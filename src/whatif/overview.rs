@@ -3,8 +3,9 @@
 //! tallies, so it can be redrawn after every key press.
 
 use super::session::Session;
+use crate::alert::Flag;
 use crate::evidence::Subject;
-use crate::reading::{Level, attribute_sentence, level};
+use crate::reading::{Level, assess};
 
 /// What the overview shows for one attribute.
 #[derive(Debug, Clone, PartialEq)]
@@ -18,6 +19,8 @@ pub struct AttributeSummary {
     /// The person's alert level for this attribute.
     pub target: f64,
     pub level: Level,
+    /// The value the alert rule counts as exposed (the best guess, or a rarer value).
+    pub flag: Option<Flag>,
     /// One sentence in plain words.
     pub reading: String,
     /// Visible pieces of evidence feeding it.
@@ -48,15 +51,17 @@ pub fn overview(s: &Session) -> Vec<AttributeSummary> {
             let target = s.target(a);
             let guess = attr.values[post.best].label.clone();
             let baseline = s.baseline(a);
+            let verdict = assess(attr, &post.probs, target, &s.priors.rarity);
             AttributeSummary {
                 attribute: a,
                 label: attr.label.clone(),
-                reading: attribute_sentence(&attr.label, &guess, post.probability, base, target),
+                reading: verdict.reading,
                 guess_label: guess,
                 probability: post.probability,
                 base_rate: base,
                 target,
-                level: level(post.probability, base, target),
+                level: verdict.level,
+                flag: verdict.flag,
                 feeding: x.feeding(a),
                 supporting: x.pointing_to(a, posteriors[a].best),
                 only_friend_list: x.feeding(a) == 1

@@ -65,7 +65,7 @@ impl PlanAsk {
     pub fn request(&self, s: &Session, cancel: Arc<AtomicBool>) -> PlanRequest {
         let mut req = PlanRequest::for_footprint(&s.priors, s.footprint());
         for (a, &t) in self.targets.iter().enumerate() {
-            req.set_threshold(a, t);
+            req.set_alert_level(&s.priors, a, t);
             if let Some(v) = self.true_values.get(a).copied().flatten() {
                 req.set_true_value(a, v);
             }

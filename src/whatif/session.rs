@@ -45,6 +45,8 @@ pub struct Session {
     /// Name keys of the items (then the friend list), made on first search or sort by
     /// name and kept: the footprint does not change during a session.
     name_keys: std::sync::OnceLock<Vec<String>>,
+    /// Whether real values go into the saved decisions (the person asked).
+    remember_real_values: bool,
 }
 
 /// Changed subjects listed one by one at most; beyond this, "everything changed".
@@ -87,6 +89,7 @@ impl Session {
             kept_n: 0,
             changed: Some(Vec::new()),
             name_keys: std::sync::OnceLock::new(),
+            remember_real_values: saved.remember_real_values,
             scan,
             priors,
         };
@@ -363,8 +366,18 @@ impl Session {
         !self.undo.is_empty()
     }
 
-    /// The decisions to save: current marks, real values and changed alert levels,
-    /// plus saved marks for items this import did not have.
+    /// Save real values with the other decisions (the person asked for it).
+    pub fn set_remember_real_values(&mut self, on: bool) {
+        self.remember_real_values = on;
+    }
+
+    /// Whether real values are saved with the other decisions.
+    pub fn remembers_real_values(&self) -> bool {
+        self.remember_real_values
+    }
+
+    /// The decisions to save: current marks, changed alert levels and (only when the
+    /// person asked) real values, plus saved marks for items this import did not have.
     pub fn decisions(&self) -> Decisions {
         let mut d = self.unmatched.clone();
         for s in self.subjects().collect::<Vec<_>>() {
@@ -372,8 +385,16 @@ impl Session {
                 d.marks.insert(subject_key(&self.scan.footprint, s), m);
             }
         }
+        // Real values are saved only when the person asked for it; otherwise even
+        // values restored from an older file are left out of the next save.
+        if !self.remember_real_values {
+            d.real_values.clear();
+        }
+        d.remember_real_values = self.remember_real_values;
         for (ai, attr) in self.priors.attributes.iter().enumerate() {
-            if let Some(v) = self.real_values[ai] {
+            if let Some(v) = self.real_values[ai]
+                && self.remember_real_values
+            {
                 d.real_values
                     .insert(attr.id.clone(), attr.values[v].id.clone());
             }
@@ -384,17 +405,20 @@ impl Session {
         d
     }
 
-    /// The report of the current state (hidden items count as hidden). Real values
-    /// are never part of it.
-    /// `rows` says how many item rows it holds.
+    /// The report of the current state (hidden items count as hidden; real values
+    /// are never part of it), with the person's alert levels (the ones
+    /// the plan screen uses), so an exported document has one set throughout; `rows`
+    /// says how many item rows it holds.
     pub fn report(&self, rows: report::RowCount) -> ScanReport {
-        report::build_with(
+        let mut r = report::build_with(
             &self.scan.archive_name,
             &self.scan.footprint,
             &self.priors,
             &self.scan.exposure,
             rows,
-        )
+        );
+        r.set_alert_levels(&self.priors, &self.targets);
+        r
     }
 }
 
@@ -450,14 +474,28 @@ pub(crate) mod tests {
         s.toggle_kept(Subject::Item(5));
         s.set_real_value(0, Some(2));
         s.set_target(1, 0.3);
+        // Real values are not saved unless the person asks.
+        let unasked = s.decisions();
+        assert!(unasked.real_values.is_empty() && !unasked.remember_real_values);
+        let reopened = Session::open(s.scan.clone(), s.priors.clone(), &unasked);
+        assert_eq!(reopened.real_value(0), None);
+        s.set_remember_real_values(true);
         let saved = s.decisions();
         assert_eq!(saved.marks.len(), 2);
         let reopened = Session::open(s.scan.clone(), s.priors.clone(), &saved);
         assert!(reopened.is_hidden(Subject::Item(3)));
         assert!(reopened.is_kept(Subject::Item(5)));
         assert_eq!(reopened.real_value(0), Some(2));
+        assert!(reopened.remembers_real_values());
         assert!((reopened.target(1) - 0.3).abs() < 1e-12);
         assert_eq!(reopened.decisions(), saved);
+        // A file from before the question (real values, no consent recorded): they are
+        // used this session and left out of the next save.
+        let mut old = saved.clone();
+        old.remember_real_values = false;
+        let reopened = Session::open(s.scan.clone(), s.priors.clone(), &old);
+        assert_eq!(reopened.real_value(0), Some(2));
+        assert!(reopened.decisions().real_values.is_empty());
     }
 
     #[test]

@@ -1,4 +1,5 @@
-"""Write the malformed-archive corpus under tests/corpus/.
+"""Write the malformed-input corpus under tests/corpus/: broken and hostile archives,
+mappings and reference priors files.
 
 Each case is a folder with the archive (zip file or folder), a mapping, optionally a
 priors file, and case.toml saying how telltale is run on it and what its output must
@@ -199,5 +200,148 @@ d = case("bad-dates", ["likes.json, record 1, field 'date': 'next spring' is not
 os.makedirs(os.path.join(d, "archive"))
 write(os.path.join(d, "archive", "likes.json"),
       json.dumps({"likes": [{"title": "Weekend Pottery Fans", "at": "next spring"}]}))
+
+# ---- Hostile reference priors (each refusal names the file; item problems are warnings
+# naming the file, the item and the attribute, and the scan goes on).
+BASE_PRIORS = {
+    "format": 1,
+    "provenance": {"source": "corpus", "licence": "CC0-1.0", "created": "2026-12-04",
+                   "method": "hand-made for a test", "synthetic": True},
+    "attributes": [{"id": "politics", "label": "Political leaning", "threshold": 0.5,
+                    "values": [{"id": "left", "label": "Left", "base_rate": 0.5},
+                               {"id": "right", "label": "Right", "base_rate": 0.5}]}],
+    "items": [{"id": "p1", "name": "Weekend Pottery Fans", "kind": "like",
+               "members": {"politics": [10, 30]}}],
+}
+PRIORS_JSON = ["scan", "{archive}", "--mapping", "{mapping}", "--priors", "{priors}", "--format", "json"]
+
+
+def priors_case(name, expect, mutate, exit_code=0, args=None):
+    p = json.loads(json.dumps(BASE_PRIORS))
+    text = mutate(p)
+    d = case(name, expect, exit_code=exit_code, args=args or PRIORS_JSON,
+             priors=text if isinstance(text, str) else json.dumps(p))
+    os.makedirs(os.path.join(d, "archive"))
+    write(os.path.join(d, "archive", "likes.json"), GOOD_LIKES)
+    return d
+
+
+def set_counts(counts):
+    return lambda p: p["items"][0]["members"].__setitem__("politics", counts)
+
+
+# 20-37.
+priors_case("priors-huge-counts",
+            ["priors.json: items[0] ('Weekend Pottery Fans'): 'politics' has a count of 1e300, more members than any group can have; ignored"],
+            set_counts([1e300, 1e300]))
+priors_case("priors-negative-counts",
+            ["priors.json: items[0] ('Weekend Pottery Fans'): 'politics' has a count below 0 (-4); taken as 0", '"best_guess": "right"'],
+            set_counts([-4, 30]))
+priors_case("priors-non-integer-counts", ['"best_guess": "right"', '"items_matched": 1'],
+            set_counts([2.5, 30.75]))
+priors_case("priors-wrong-length",
+            ["priors.json: items[0] ('Weekend Pottery Fans'): 'politics' has 3 counts for 2 values; ignored"],
+            set_counts([1, 2, 3]))
+priors_case("priors-duplicate-ids",
+            ["priors.json: items[1] ('Weekend Pottery Fans'): the id 'p1' is listed twice; the later entry is ignored"],
+            lambda p: p["items"].append(json.loads(json.dumps(p["items"][0]))))
+priors_case("priors-duplicate-values", ["priors.json", "the value 'left' is listed twice"],
+            lambda p: p["attributes"][0]["values"].append({"id": "left", "label": "Left again", "base_rate": 0.1}),
+            exit_code=1)
+priors_case("priors-zero-rate", ["priors.json", "value 'left' has base_rate 0; base rates must be above 0"],
+            lambda p: p["attributes"][0]["values"][0].__setitem__("base_rate", 0.0), exit_code=1)
+priors_case("priors-subnormal-rate", ['"best_guess": "right"'],
+            lambda p: (p["attributes"][0]["values"][0].__setitem__("base_rate", 5e-324),
+                       p["attributes"][0]["values"][1].__setitem__("base_rate", 1.0)))
+priors_case("priors-threshold-out-of-range", ["priors.json", "threshold 1.5 must be above 0 and at most 1"],
+            lambda p: p["attributes"][0].__setitem__("threshold", 1.5), exit_code=1)
+priors_case("priors-negative-threshold", ["priors.json", "threshold -0.2 must be above 0 and at most 1"],
+            lambda p: p["attributes"][0].__setitem__("threshold", -0.2), exit_code=1)
+priors_case("priors-not-a-number", ["priors.json: line 1", "number out of range"],
+            lambda p: json.dumps(p).replace("[10, 30]", "[1e999, 30]"), exit_code=1)
+priors_case("priors-deep-nesting", ["priors.json: line 1", "invalid type: sequence"],
+            lambda p: json.dumps(p).replace("[10, 30]", "[" * 100000 + "]" * 100000), exit_code=1)
+priors_case("priors-deep-provenance", ["priors.json: line 1", "invalid type"],
+            lambda p: '{"format": 1, "provenance": {"source": ' + "[" * 50000 + "]" * 50000 + "}}", exit_code=1)
+priors_case("priors-huge-string", ['"best_guess": "right"'],
+            lambda p: p["items"].append({"name": "x" * (2 << 20), "members": {"politics": [1, 1]}}))
+priors_case("priors-truncated", ["priors.json: line 1, column 200", "EOF while parsing"],
+            lambda p: json.dumps(p)[:200], exit_code=1)
+priors_case("priors-no-attributes", ["priors.json", "no attributes: the file must list at least one"],
+            lambda p: p.__setitem__("attributes", []), exit_code=1)
+priors_case("priors-shares-negative-n",
+            ["priors.json: items[0] ('Weekend Pottery Fans'): 'politics' has a count below 0"],
+            set_counts({"shares": [0.5, 0.5], "n": -10}))
+
+
+def many_values(p):
+    n = 100000
+    p["attributes"][0]["values"] = [{"id": str(i), "label": "v", "base_rate": 1.0 / n} for i in range(n)]
+    p["items"] = []
+
+
+priors_case("priors-100000-values", ['"best_guess": "0"'], many_values)
+
+# ---- Hostile mappings.
+d = case("mapping-deep-toml", ["mapping.toml: line 2", "not valid TOML: cannot recurse further"], exit_code=1,
+         mapping="format = 1\nx = " + "[" * 100000 + "]" * 100000 + "\n")
+os.makedirs(os.path.join(d, "archive"))
+write(os.path.join(d, "archive", "likes.json"), GOOD_LIKES)
+
+d = case("mapping-thousands-of-sources", ["Weekend Pottery Fans"], args=JSON,
+         mapping="format = 1\n" + "".join(
+             f'[[source]]\nkind = "like"\nfiles = ["nothing-{i}/*.json"]\nname = "$.title"\n' for i in range(2000))
+         + LIKES_MAPPING.replace("format = 1\n", ""))
+os.makedirs(os.path.join(d, "archive"))
+write(os.path.join(d, "archive", "likes.json"), GOOD_LIKES)
+
+d = case("mapping-pathological-jsonpath", ["likes.json, record 1, field 'name': no name; record skipped", "Weekend Pottery Fans"], args=JSON,
+         mapping='format = 1\n[[source]]\nkind = "like"\nfiles = ["likes.json"]\nrecords = "$..*..*..*..*..*..*"\nname = "$.title"\n')
+os.makedirs(os.path.join(d, "archive"))
+write(os.path.join(d, "archive", "likes.json"), json.dumps({"likes": [[[[[[{"title": "Weekend Pottery Fans"}]]]]] for _ in range(200)]}))
+
+# ---- Hostile archives.
+d = case("archive-absolute-names", ["Weekend Pottery Fans"], args=JSON)
+write(os.path.join(d, "archive.zip"), zip_bytes([("/etc/likes.json", GOOD_LIKES)]))
+
+d = case("archive-duplicate-names", ['"files_read": 1'], args=JSON)
+write(os.path.join(d, "archive.zip"), zip_bytes([("likes.json", GOOD_LIKES), ("likes.json", GOOD_LIKES.replace("Weekend", "Midweek"))]))
+
+
+def symlink_zip(name, target):
+    buf = io.BytesIO()
+    with zipfile.ZipFile(buf, "w") as z:
+        info = zipfile.ZipInfo(name, date_time=(2026, 11, 30, 0, 0, 0))
+        info.create_system = 3
+        info.external_attr = (0o120777 << 16)
+        z.writestr(info, target)
+        ok = zipfile.ZipInfo("open/likes.json", date_time=(2026, 11, 30, 0, 0, 0))
+        z.writestr(ok, GOOD_LIKES)
+    return buf.getvalue()
+
+
+d = case("archive-symlink-entry", ["secret.json, line 1: not valid JSON", "Weekend Pottery Fans"], args=JSON)
+write(os.path.join(d, "archive.zip"), symlink_zip("secret.json", "/etc/passwd"))
+
+d = case("archive-lying-sizes", ["likes.json: cannot read: File is larger than its declared uncompressed size; file skipped"], args=JSON)
+z = bytearray(zip_bytes([("likes.json", GOOD_LIKES * 20)]))
+central = z.find(b"PK\x01\x02")
+struct.pack_into("<I", z, central + 24, 10)  # uncompressed size: 10 bytes
+local = z.find(b"PK\x03\x04")
+struct.pack_into("<I", z, local + 22, 10)
+write(os.path.join(d, "archive.zip"), bytes(z))
+
+d = case("archive-lying-sizes-huge", ["likes.json: over the limit on decompressed size of one mapped entry", "--limit entry-bytes="], exit_code=1, args=JSON)
+z = bytearray(zip_bytes([("likes.json", GOOD_LIKES)]))
+central = z.find(b"PK\x01\x02")
+struct.pack_into("<I", z, central + 24, 0xFFFFFFF0)
+local = z.find(b"PK\x03\x04")
+struct.pack_into("<I", z, local + 22, 0xFFFFFFF0)
+write(os.path.join(d, "archive.zip"), bytes(z))
+
+d = case("folder-symlink-outside", ["etc-link: symbolic link not followed; left out", "Weekend Pottery Fans"], args=JSON)
+os.makedirs(os.path.join(d, "archive"))
+write(os.path.join(d, "archive", "likes.json"), GOOD_LIKES)
+os.symlink("/etc", os.path.join(d, "archive", "etc-link"))
 
 print("corpus written to", ROOT)
