@@ -22,7 +22,7 @@ fn root() -> PathBuf {
 }
 
 fn session(persona: &str) -> Session {
-    let mut priors = load_priors(None).unwrap();
+    let priors = load_priors(None).unwrap();
     let input = ScanInput {
         archive: root().join("demo-exports").join(persona),
         ..ScanInput::default()
