@@ -10,8 +10,16 @@ use super::place_cues::PlaceCues;
 use super::vocabulary::Vocabulary;
 
 pub const GAZETTEER_TSV: &str = include_str!("../../reference-priors/lexicons/gazetteer.tsv");
-/// The gazetteer's name keys, worked out by build.rs (one line per line of the file).
+/// The gazetteer's name keys, worked out by build.rs (one line per line of the file);
+/// the tests check them, and the tables below, against the run-time name key.
+#[cfg(test)]
 pub const GAZETTEER_KEYS: &str = include_str!(concat!(env!("OUT_DIR"), "/gazetteer-keys.txt"));
+/// The gazetteer's names as a phrase-key table, laid out by build.rs.
+pub static GAZETTEER_NAMES: &[u8] =
+    include_bytes!(concat!(env!("OUT_DIR"), "/gazetteer-names.bin"));
+/// The gazetteer's towns, laid out by build.rs.
+pub static GAZETTEER_TOWNS: &[u8] =
+    include_bytes!(concat!(env!("OUT_DIR"), "/gazetteer-towns.bin"));
 pub const COMMON_WORDS_TXT: &str = include_str!("../../reference-priors/lexicons/common-words.txt");
 pub const LIFE_STAGES_TOML: &str = include_str!("../../reference-priors/lexicons/life-stages.toml");
 pub const VOCABULARY_TOML: &str = include_str!("../../reference-priors/lexicons/vocabulary.toml");
@@ -54,14 +62,21 @@ pub fn release() {
 /// The bundled gazetteer (GeoNames, CC BY 4.0).
 pub fn gazetteer() -> Arc<Gazetteer> {
     GAZETTEER.get_or(|| {
-        // The bundled file is checked by the tests below; it cannot fail at run time.
-        Gazetteer::parse_keyed(
+        // The tables build.rs laid out are read in place; the tests below check them
+        // against parsing the text, which is the fallback should they not fit.
+        Gazetteer::from_tables(
             GAZETTEER_TSV,
-            GAZETTEER_KEYS,
+            GAZETTEER_NAMES,
+            GAZETTEER_TOWNS,
             COMMON_WORDS_TXT,
             "gazetteer.tsv (bundled)",
         )
-        .expect("the bundled gazetteer parses")
+        .unwrap_or_else(|| {
+            // The bundled file is checked by the tests below; it cannot fail at run time.
+            // (Folding the names here is slow, but only a broken build gets here.)
+            Gazetteer::parse(GAZETTEER_TSV, COMMON_WORDS_TXT, "gazetteer.tsv (bundled)")
+                .expect("the bundled gazetteer parses")
+        })
     })
 }
 
@@ -127,8 +142,7 @@ mod tests {
             let line_keys = keys.next().expect("a keys line for every gazetteer line");
             let fields: Vec<&str> = line.split('\t').collect();
             let names: Vec<&str> = match fields.as_slice() {
-                ["C" | "R", _, _, name] => vec![name],
-                ["P", _, _, _, names] => names.split('|').collect(),
+                ["C" | "R", _, _, names] | ["P", _, _, _, names] => names.split('|').collect(),
                 _ => Vec::new(),
             };
             let expected: Vec<String> = names.iter().map(|n| crate::text::name_key(n)).collect();
@@ -136,8 +150,9 @@ mod tests {
             names_checked += names.len();
         }
         assert!(keys.next().is_none());
-        assert!(names_checked > 80_000, "{names_checked}");
-        let keyed = gazetteer();
+        assert!(names_checked > 200_000, "{names_checked}");
+        let keyed =
+            Gazetteer::parse_keyed(GAZETTEER_TSV, GAZETTEER_KEYS, COMMON_WORDS_TXT, "g").unwrap();
         let folded = Gazetteer::parse(GAZETTEER_TSV, COMMON_WORDS_TXT, "g").unwrap();
         assert_eq!(keyed.names(), folded.names());
         for text in [
@@ -146,6 +161,49 @@ mod tests {
             "São Paulo runners",
         ] {
             assert_eq!(keyed.find_in(text), folded.find_in(text), "{text}");
+        }
+    }
+
+    /// The tables build.rs laid out, read in place, hold what parsing the text gives:
+    /// the same countries, regions, region codes and towns, and every name of every
+    /// line finds the same places.
+    #[test]
+    fn build_time_tables_are_the_parsed_file() {
+        let tables = Gazetteer::from_tables(
+            GAZETTEER_TSV,
+            GAZETTEER_NAMES,
+            GAZETTEER_TOWNS,
+            COMMON_WORDS_TXT,
+            "g",
+        )
+        .expect("the laid-out tables fit the text");
+        let parsed = Gazetteer::parse(GAZETTEER_TSV, COMMON_WORDS_TXT, "g").unwrap();
+        assert_eq!(tables.countries, parsed.countries);
+        assert_eq!(tables.regions, parsed.regions);
+        assert_eq!(tables.region_codes, parsed.region_codes);
+        assert_eq!(tables.city_count(), parsed.city_count());
+        assert!(tables.city_count() > 100_000);
+        for i in 0..tables.city_count() as u32 {
+            assert_eq!(tables.city(i), parsed.city(i), "town {i}");
+        }
+        assert_eq!(tables.names(), parsed.names());
+        let mut looked_up = 0;
+        for line in GAZETTEER_TSV.lines().filter(|l| !l.starts_with('#')) {
+            for name in line.rsplit('\t').next().unwrap_or("").split('|') {
+                assert_eq!(tables.lookup(name), parsed.lookup(name), "{name}");
+                looked_up += 1;
+            }
+        }
+        assert!(looked_up > 200_000, "{looked_up}");
+        for text in [
+            "Friends of Portland, Oregon",
+            "東京ラーメン部 and 大阪 walkers",
+            "Lagos Island market women",
+            "Bürgerverein Köln-Ehrenfeld",
+            "نادي القاهرة للجري",
+            "ชมรมวิ่งเชียงใหม่",
+        ] {
+            assert_eq!(tables.find_in(text), parsed.find_in(text), "{text}");
         }
     }
 }

@@ -4,6 +4,10 @@
 //! two heap blocks apiece. The proper prefixes of the keys (whole tokens at a time)
 //! live in the same table, marked, so that matching a run of tokens needs one lookup
 //! to learn both whether it is a key and whether it can still grow into one.
+//!
+//! A table can also be read in place from bytes laid out at build time
+//! ([`super::key_image`]; the bundled gazetteer): then it is read-only and only its
+//! values are decoded when it is made.
 
 use std::hash::BuildHasher;
 
@@ -65,6 +69,9 @@ pub struct KeyTable<T> {
     hasher: FixedState,
     /// Keys that carry values (not only prefixes).
     with_values: usize,
+    /// A table laid out at build time, with its values decoded; when set, the table
+    /// is read-only and the fields above stay empty.
+    image: Option<(super::key_image::View<'static>, Vec<T>)>,
 }
 
 impl<T> Default for KeyTable<T> {
@@ -78,14 +85,40 @@ impl<T> Default for KeyTable<T> {
             // user-written lists, not from an adversary choosing collisions).
             hasher: FixedState::with_seed(0x7e11_7a1e),
             with_values: 0,
+            image: None,
         }
     }
 }
 
 impl<T> KeyTable<T> {
+    /// A read-only table over bytes laid out by [`super::key_image::build`], each
+    /// value decoded once; `None` when the bytes are not such a table or a value does
+    /// not decode.
+    pub fn from_image(bytes: &'static [u8], decode: impl Fn(u32) -> Option<T>) -> Option<Self> {
+        let view = super::key_image::View::new(bytes)?;
+        let values = (0..view.values)
+            .map(|i| decode(view.value(i)))
+            .collect::<Option<Vec<T>>>()?;
+        Some(KeyTable {
+            image: Some((view, values)),
+            ..KeyTable::default()
+        })
+    }
+
+    /// The image's header figures (most tokens in a key, longest key of unspaced
+    /// script in characters), for a table read from bytes.
+    pub fn image_limits(&self) -> Option<(usize, usize)> {
+        self.image
+            .as_ref()
+            .map(|(v, _)| (v.max_tokens, v.max_unspaced_chars))
+    }
+
     /// Number of keys that carry values.
     pub fn len(&self) -> usize {
-        self.with_values
+        match &self.image {
+            Some((view, _)) => view.with_values,
+            None => self.with_values,
+        }
     }
 
     fn position(&self, key: &str) -> Option<usize> {
@@ -120,8 +153,13 @@ impl<T> KeyTable<T> {
     }
 
     /// Add a value under a key, and mark the key's proper prefixes. Keys are whole
-    /// names (a lexicon line); the table holds at most 4 GiB of key text.
+    /// names (a lexicon line); the table holds at most 4 GiB of key text. A table read
+    /// from bytes is read-only: inserting into it does nothing.
     pub fn insert(&mut self, key: &str, value: T) {
+        if self.image.is_some() {
+            debug_assert!(false, "insert into a read-only key table");
+            return;
+        }
         for (at, _) in key.match_indices(' ') {
             self.entry(&key[..at]).len_prefix |= PREFIX;
         }
@@ -149,6 +187,13 @@ impl<T> KeyTable<T> {
 
     /// The values under a key and whether it is the start of a longer key.
     pub fn lookup(&self, key: &str) -> Option<Found<'_, T>> {
+        if let Some((view, values)) = &self.image {
+            let (prefix, range) = view.find(key)?;
+            return Some(Found {
+                values: values.get(range).unwrap_or(&[]),
+                prefix,
+            });
+        }
         let k = &self.keys[self.position(key)?];
         let values = match &k.values {
             Values::None => &[][..],
@@ -236,11 +281,21 @@ mod tests {
             }
             table.shrink_to_fit();
             prop_assert_eq!(table.len(), map.len());
+            // The same keys laid out as bytes (as build.rs lays out the gazetteer)
+            // and read in place give the same answers.
+            let laid: Vec<(String, u32)> =
+                entries.iter().map(|(k, v)| (k.clone(), u32::from(*v))).collect();
+            let bytes: &'static [u8] =
+                Box::leak(crate::lexicon::key_image::build(&laid, |_| false).into_boxed_slice());
+            let image = KeyTable::from_image(bytes, |v| u8::try_from(v).ok()).unwrap();
+            prop_assert_eq!(image.len(), map.len());
             for key in probes.iter().chain(map.keys()).chain(prefixes.iter()) {
                 let expected = map.get(key).map(Vec::as_slice).unwrap_or(&[]);
                 prop_assert_eq!(table.get(key), expected);
                 let is_prefix = table.lookup(key).is_some_and(|f| f.prefix);
                 prop_assert_eq!(is_prefix, prefixes.contains(key));
+                prop_assert_eq!(image.get(key), expected);
+                prop_assert_eq!(image.lookup(key).is_some_and(|f| f.prefix), is_prefix);
             }
         }
     }

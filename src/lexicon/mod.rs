@@ -7,6 +7,7 @@
 mod bundled;
 mod error;
 mod gazetteer;
+mod key_image;
 mod keys;
 mod life_stages;
 mod phrase;
@@ -19,7 +20,7 @@ pub use bundled::{
     place_cues as bundled_place_cues, release as release_bundled, vocabulary as bundled_vocabulary,
 };
 pub use error::{Error, Result};
-pub use gazetteer::{Candidate, City, Country, Gazetteer, Mention, PlaceRef, Region};
+pub use gazetteer::{Candidate, City, CityRef, Country, Gazetteer, Mention, PlaceRef, Region};
 pub use life_stages::{LifeStages, Rule, Stage, StageMatch};
 pub use phrase::{Hit, Pattern, PhraseIndex, YearToken, is_unspaced, tokens};
 pub use place_cues::{CueKind, PlaceCues, PlaceRole, Strengths};

@@ -237,6 +237,19 @@ impl<T> PhraseIndex<T> {
         self.exact.insert(key, value);
     }
 
+    /// A read-only index of plain phrases over a key table laid out at build time
+    /// ([`super::key_image`]); `None` when the bytes are not such a table.
+    pub fn from_image(bytes: &'static [u8], decode: impl Fn(u32) -> Option<T>) -> Option<Self> {
+        let exact = KeyTable::from_image(bytes, decode)?;
+        let (max_tokens, max_unspaced_chars) = exact.image_limits()?;
+        Some(PhraseIndex {
+            exact,
+            max_tokens,
+            max_unspaced_chars,
+            ..PhraseIndex::default()
+        })
+    }
+
     /// Release the room kept for growth (after the last insert).
     pub fn shrink_to_fit(&mut self) {
         self.exact.shrink_to_fit();
