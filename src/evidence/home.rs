@@ -173,7 +173,7 @@ impl LevelValues {
         into.clear();
         if coarse && self.level == Level::Region {
             let country = match place {
-                PlaceRef::City(t) => Some(g.cities[t as usize].country),
+                PlaceRef::City(t) => g.city(t).map(|c| c.country),
                 PlaceRef::Region(r) => region_country(g, r),
                 PlaceRef::Country(c) => Some(c),
             };
@@ -194,14 +194,14 @@ impl LevelValues {
                 }
             }
             (Level::Country, PlaceRef::City(t)) => {
-                let c = g.cities[t as usize].country;
+                let c = g.city(t).map_or(0, |c| c.country);
                 into.extend(one(Key::Country(c)).map(|v| (v, 1.0)));
             }
             (Level::Region, PlaceRef::Region(r)) => {
                 into.extend(one(Key::Region(r)).map(|v| (v, 1.0)));
             }
             (Level::Region, PlaceRef::City(t)) => {
-                if let Some(r) = g.cities[t as usize].region {
+                if let Some(r) = g.city(t).and_then(|c| c.region) {
                     into.extend(one(Key::Region(r)).map(|v| (v, 1.0)));
                 }
             }
@@ -248,7 +248,7 @@ impl Populations {
         let country: Vec<f64> = g.countries.iter().map(|c| c.population as f64).collect();
         let mut country_towns = vec![0.0; g.countries.len()];
         let mut region_towns = vec![0.0; g.region_codes.len()];
-        for c in &g.cities {
+        for c in (0..g.city_count() as u32).filter_map(|t| g.city(t)) {
             country_towns[c.country as usize] += c.population as f64;
             if let Some(r) = c.region {
                 region_towns[r as usize] += c.population as f64;
@@ -307,7 +307,9 @@ fn region_label(g: &Gazetteer, r: u32) -> String {
 }
 
 fn town_label(g: &Gazetteer, t: u32) -> String {
-    let city = &g.cities[t as usize];
+    let Some(city) = g.city(t) else {
+        return format!("town {t}");
+    };
     let country = &g.countries[city.country as usize].name;
     match city.region.and_then(|r| g.regions.get(r as usize)) {
         Some(region) => format!("{} ({}, {country})", city.name, region.name),
@@ -316,7 +318,9 @@ fn town_label(g: &Gazetteer, t: u32) -> String {
 }
 
 fn town_id(g: &Gazetteer, t: u32) -> String {
-    let city = &g.cities[t as usize];
+    let Some(city) = g.city(t) else {
+        return format!("town-{t}");
+    };
     let area = city
         .region
         .map(|r| g.region_codes[r as usize].clone())
@@ -464,7 +468,7 @@ pub fn fit_home_levels(
                 match p {
                     PlaceRef::City(t) => {
                         *town_weight.entry(t).or_default() += w;
-                        if let Some(r) = g.cities[t as usize].region {
+                        if let Some(r) = g.city(t).and_then(|c| c.region) {
                             *region_weight.entry(r).or_default() += w;
                         }
                     }
@@ -494,7 +498,7 @@ pub fn fit_home_levels(
         towns.sort_by(|a, b| b.1.total_cmp(&a.1).then(a.0.cmp(&b.0)));
         towns.truncate(TOWN_CAP);
         for (t, _) in towns {
-            let share = g.cities[t as usize].population as f64 / pops.world;
+            let share = g.city(t).map_or(0, |c| c.population) as f64 / pops.world;
             out.push(Some(Key::City(t)), town_id(g, t), town_label(g, t), share);
         }
         out.finish(true);
