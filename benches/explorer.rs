@@ -58,13 +58,13 @@ fn main() {
         println!("explorer: set TELLTALE_LARGE to an archive made by `telltale synth large`");
         return;
     };
-    let priors = load_priors(None).expect("the bundled priors load");
+    let mut priors = load_priors(None).expect("the bundled priors load");
     let input = ScanInput {
         archive,
         ..ScanInput::default()
     };
     let t = Instant::now();
-    let scan = match Scan::run(&input, &priors) {
+    let scan = match Scan::run(&input, &mut priors) {
         Ok(s) => s,
         Err(e) => {
             eprintln!("explorer: {e}");

@@ -107,7 +107,7 @@ fn main() {
     reset_peak();
     let t = Instant::now();
     // The cached priors from above, or (never writing a cache here) the JSON.
-    let priors = match loaded.map(Ok).unwrap_or_else(|| match &priors_path {
+    let mut priors = match loaded.map(Ok).unwrap_or_else(|| match &priors_path {
         Some(p) => Priors::load(p),
         None => load_priors(None),
     }) {
@@ -137,7 +137,7 @@ fn main() {
     let mut scan_times = Vec::new();
     for _ in 0..repeat {
         let t = Instant::now();
-        match Scan::run(&input, &priors) {
+        match Scan::run(&input, &mut priors) {
             Ok(scan) => std::hint::black_box(&scan),
             Err(e) => {
                 eprintln!("large: {e}");

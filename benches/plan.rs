@@ -122,7 +122,7 @@ fn exact(priors: &Priors, x: &Exposure) -> telltale::plan::PlanOutcome {
 }
 
 fn benches(c: &mut Criterion) {
-    let priors = load_priors(None).expect("bundled priors");
+    let mut priors = load_priors(None).expect("bundled priors");
     let mut g = c.benchmark_group("plan");
     g.sample_size(10);
     g.measurement_time(Duration::from_secs(10));
@@ -133,7 +133,7 @@ fn benches(c: &mut Criterion) {
             "bench".into(),
             "bench".into(),
             fp,
-            &priors,
+            &mut priors,
             &Sources::table_only(),
         );
         let o = exact(&priors, &scan.exposure);
@@ -156,13 +156,15 @@ fn benches(c: &mut Criterion) {
         archive: root.join("demo-exports/reporter"),
         ..ScanInput::default()
     };
-    let mut fp = Scan::run(&input, &priors).expect("demo archive").footprint;
+    let mut fp = Scan::run(&input, &mut priors)
+        .expect("demo archive")
+        .footprint;
     fp.items.truncate(60);
     let scan = Scan::from_footprint(
         "bench".into(),
         "bench".into(),
         fp,
-        &priors,
+        &mut priors,
         &Sources::table_only(),
     );
     g.bench_function("exact_60x4_reporter_first60", |b| {

@@ -60,10 +60,12 @@ impl Level {
 }
 
 /// Classify a best guess: over threshold → exposed; at least 1.5× the base rate (and
-/// 5 points above it) → leaning; else quiet (common practice, no source). This looks at
+/// 5 points above it) → leaning; else quiet (common practice, no source). A value at
+/// least as common in the population as the threshold is never exposed: guessing it
+/// needs no footprint (the "somewhere else" remainder of the home levels). This looks at
 /// the best guess and the alert level only; [`assess`] applies the whole alert rule.
 pub fn level(probability: f64, base_rate: f64, threshold: f64) -> Level {
-    if probability > threshold {
+    if probability > threshold && base_rate < threshold {
         Level::Exposed
     } else {
         leaning_or_quiet(probability, base_rate)

@@ -85,14 +85,19 @@ pub fn fingerprint(input: &ScanInput) -> Result<String, Error> {
 
 impl Scan {
     /// Import an archive and score it against the priors.
-    pub fn run(input: &ScanInput, priors: &Priors) -> Result<Scan, Error> {
+    ///
+    /// The priors' attributes are fitted to this footprint: the home place at three
+    /// levels (country, region, town) replaces the file's location attribute
+    /// ([`evidence::fit_home_levels`]); use the same `priors` for this scan's reports
+    /// and plans. A later scan with the same priors fits them anew.
+    pub fn run(input: &ScanInput, priors: &mut Priors) -> Result<Scan, Error> {
         Scan::run_with_progress(input, priors, &mut |_, _| {})
     }
 
     /// As [`Scan::run`], telling `progress(done, total)` in bytes while importing.
     pub fn run_with_progress(
         input: &ScanInput,
-        priors: &Priors,
+        priors: &mut Priors,
         progress: &mut dyn FnMut(u64, u64),
     ) -> Result<Scan, Error> {
         let mut archive = Archive::open(&input.archive, &input.limits)?;
@@ -108,6 +113,7 @@ impl Scan {
             scope.spawn(|| input.sources.prepare());
             import::import_with_progress(&mut archive, &mapping, &input.limits, progress)
         })?;
+        priors.restore_file_attributes();
         if let Some(path) = &input.friends_file {
             merge_friends_file(&mut footprint, path, priors)?;
         }
@@ -120,17 +126,28 @@ impl Scan {
         ))
     }
 
-    /// Score an already imported footprint.
+    /// Score an already imported footprint (fitting the priors' home levels to it, as
+    /// [`Scan::run`] says).
     pub fn from_footprint(
         archive_name: String,
         mapping_origin: String,
         mut footprint: Footprint,
-        priors: &Priors,
+        priors: &mut Priors,
         sources: &evidence::Sources,
     ) -> Scan {
+        priors.restore_file_attributes();
         check_attribute_names(&mut footprint, priors, &mapping_origin);
         crate::resident::trim();
-        let evidence = evidence::gather(&footprint, priors, sources);
+        let mut evidence = evidence::gather(&footprint, priors, sources);
+        if let Some(gazetteer) = sources
+            .places
+            .as_ref()
+            .filter(|_| sources.home_levels)
+            .map(evidence::Lexicon::get)
+        {
+            let cues = crate::lexicon::bundled_place_cues();
+            evidence = evidence::fit_home_levels(priors, evidence, &gazetteer, &cues);
+        }
         crate::resident::trim();
         let exposure = Exposure::new(priors, evidence);
         Scan {

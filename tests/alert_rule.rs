@@ -22,7 +22,7 @@ fn personas() -> Vec<PersonaManifest> {
     serde_json::from_str(&text).unwrap()
 }
 
-fn scan(p: &PersonaManifest, priors: &telltale::priors::Priors) -> Scan {
+fn scan(p: &PersonaManifest, priors: &mut telltale::priors::Priors) -> Scan {
     let input = ScanInput {
         archive: root().join("demo-exports").join(&p.archive),
         mapping: Some(root().join("demo-exports").join(&p.mapping)),
@@ -38,10 +38,10 @@ fn exposed(p: f64, base: f64, level: f64) -> bool {
 
 #[test]
 fn no_plan_leaves_a_rare_value_called_safe() {
-    let priors = load_priors(None).unwrap();
+    let mut priors = load_priors(None).unwrap();
     let mut checked = 0;
     for persona in personas() {
-        let mut scan = scan(&persona, &priors);
+        let mut scan = scan(&persona, &mut priors);
         let mut req = PlanRequest::for_footprint(&priors, &scan.footprint);
         req.budget = Budget::with_time_limit(Duration::from_secs(20));
         let outcome = solve(&scan.exposure, &req).unwrap();
@@ -84,7 +84,7 @@ fn reports_call_exposed_exactly_what_the_rule_says() {
     ] {
         priors.rarity = rarity;
         for persona in personas() {
-            let mut scan = scan(&persona, &priors);
+            let mut scan = scan(&persona, &mut priors);
             // Hide the half of the items that give the most away to the first attribute,
             // so that some guesses fall under the alert levels.
             let top: Vec<_> = scan

@@ -15,13 +15,13 @@ fn manifest(dir: &Path) -> Vec<PersonaManifest> {
 }
 
 fn scan(dir: &Path, p: &PersonaManifest) -> Scan {
-    let priors = load_priors(None).expect("bundled priors");
+    let mut priors = load_priors(None).expect("bundled priors");
     let input = ScanInput {
         archive: dir.join(&p.archive),
         mapping: None, // found beside the archive, as a user would rely on
         ..ScanInput::default()
     };
-    Scan::run(&input, &priors).unwrap_or_else(|e| panic!("{}: {e}", p.slug))
+    Scan::run(&input, &mut priors).unwrap_or_else(|e| panic!("{}: {e}", p.slug))
 }
 
 #[test]

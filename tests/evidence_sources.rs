@@ -17,13 +17,13 @@ fn demo(name: &str) -> PathBuf {
 }
 
 fn scan(name: &str, sources: Sources) -> (Scan, telltale::priors::Priors) {
-    let priors = load_priors(None).unwrap();
+    let mut priors = load_priors(None).unwrap();
     let input = ScanInput {
         archive: demo(name),
         sources,
         ..ScanInput::default()
     };
-    (Scan::run(&input, &priors).unwrap(), priors)
+    (Scan::run(&input, &mut priors).unwrap(), priors)
 }
 
 fn render_all(scan: &Scan, priors: &telltale::priors::Priors) -> Vec<String> {
@@ -130,19 +130,19 @@ fn a_friends_file_adds_what_the_archive_lacks() {
         "id,name,location,religion\nlw-u010951,,US-OR,\n,Pat Example,Oregon,No religion\n,Lee Example,US-OR,none\n",
     )
     .unwrap();
-    let priors = load_priors(None).unwrap();
+    let mut priors = load_priors(None).unwrap();
     let base = ScanInput {
         archive: demo("reporter"),
         sources: Sources::only(&[telltale::evidence::SourceKind::Friends]),
         ..ScanInput::default()
     };
-    let without = Scan::run(&base, &priors).unwrap();
+    let without = Scan::run(&base, &mut priors).unwrap();
     let with = Scan::run(
         &ScanInput {
             friends_file: Some(csv),
             ..base.clone()
         },
-        &priors,
+        &mut priors,
     )
     .unwrap();
     assert_eq!(

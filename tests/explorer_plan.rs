@@ -33,7 +33,7 @@ fn session(persona: &str) -> Session {
     // loaded machine, so both paths must give the same one. The rarity rule's plans
     // are checked in tests/alert_rule.rs.
     priors.rarity = telltale::alert::Rarity::OFF;
-    let scan = Scan::run(&input, &priors).unwrap();
+    let scan = Scan::run(&input, &mut priors).unwrap();
     let fp = scan.footprint.fingerprint.clone();
     Session::open(scan, priors, &Decisions::new(&fp))
 }

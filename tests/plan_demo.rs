@@ -22,14 +22,14 @@ fn personas() -> Vec<PersonaManifest> {
 
 #[test]
 fn demo_plans_meet_every_threshold_when_rescored() {
-    let priors = load_priors(None).unwrap();
+    let mut priors = load_priors(None).unwrap();
     for p in personas() {
         let input = ScanInput {
             archive: root().join("demo-exports").join(&p.archive),
             mapping: Some(root().join("demo-exports").join(&p.mapping)),
             ..ScanInput::default()
         };
-        let scan = Scan::run(&input, &priors).unwrap();
+        let scan = Scan::run(&input, &mut priors).unwrap();
         for with_truth in [false, true] {
             let mut req = PlanRequest::for_footprint(&priors, &scan.footprint);
             if with_truth {
@@ -52,7 +52,7 @@ fn demo_plans_meet_every_threshold_when_rescored() {
                 "x".into(),
                 "y".into(),
                 scan.footprint.clone(),
-                &priors,
+                &mut priors,
                 &input.sources,
             );
             for s in plan.subjects() {
@@ -215,12 +215,12 @@ fn a_search_stopped_before_any_plan_names_the_other_method() {
     use std::sync::atomic::AtomicBool;
     use telltale::plan::{Method, build_report};
 
-    let priors = load_priors(None).unwrap();
+    let mut priors = load_priors(None).unwrap();
     let input = ScanInput {
         archive: root().join("demo-exports/reporter"),
         ..ScanInput::default()
     };
-    let scan = Scan::run(&input, &priors).unwrap();
+    let scan = Scan::run(&input, &mut priors).unwrap();
     for (method, other) in [
         (Method::Exact, "greedy method"),
         (Method::Greedy, "exact method"),
@@ -274,12 +274,12 @@ fn a_search_stopped_before_any_plan_names_the_other_method() {
 #[test]
 fn plan_text_names_every_item_in_full() {
     use telltale::plan::{build_report, write_text};
-    let priors = load_priors(None).unwrap();
+    let mut priors = load_priors(None).unwrap();
     let input = ScanInput {
         archive: root().join("demo-exports/reporter"),
         ..ScanInput::default()
     };
-    let scan = Scan::run(&input, &priors).unwrap();
+    let scan = Scan::run(&input, &mut priors).unwrap();
     let mut req = PlanRequest::for_footprint(&priors, &scan.footprint);
     req.budget = Budget::with_time_limit(Duration::from_secs(2));
     let out = solve(&scan.exposure, &req).unwrap();

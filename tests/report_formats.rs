@@ -18,8 +18,8 @@ fn render(name: &str) -> (telltale::report::ScanReport, [String; 3]) {
         mapping,
         ..ScanInput::default()
     };
-    let priors = load_priors(None).unwrap();
-    let scan = Scan::run(&input, &priors).unwrap();
+    let mut priors = load_priors(None).unwrap();
+    let scan = Scan::run(&input, &mut priors).unwrap();
     let report = scan.report(&priors);
     let (mut t, mut m, mut h) = (Vec::new(), Vec::new(), Vec::new());
     write_text(&report, TextOptions::default(), &mut t).unwrap();

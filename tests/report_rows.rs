@@ -11,7 +11,7 @@ use telltale::priors::Priors;
 use telltale::report::{RowCount, write_json};
 use telltale::scan::{Scan, ScanInput, load_priors};
 
-fn scan(name: &str, priors: &Priors) -> Scan {
+fn scan(name: &str, priors: &mut Priors) -> Scan {
     let dir = PathBuf::from(env!("CARGO_MANIFEST_DIR")).join("demo-exports");
     let mapping = name
         .strip_suffix(".zip")
@@ -42,9 +42,9 @@ fn streamed_json(scan: &Scan, priors: &Priors) -> Vec<u8> {
 
 #[test]
 fn streamed_json_is_the_full_report_byte_for_byte() {
-    let priors = load_priors(None).unwrap();
+    let mut priors = load_priors(None).unwrap();
     for name in personas() {
-        let mut s = scan(name, &priors);
+        let mut s = scan(name, &mut priors);
         let full = full_json(&s, &priors);
         assert!(full.len() > 1000, "{name}: report too small to compare");
         assert_eq!(
@@ -69,9 +69,9 @@ fn streamed_json_is_the_full_report_byte_for_byte() {
 
 #[test]
 fn first_n_rows_are_the_head_of_the_full_list() {
-    let priors = load_priors(None).unwrap();
+    let mut priors = load_priors(None).unwrap();
     for name in personas() {
-        let s = scan(name, &priors);
+        let s = scan(name, &mut priors);
         let all = s.report(&priors).items;
         assert!(all.len() > 5, "{name}: too few rows to compare");
         for n in [0, 1, 5, all.len(), all.len() + 3] {
@@ -91,9 +91,9 @@ fn first_n_rows_are_the_head_of_the_full_list() {
 
 #[test]
 fn rows_come_most_revealing_first() {
-    let priors = load_priors(None).unwrap();
+    let mut priors = load_priors(None).unwrap();
     for name in personas() {
-        let rows = scan(name, &priors).report(&priors).items;
+        let rows = scan(name, &mut priors).report(&priors).items;
         for w in rows.windows(2) {
             let (a, b) = (&w[0], &w[1]);
             assert!(
@@ -117,9 +117,9 @@ fn rows_come_most_revealing_first() {
 /// rows work them out when they are made; the exposure computes them in one pass.
 #[test]
 fn row_figures_are_the_exposures_contributions() {
-    let priors = load_priors(None).unwrap();
+    let mut priors = load_priors(None).unwrap();
     for name in personas() {
-        let mut s = scan(name, &priors);
+        let mut s = scan(name, &mut priors);
         for round in 0..2 {
             if round == 1 {
                 for i in (0..s.footprint.items.len()).step_by(4) {
@@ -177,10 +177,10 @@ fn row_figures_are_the_exposures_contributions() {
 #[test]
 fn text_report_lists_every_shown_name_in_full() {
     use telltale::report::{TextOptions, write_text};
-    let priors = load_priors(None).unwrap();
+    let mut priors = load_priors(None).unwrap();
     let mut long = 0;
     for name in personas() {
-        let s = scan(name, &priors);
+        let s = scan(name, &mut priors);
         let report = s.report(&priors);
         let opts = TextOptions::default();
         let mut buf = Vec::new();

@@ -315,7 +315,7 @@ struct Guesses {
     by_attr: BTreeMap<String, (String, f64)>,
 }
 
-fn scan(p: &Persona, root: &Path, priors: &Priors) -> (Scan, Guesses) {
+fn scan(p: &Persona, root: &Path, priors: &mut Priors) -> (Scan, Guesses) {
     let mapping = write_archive(p, root);
     let input = ScanInput {
         archive: root.join(&p.slug),
@@ -367,7 +367,7 @@ struct Tally {
 
 fn run_set(file: &str) -> Tally {
     let people = load(file);
-    let priors = load_priors(None).unwrap();
+    let mut priors = load_priors(None).unwrap();
     let dir = tempfile::tempdir().unwrap();
     let mut t = Tally {
         people: people.len(),
@@ -381,7 +381,7 @@ fn run_set(file: &str) -> Tally {
     for p in &people {
         assert!(!p.name.is_empty() && !p.lives.is_empty() && p.age > 0);
         assert!(!p.languages.is_empty(), "{}", p.slug);
-        let (_, g) = scan(p, dir.path(), &priors);
+        let (_, g) = scan(p, dir.path(), &mut priors);
         let (age, age_p) = g.by_attr["age_band"].clone();
         let (loc, loc_p) = g.by_attr["location"].clone();
         let (rel, rel_p) = g.by_attr["religion"].clone();

@@ -325,6 +325,12 @@ pub struct SourceArgs {
     #[arg(long, value_name = "LIST")]
     pub sources: Option<String>,
 
+    /// Read home place at three levels for the whole world: home_country (every
+    /// country), home_region and home_town, in place of the priors' location values
+    /// (which then refine within their country). Preview: see docs/evidence.md.
+    #[arg(long)]
+    pub home_levels: bool,
+
     /// A CSV file of some friends' attributes (columns: name and/or id, then one per
     /// attribute, e.g. location, politics). Merged with the archive's friends; names
     /// are used for matching only and never reported.

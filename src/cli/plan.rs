@@ -127,9 +127,9 @@ pub fn run(args: &PlanArgs) -> Result<ExitCode> {
              work the plan out, then press e and choose HTML"
         );
     }
-    let priors = super::scan::priors(&args.input)?;
+    let mut priors = super::scan::priors(&args.input)?;
     let input = input(args.archive.clone(), &args.input)?;
-    let scan = Scan::run(&input, &priors)?;
+    let scan = Scan::run(&input, &mut priors)?;
     // The evidence is gathered: the parsed lexicons are not needed again.
     telltale::lexicon::release_bundled();
     let req = request(args, &priors, &scan.footprint)?;

@@ -20,10 +20,11 @@ pub fn input(archive: PathBuf, src: &SourceArgs) -> Result<ScanInput> {
             .apply(setting)
             .map_err(|e| anyhow::anyhow!("--limit {setting}: {e}"))?;
     }
-    let sources = match &src.sources {
+    let mut sources = match &src.sources {
         Some(list) => Sources::parse_list(list).map_err(|e| anyhow::anyhow!("--sources: {e}"))?,
         None => Sources::all(),
     };
+    sources.home_levels = src.home_levels;
     Ok(ScanInput {
         archive,
         mapping: src.mapping.clone(),
@@ -65,10 +66,10 @@ pub fn note_cache(priors: &telltale::priors::Priors) {
 }
 
 pub fn run(args: &ScanArgs) -> Result<ExitCode> {
-    let priors = priors(&args.input)?;
+    let mut priors = priors(&args.input)?;
     let input = input(args.archive.clone(), &args.input)?;
     let pb = super::cohort::byte_bar("importing");
-    let scan = Scan::run_with_progress(&input, &priors, &mut |done, total| {
+    let scan = Scan::run_with_progress(&input, &mut priors, &mut |done, total| {
         super::cohort::byte_progress(&pb, done, total)
     });
     pb.finish_and_clear();

@@ -118,6 +118,7 @@ fn gather_on(
                 set.list.reserve_exact(list.len() + left + n_attrs);
                 set.list.extend(list);
                 set.special.extend(piece.special);
+                set.places.extend(piece.places);
             }
         }
     }
@@ -172,6 +173,7 @@ impl Lexicons<'_> {
         // The lists grew by doubling; they are held until every run is joined.
         for set in &mut out {
             set.list.shrink_to_fit();
+            set.places.shrink_to_fit();
         }
         out
     }

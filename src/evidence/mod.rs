@@ -8,6 +8,7 @@
 mod beliefs;
 mod friends;
 mod gather;
+mod home;
 mod life_stage;
 mod model;
 mod places;
@@ -16,6 +17,10 @@ mod table;
 
 pub use friends::{FRIEND_SMOOTHING, from_friends, relational_neighbour};
 pub use gather::gather;
+pub use home::{
+    ELSEWHERE, HOME_COUNTRY, HOME_MAX_RATIO, HOME_REGION, HOME_TEMPERATURE, HOME_THRESHOLDS,
+    HOME_TOWN, Level, TOWN_CAP, fit_home_levels, is_home_level,
+};
 pub use life_stage::{
     AgeBands, StageTime, age_bands, band_shares, newest_date, parse_age_range, year_of,
 };
@@ -23,7 +28,8 @@ pub use model::{
     Evidence, EvidenceSet, Figures, FriendStats, LexiconRule, Origin, SpecialFlag, Subject,
 };
 pub use places::{
-    LOCALITY_SHARE, LocationValues, PlaceCode, location_attributes, place_likelihoods, value_code,
+    LOCALITY_SHARE, LocationValues, NamedPlace, NamedPlaces, PlaceCode, location_attributes,
+    place_likelihoods, value_code,
 };
 pub use sources::{Lexicon, SourceKind, Sources};
 pub use table::from_table;

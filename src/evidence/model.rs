@@ -315,6 +315,10 @@ pub struct EvidenceSet {
     pub reference_time: Option<i64>,
     /// The sources that ran.
     pub sources: Vec<super::sources::SourceKind>,
+    /// The places each item's name mentions (item index, shared between items that
+    /// name the same places the same way), from the places source: what the home
+    /// levels are fitted to ([`crate::evidence::fit_home_levels`]).
+    pub places: Vec<(usize, Arc<super::places::NamedPlaces>)>,
 }
 
 impl EvidenceSet {

@@ -22,7 +22,7 @@ use std::collections::HashMap;
 
 use super::model::{Evidence, EvidenceSet, Origin, Subject};
 use super::sources::SourceKind;
-use crate::lexicon::{Candidate, Gazetteer, Mention, PlaceRef};
+use crate::lexicon::{Candidate, Gazetteer, Mention, PlaceCues, PlaceRef, PlaceRole};
 use crate::priors::{Attribute, Priors};
 
 /// Share of place-named items that name the person's home region (common practice,
@@ -226,10 +226,30 @@ pub fn place_likelihoods(
     )
 }
 
+/// One place name an item mentions, with every place it may stand for and how it
+/// counts (its role from the place cues).
+#[derive(Debug, Clone, PartialEq)]
+pub struct NamedPlace {
+    /// The matched words (name key).
+    pub text: String,
+    /// Every place of that name, most populous first.
+    pub places: Vec<PlaceRef>,
+    /// Confidence that the words are a place at all ([`mention_confidence`]).
+    pub confidence: f64,
+    pub role: PlaceRole,
+}
+
+/// The places one item's name mentions.
+#[derive(Debug, Clone, PartialEq, Default)]
+pub struct NamedPlaces {
+    pub mentions: Vec<NamedPlace>,
+}
+
 /// The place source set up for one priors file, run item by item.
 pub(crate) struct PlaceSource<'a> {
     priors: &'a Priors,
     gazetteer: &'a Gazetteer,
+    cues: std::sync::Arc<PlaceCues>,
     locations: Vec<LocationValues>,
 }
 
@@ -238,13 +258,15 @@ impl<'a> PlaceSource<'a> {
         PlaceSource {
             priors,
             gazetteer,
+            cues: crate::lexicon::bundled_place_cues(),
             locations: location_attributes(priors, gazetteer),
         }
     }
 
-    /// Add the evidence of item `i`, whose name has the tokens `toks`. Names that
-    /// mention the same places get the same evidence, so it is worked out once per
-    /// run of items (`memo`) and shared.
+    /// Add the evidence of item `i`, whose name has the tokens `toks`, and note the
+    /// places it names (for the home levels). Names that mention the same places the
+    /// same way get the same evidence, so it is worked out once per run of items
+    /// (`memo`) and shared.
     pub(crate) fn item(
         &self,
         i: usize,
@@ -253,22 +275,36 @@ impl<'a> PlaceSource<'a> {
         memo: &mut PlaceMemo,
         set: &mut EvidenceSet,
     ) {
-        if self.locations.is_empty() {
-            return;
-        }
         let mentions = self.gazetteer.find_in_tokens(toks);
         if mentions.is_empty() {
             return;
         }
-        let key = mentions
-            .iter()
-            .map(|m| m.text.as_str())
-            .collect::<Vec<_>>()
-            .join("\u{1f}");
-        let known = memo
-            .0
-            .entry(key)
-            .or_insert_with(|| self.work_out(&mentions));
+        let starts = mention_starts(toks, &mentions);
+        let kinds = self.cues.kinds(toks);
+        let roles = self.cues.roles(toks, &starts, &kinds);
+        let mut key = String::new();
+        for (m, r) in mentions.iter().zip(&roles) {
+            key.push_str(&m.text);
+            key.push('\u{1f}');
+            key.push_str(r.as_str());
+            key.push('\u{1f}');
+        }
+        let (known, named) = memo.0.entry(key).or_insert_with(|| {
+            let named = NamedPlaces {
+                mentions: mentions
+                    .iter()
+                    .zip(&roles)
+                    .map(|(m, &role)| NamedPlace {
+                        text: m.text.clone(),
+                        places: m.candidates.iter().map(|c| c.place).collect(),
+                        confidence: mention_confidence(m),
+                        role,
+                    })
+                    .collect(),
+            };
+            (self.work_out(&mentions), std::sync::Arc::new(named))
+        });
+        set.places.push((i, std::sync::Arc::clone(named)));
         for (lv, evidence) in self.locations.iter().zip(known.iter()) {
             if let Some(e) = evidence
                 && !covered(i, lv.attribute)
@@ -300,9 +336,26 @@ impl<'a> PlaceSource<'a> {
     }
 }
 
-/// Place evidence already worked out, by the mentions that gave it.
+/// Where each mention starts among the tokens (mentions come in reading order and
+/// do not overlap); a mention found inside a token of unspaced script starts there.
+fn mention_starts(toks: &[String], mentions: &[Mention<'_>]) -> Vec<usize> {
+    let mut at = 0;
+    mentions
+        .iter()
+        .map(|m| {
+            let first = m.text.split(' ').next().unwrap_or("");
+            let found = (at..toks.len())
+                .find(|&t| toks[t] == first || toks[t].contains(first))
+                .unwrap_or(at.min(toks.len().saturating_sub(1)));
+            at = found + 1;
+            found
+        })
+        .collect()
+}
+
+/// Place evidence and named places already worked out, by the mentions that gave them.
 #[derive(Default)]
-pub(crate) struct PlaceMemo(HashMap<String, Vec<Option<Evidence>>>);
+pub(crate) struct PlaceMemo(HashMap<String, (Vec<Option<Evidence>>, std::sync::Arc<NamedPlaces>)>);
 
 pub(crate) fn normalise(x: impl Iterator<Item = f64>) -> Vec<f64> {
     let v: Vec<f64> = x.collect();

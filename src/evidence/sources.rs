@@ -122,6 +122,11 @@ pub struct Sources {
     pub life_stages: Option<Lexicon<LifeStages>>,
     pub vocabulary: Option<Lexicon<Vocabulary>>,
     pub friends: bool,
+    /// Fit the home place at three levels (country, region, town) to the footprint
+    /// when a scan runs the places source ([`crate::evidence::fit_home_levels`]); off
+    /// by default until the reports, snapshots and plan figures are reviewed with it
+    /// (`--home-levels`).
+    pub home_levels: bool,
     /// "Now" for ages, in Unix seconds. `None`: the newest date in the archive (or
     /// the clock, when nothing in it is dated).
     pub reference_time: Option<i64>,
@@ -154,6 +159,7 @@ impl Sources {
                 .then_some(Lexicon::Bundled(bundled_life_stages)),
             vocabulary: on(SourceKind::Vocabulary).then_some(Lexicon::Bundled(bundled_vocabulary)),
             friends: on(SourceKind::Friends),
+            home_levels: false,
             reference_time: None,
         }
     }

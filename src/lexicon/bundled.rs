@@ -6,6 +6,7 @@ use std::sync::{Arc, Mutex, PoisonError};
 
 use super::gazetteer::Gazetteer;
 use super::life_stages::LifeStages;
+use super::place_cues::PlaceCues;
 use super::vocabulary::Vocabulary;
 
 pub const GAZETTEER_TSV: &str = include_str!("../../reference-priors/lexicons/gazetteer.tsv");
@@ -22,6 +23,7 @@ pub static GAZETTEER_TOWNS: &[u8] =
 pub const COMMON_WORDS_TXT: &str = include_str!("../../reference-priors/lexicons/common-words.txt");
 pub const LIFE_STAGES_TOML: &str = include_str!("../../reference-priors/lexicons/life-stages.toml");
 pub const VOCABULARY_TOML: &str = include_str!("../../reference-priors/lexicons/vocabulary.toml");
+pub const PLACE_CUES_TOML: &str = include_str!("../../reference-priors/lexicons/place-cues.toml");
 
 /// One parsed lexicon, shared while anyone holds it or until [`release`].
 struct Shared<T>(Mutex<Option<Arc<T>>>);
@@ -45,6 +47,7 @@ impl<T> Shared<T> {
 static GAZETTEER: Shared<Gazetteer> = Shared::new();
 static LIFE_STAGES: Shared<LifeStages> = Shared::new();
 static VOCABULARY: Shared<Vocabulary> = Shared::new();
+static PLACE_CUES: Shared<PlaceCues> = Shared::new();
 
 /// Let go of the shared parsed lexicons. Whoever still holds one keeps it; the next
 /// use parses again. For a command that reads one archive, once its evidence is
@@ -53,6 +56,7 @@ pub fn release() {
     GAZETTEER.release();
     LIFE_STAGES.release();
     VOCABULARY.release();
+    PLACE_CUES.release();
 }
 
 /// The bundled gazetteer (GeoNames, CC BY 4.0).
@@ -92,6 +96,14 @@ pub fn vocabulary() -> Arc<Vocabulary> {
     })
 }
 
+/// The bundled place cues (local life, travel, diaspora).
+pub fn place_cues() -> Arc<PlaceCues> {
+    PLACE_CUES.get_or(|| {
+        PlaceCues::parse(PLACE_CUES_TOML, "place-cues.toml (bundled)")
+            .expect("the bundled place cues parse")
+    })
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -116,6 +128,7 @@ mod tests {
         Gazetteer::parse(GAZETTEER_TSV, COMMON_WORDS_TXT, "g").unwrap();
         LifeStages::parse(LIFE_STAGES_TOML, "l").unwrap();
         Vocabulary::parse(VOCABULARY_TOML, "v").unwrap();
+        PlaceCues::parse(PLACE_CUES_TOML, "p").unwrap();
     }
 
     /// The keys build.rs worked out are the ones the library's own name key gives,

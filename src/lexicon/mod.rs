@@ -11,16 +11,18 @@ mod key_image;
 mod keys;
 mod life_stages;
 mod phrase;
+mod place_cues;
 mod special;
 mod vocabulary;
 
 pub use bundled::{
-    gazetteer as bundled_gazetteer, life_stages as bundled_life_stages, release as release_bundled,
-    vocabulary as bundled_vocabulary,
+    gazetteer as bundled_gazetteer, life_stages as bundled_life_stages,
+    place_cues as bundled_place_cues, release as release_bundled, vocabulary as bundled_vocabulary,
 };
 pub use error::{Error, Result};
 pub use gazetteer::{Candidate, City, CityRef, Country, Gazetteer, Mention, PlaceRef, Region};
 pub use life_stages::{LifeStages, Rule, Stage, StageMatch};
 pub use phrase::{Hit, Pattern, PhraseIndex, YearToken, is_unspaced, tokens};
+pub use place_cues::{CueKind, PlaceCues, PlaceRole, Strengths};
 pub use special::SpecialCategory;
 pub use vocabulary::{Term, TermMatch, Vocabulary};

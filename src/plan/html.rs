@@ -188,12 +188,12 @@ mod tests {
 
     /// The reporter demo persona, scanned with the bundled priors.
     fn reporter() -> (Priors, Scan) {
-        let priors = load_priors(None).unwrap();
+        let mut priors = load_priors(None).unwrap();
         let input = ScanInput {
             archive: concat!(env!("CARGO_MANIFEST_DIR"), "/demo-exports/reporter").into(),
             ..ScanInput::default()
         };
-        let scan = Scan::run(&input, &priors).unwrap();
+        let scan = Scan::run(&input, &mut priors).unwrap();
         (priors, scan)
     }
 

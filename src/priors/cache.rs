@@ -330,6 +330,7 @@ fn read_payload<R: Read>(r: &mut Stream<R>, origin: &str) -> Option<Priors> {
         rarity: crate::alert::Rarity::default(),
         store,
         index,
+        file_attributes: None,
     })
 }
 

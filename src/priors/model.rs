@@ -76,6 +76,9 @@ pub struct Priors {
     pub rarity: crate::alert::Rarity,
     pub(crate) store: Items,
     pub(crate) index: Index,
+    /// The attributes as the file gives them, kept while a scan has replaced them with
+    /// home levels fitted to one footprint (see [`Priors::restore_file_attributes`]).
+    pub(crate) file_attributes: Option<Vec<Attribute>>,
 }
 
 impl Priors {
@@ -147,7 +150,29 @@ impl Priors {
             rarity: crate::alert::Rarity::default(),
             store: items,
             index,
+            file_attributes: None,
         })
+    }
+
+    /// Put back the attributes as the file gives them, undoing the home levels a scan
+    /// fitted to its footprint (a no-op when there are none).
+    pub fn restore_file_attributes(&mut self) {
+        if let Some(a) = self.file_attributes.take() {
+            self.attributes = a;
+        }
+    }
+
+    /// Set attributes fitted to one footprint, keeping the file's to restore.
+    pub(crate) fn set_fitted_attributes(&mut self, attributes: Vec<Attribute>) {
+        let file = std::mem::replace(&mut self.attributes, attributes);
+        if self.file_attributes.is_none() {
+            self.file_attributes = Some(file);
+        }
+    }
+
+    /// The attributes as the file gives them (before any home levels were fitted).
+    pub fn file_attributes(&self) -> &[Attribute] {
+        self.file_attributes.as_deref().unwrap_or(&self.attributes)
     }
 
     /// Number of reference items.

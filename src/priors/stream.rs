@@ -145,6 +145,7 @@ impl<'de> Visitor<'de> for Top<'_> {
                 rarity: crate::alert::Rarity::default(),
                 store,
                 index,
+                file_attributes: None,
             })
         })())
     }

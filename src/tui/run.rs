@@ -92,7 +92,7 @@ fn load(opts: Options, tx: &mpsc::Sender<LoadMsg>) -> Result<Ready> {
     let mut priors = load_priors(opts.priors.as_deref()).context("cannot use the priors")?;
     priors.rarity = opts.rarity;
     let mut last: Option<(Instant, bool)> = None;
-    let scan = Scan::run_with_progress(&input, &priors, &mut |done, total| {
+    let scan = Scan::run_with_progress(&input, &mut priors, &mut |done, total| {
         // The import reports after each file; once all bytes are in, scoring starts.
         let scoring = done >= total;
         if last.is_none_or(|(t, was)| was != scoring || t.elapsed() >= PROGRESS_EVERY) {

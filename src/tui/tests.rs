@@ -25,14 +25,14 @@ fn session() -> Session {
 
 /// A demo persona's session, with no saved decisions.
 pub(super) fn persona(name: &str) -> Session {
-    let priors = load_priors(None).unwrap();
+    let mut priors = load_priors(None).unwrap();
     let input = ScanInput {
         archive: std::path::Path::new(env!("CARGO_MANIFEST_DIR"))
             .join("demo-exports")
             .join(name),
         ..ScanInput::default()
     };
-    let scan = Scan::run(&input, &priors).unwrap();
+    let scan = Scan::run(&input, &mut priors).unwrap();
     let fp = scan.footprint.fingerprint.clone();
     Session::open(scan, priors, &Decisions::new(&fp))
 }

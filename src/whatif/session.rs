@@ -437,12 +437,12 @@ pub(crate) mod tests {
 
     /// The reporter persona from the bundled demo.
     pub(crate) fn demo_session() -> Session {
-        let priors = load_priors(None).unwrap();
+        let mut priors = load_priors(None).unwrap();
         let input = ScanInput {
             archive: concat!(env!("CARGO_MANIFEST_DIR"), "/demo-exports/reporter").into(),
             ..ScanInput::default()
         };
-        let scan = Scan::run(&input, &priors).unwrap();
+        let scan = Scan::run(&input, &mut priors).unwrap();
         let fp = scan.footprint.fingerprint.clone();
         Session::open(scan, priors, &Decisions::new(&fp))
     }
