@@ -31,7 +31,7 @@ fn footprint(names: &[String]) -> Footprint {
     }
 }
 
-fn scan(names: &[String], priors: &Priors) -> Scan {
+fn scan(names: &[String], priors: &mut Priors) -> Scan {
     Scan::from_footprint(
         "invented".into(),
         "test".into(),
@@ -87,10 +87,10 @@ fn location_of(priors: &Priors, value: &str) -> (usize, usize) {
 /// the logistic curve's lower, convex part, so there the check is from k = 2 on.
 #[test]
 fn same_town_items_saturate() {
-    let priors = load_priors(None).unwrap();
+    let mut priors = load_priors(None).unwrap();
     let (ai, oregon) = location_of(&priors, "Oregon");
     let p: Vec<f64> = (0..=30)
-        .map(|k| scan(&eugene(k), &priors).exposure.posterior(ai).probs[oregon])
+        .map(|k| scan(&eugene(k), &mut priors).exposure.posterior(ai).probs[oregon])
         .collect();
     eprintln!(
         "P(Oregon) k=0,1,2,3,10,30: {:.3} {:.3} {:.3} {:.3} {:.3} {:.3}",
@@ -113,7 +113,7 @@ fn same_town_items_saturate() {
     }
     assert!(p[10] >= 0.5, "{}", p[10]);
     assert!(p[30] < 0.98, "{}", p[30]);
-    let x = scan(&eugene(30), &priors);
+    let x = scan(&eugene(30), &mut priors);
     assert!(x.exposure.rests_on_rules(ai));
     assert!(x.exposure.posterior(ai).probability < RULES_OF_THUMB_CEILING);
     let report = x.report(&priors);
