@@ -20,7 +20,7 @@ pub use bundled::{
 };
 pub use error::{Error, Result};
 pub use gazetteer::{Candidate, City, CityRef, Country, Gazetteer, Mention, PlaceRef, Region};
-pub use life_stages::{LifeStages, Rule, Stage, StageMatch};
+pub use life_stages::{Calendar, Level, LifeStages, Rule, Stage, StageMatch};
 pub use phrase::{Hit, Pattern, PhraseIndex, YearToken, is_unspaced, tokens};
 pub use special::SpecialCategory;
 pub use vocabulary::{Term, TermMatch, Vocabulary};
