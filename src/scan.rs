@@ -67,17 +67,22 @@ pub struct Scan {
     pub exposure: Exposure,
 }
 
+/// The mapping the input names, or else the one found inside or beside the archive.
+fn mapping_for(input: &ScanInput, archive: &mut Archive) -> Result<Mapping, Error> {
+    Ok(match &input.mapping {
+        Some(p) => Mapping::load(p)?,
+        None => {
+            let found = mapping::locate(archive)?;
+            Mapping::parse(&found.text, &found.origin)?
+        }
+    })
+}
+
 /// The fingerprint saved decisions are filed under: the archive read through its
 /// mapping, nothing scored.
 pub fn fingerprint(input: &ScanInput) -> Result<String, Error> {
     let mut archive = Archive::open(&input.archive, &input.limits)?;
-    let mapping = match &input.mapping {
-        Some(p) => Mapping::load(p)?,
-        None => {
-            let found = mapping::locate(&mut archive)?;
-            Mapping::parse(&found.text, &found.origin)?
-        }
-    };
+    let mapping = mapping_for(input, &mut archive)?;
     let footprint =
         import::import_with_progress(&mut archive, &mapping, &input.limits, &mut |_, _| {})?;
     Ok(footprint.fingerprint)
@@ -101,13 +106,7 @@ impl Scan {
         progress: &mut dyn FnMut(u64, u64),
     ) -> Result<Scan, Error> {
         let mut archive = Archive::open(&input.archive, &input.limits)?;
-        let mapping = match &input.mapping {
-            Some(p) => Mapping::load(p)?,
-            None => {
-                let found = mapping::locate(&mut archive)?;
-                Mapping::parse(&found.text, &found.origin)?
-            }
-        };
+        let mapping = mapping_for(input, &mut archive)?;
         // The bundled lexicons are parsed on a second thread while the archive is read.
         let mut footprint = std::thread::scope(|scope| {
             scope.spawn(|| input.sources.prepare());

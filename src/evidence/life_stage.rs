@@ -16,7 +16,7 @@ use super::model::{Evidence, EvidenceSet, Origin, Subject};
 use super::places::normalise;
 use super::sources::SourceKind;
 use crate::footprint::{Footprint, Item};
-use crate::lexicon::{LifeStages, StageMatch, YearToken};
+use crate::lexicon::{Calendar, LifeStages, StageMatch, YearToken};
 use crate::priors::Priors;
 
 /// Seconds in a mean Gregorian year (365.2425 days).
@@ -92,18 +92,51 @@ pub fn age_bands(priors: &Priors) -> Option<AgeBands> {
     })
 }
 
-/// The year a `{year}` slot means: four digits as written; two digits in the century
-/// that puts it no more than a few years after the reference year.
-pub fn full_year(y: YearToken, reference_year: i32) -> i32 {
+/// The Gregorian year a `{year}` slot means: four digits as written (in the
+/// pattern's calendar); two digits in the century that puts it no more than a few
+/// years after the reference year. `None` for a year no calendar reads.
+///
+/// Conversions (from memory): Solar Hijri + 621 (the year begins in March, and a
+/// school or university year in Mehr, September–October, of that Gregorian year);
+/// Buddhist era − 543; Hijri (lunar) years are 354 or 355 days, so Gregorian ≈
+/// 622 + H × 32/33.
+pub fn calendar_year(y: YearToken, calendar: Calendar, reference_year: i32) -> Option<i32> {
+    let ahead = reference_year + MAX_YEARS_AHEAD as i32;
+    let gregorian = |v: i32| -> Option<i32> {
+        match calendar {
+            Calendar::SolarHijri if v < 1700 => Some(v + 621),
+            Calendar::Buddhist if v >= 2400 => Some(v - 543),
+            Calendar::Hijri if v < 1500 => Some(622 + (v as f64 * 32.0 / 33.0).round() as i32),
+            _ => Some(v),
+        }
+        .filter(|g| (1900..=2100).contains(g))
+    };
     if y.digits == 4 {
-        return y.value;
+        return gregorian(y.value);
     }
-    let this_century = reference_year - reference_year.rem_euclid(100) + y.value;
-    if this_century <= reference_year + MAX_YEARS_AHEAD as i32 {
-        this_century
-    } else {
-        this_century - 100
-    }
+    // Two digits: the latest century (of the calendar's own years) not too far ahead.
+    let centuries: &[i32] = match calendar {
+        Calendar::SolarHijri => &[1400, 1300],
+        Calendar::Buddhist => &[2500],
+        _ => {
+            let this_century = reference_year - reference_year.rem_euclid(100);
+            return Some(if this_century + y.value <= ahead {
+                this_century + y.value
+            } else {
+                this_century - 100 + y.value
+            });
+        }
+    };
+    centuries
+        .iter()
+        .filter_map(|c| gregorian(c + y.value))
+        .find(|g| *g <= ahead)
+}
+
+/// The year a `{year}` slot means in the Gregorian calendar (see [`calendar_year`]).
+#[cfg(test)]
+fn full_year(y: YearToken, reference_year: i32) -> i32 {
+    calendar_year(y, Calendar::Gregorian, reference_year).unwrap_or(y.value)
 }
 
 /// Calendar year of a Unix time (UTC).
@@ -141,11 +174,9 @@ pub fn band_shares(
     bands: &AgeBands,
 ) -> Option<(Vec<f64>, f64, StageTime)> {
     let ref_year = year_of(reference);
-    let (when, time) = match (m.year, item_date) {
-        (Some(y), _) => {
-            let year = full_year(y, ref_year);
-            (mid_year(year), StageTime::Named(year))
-        }
+    let named = m.year.and_then(|y| calendar_year(y, m.calendar, ref_year));
+    let (when, time) = match (named, item_date) {
+        (Some(year), _) => (mid_year(year), StageTime::Named(year)),
         (None, Some(d)) => (d, StageTime::Joined(d)),
         (None, None) => (reference, StageTime::Undated),
     };
@@ -154,7 +185,7 @@ pub fn band_shares(
         return None;
     }
     let mut shares = vec![0.0; bands.ranges.len()];
-    for stage in &m.rule.stages {
+    for stage in &m.stages() {
         let (from, to) = (stage.from + since, stage.to + since);
         let width = to - from;
         for (share, &(lo, hi)) in shares.iter_mut().zip(&bands.ranges) {
@@ -226,24 +257,23 @@ impl<'a> LifeStageSource<'a> {
                 .zip(&attr.base_rates)
                 .map(|(p, b)| c * p + (1.0 - c) * b),
         );
-        let low = m
-            .rule
-            .stages
-            .iter()
-            .map(|s| s.from)
-            .fold(f64::MAX, f64::min)
-            + since;
-        let high = m.rule.stages.iter().map(|s| s.to).fold(f64::MIN, f64::max) + since - 1.0;
+        let stages = m.stages();
+        let low = stages.iter().map(|s| s.from).fold(f64::MAX, f64::min) + since;
+        let high = stages.iter().map(|s| s.to).fold(f64::MIN, f64::max) + since - 1.0;
         let when = match time {
             StageTime::Named(y) => format!("in {y}"),
             StageTime::Joined(d) => format!("when you joined in {}", year_of(d)),
             StageTime::Undated => "(undated, taken as now)".into(),
         };
+        let ages = stages
+            .iter()
+            .map(|s| format!("{}–{}", s.from as i64, s.to as i64 - 1))
+            .collect::<Vec<_>>()
+            .join(" or ");
         let detail = format!(
-            "'{}' ({}): aged {} {when}, so about {:.0}–{:.0} now (rule of thumb)",
+            "'{}' ({}): aged {ages} {when}, so about {:.0}–{:.0} now (rule of thumb)",
             m.text,
             m.rule.label,
-            m.rule.ages_text(),
             low.max(0.0).floor(),
             high.max(0.0).ceil()
         );
@@ -313,11 +343,13 @@ mod tests {
                     from: 17.0,
                     to: 20.0,
                     weight: 0.6,
+                    level: None,
                 },
                 Stage {
                     from: 21.0,
                     to: 25.0,
                     weight: 0.4,
+                    level: None,
                 },
             ],
             confidence: 0.8,
@@ -329,6 +361,8 @@ mod tests {
                 value: 2004,
                 digits: 4,
             }),
+            calendar: Calendar::Gregorian,
+            level: None,
         };
         let reference = mid_year(2026);
         let (shares, since, time) = band_shares(&m, None, reference, &bands()).unwrap();
@@ -351,6 +385,7 @@ mod tests {
                 from: 18.0,
                 to: 20.0,
                 weight: 1.0,
+                level: None,
             }],
             confidence: 0.8,
         };
@@ -358,6 +393,8 @@ mod tests {
             rule: &rule,
             text: "freshers".into(),
             year: None,
+            calendar: Calendar::Gregorian,
+            level: None,
         };
         let joined = mid_year(2016);
         let (shares, since, time) =

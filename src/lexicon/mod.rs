@@ -21,7 +21,7 @@ pub use bundled::{
 };
 pub use error::{Error, Result};
 pub use gazetteer::{Candidate, City, CityRef, Country, Gazetteer, Mention, PlaceRef, Region};
-pub use life_stages::{LifeStages, Rule, Stage, StageMatch};
+pub use life_stages::{Calendar, Level, LifeStages, Rule, Stage, StageMatch};
 pub use phrase::{Hit, Pattern, PhraseIndex, YearToken, is_unspaced, tokens};
 pub use place_cues::{CueKind, PlaceCues, PlaceRole, Strengths};
 pub use special::SpecialCategory;

@@ -124,17 +124,44 @@ impl Pattern {
     }
 }
 
+/// The value of a decimal digit in any of the scripts whose digits people write years
+/// in (ASCII, Arabic-Indic, Persian and Urdu, Devanagari, Bengali, Gurmukhi, Gujarati,
+/// Oriya, Tamil, Telugu, Kannada, Malayalam, Thai, Lao, Tibetan, Myanmar, Khmer).
+/// Full-width digits are folded to ASCII by the name key already.
+pub fn digit_value(c: char) -> Option<u32> {
+    const ZEROS: [u32; 17] = [
+        0x30, 0x660, 0x6F0, 0x966, 0x9E6, 0xA66, 0xAE6, 0xB66, 0xBE6, 0xC66, 0xCE6, 0xD66, 0xE50,
+        0xED0, 0xF20, 0x1040, 0x17E0,
+    ];
+    let u = c as u32;
+    ZEROS
+        .iter()
+        .find(|&&z| (z..z + 10).contains(&u))
+        .map(|&z| u - z)
+}
+
+/// A year slot's token: two or four digits of one script. Four-digit years run from
+/// 1300 (Solar Hijri and Hijri years of the last century) to 2700 (Buddhist-era years
+/// of this one); which calendar a year is in is the caller's to say.
 fn parse_year(tok: &str) -> Option<YearToken> {
-    if !(tok.len() == 4 || tok.len() == 2) || !tok.bytes().all(|b| b.is_ascii_digit()) {
+    let mut value: u32 = 0;
+    let mut digits = 0u8;
+    for c in tok.chars() {
+        value = value * 10 + digit_value(c)?;
+        digits += 1;
+        if digits > 4 {
+            return None;
+        }
+    }
+    if !(digits == 4 || digits == 2) {
         return None;
     }
-    let value: i32 = tok.parse().ok()?;
-    if tok.len() == 4 && !(1900..=2100).contains(&value) {
+    if digits == 4 && !(1300..=2700).contains(&value) {
         return None;
     }
     Some(YearToken {
-        value,
-        digits: tok.len() as u8,
+        value: value as i32,
+        digits,
     })
 }
 
@@ -466,8 +493,18 @@ mod tests {
         // "Class of '04": the apostrophe folds away, two digits remain.
         let hits = ix.find("Class of '04");
         assert_eq!(hits[0].year.unwrap().digits, 2);
-        assert!(ix.find("Class of 1850").is_empty());
+        assert!(ix.find("Class of 1250").is_empty());
         assert!(ix.find("Class of 20045").is_empty());
+        // Digits of other scripts: Persian "۹۲", Bengali "২০২৩", Devanagari "२०११".
+        let year = |name: &str| ix.find(name).first().and_then(|h| h.year);
+        assert_eq!(
+            year("class of ۹۲").map(|y| (y.value, y.digits)),
+            Some((92, 2))
+        );
+        assert_eq!(year("class of ২০২৩").map(|y| y.value), Some(2023));
+        assert_eq!(year("class of २०११").map(|y| y.value), Some(2011));
+        assert_eq!(digit_value('٧'), Some(7));
+        assert_eq!(digit_value('x'), None);
     }
 
     #[test]

@@ -475,8 +475,22 @@ fn snapshot_plan_stopped_early() {
     let o = &app.current_plan().unwrap().outcome;
     assert_eq!(o.status, Status::Feasible);
     assert_eq!(o.stopped, Some(StopReason::Cancelled));
-    assert!(draw(&app, 80, 24).contains("you stopped the search"));
-    snap_all("plan_stopped", &app);
+    // Which plan the search holds when told to stop depends on how far it got between
+    // two looks at the clock, so on the machine's speed (27 items on a quiet machine,
+    // 80 under heavy load): check the screen's shape and that it lists the plan held,
+    // not a snapshot of its items.
+    let n = o.plan.as_ref().map_or(0, |p| p.len());
+    assert!(n > 0, "a stopped search still shows the best plan found");
+    for (w, h) in [(80u16, 24u16), (160, 48)] {
+        let screen = draw(&app, w, h);
+        assert_fits(&screen, w);
+        assert!(screen.contains("you stopped the search"), "{screen}");
+        assert!(screen.contains("Best found when stopped"), "{screen}");
+        assert!(
+            screen.contains(&format!("Hide these {n} items")),
+            "{n} items: {screen}"
+        );
+    }
     // Esc again (nothing running) goes back.
     app.handle_key(code(KeyCode::Esc));
     assert_eq!(app.screen, Screen::Overview);
