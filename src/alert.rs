@@ -89,13 +89,20 @@ impl Rarity {
     }
 
     /// The exposed value of a posterior, if any: the most probable of the values over
-    /// their own level.
-    pub fn flag(&self, level: f64, probs: &[f64], base_rates: &[f64]) -> Option<Flag> {
+    /// their own level. The remainder value (none of the values named, see
+    /// [`crate::priors::REMAINDER_ID`]) is never flagged: guessing it discloses nothing.
+    pub fn flag(
+        &self,
+        level: f64,
+        probs: &[f64],
+        base_rates: &[f64],
+        remainder: Option<usize>,
+    ) -> Option<Flag> {
         probs
             .iter()
             .zip(base_rates)
             .enumerate()
-            .filter(|&(_, (&p, &b))| self.exposed(level, p, b))
+            .filter(|&(v, (&p, &b))| Some(v) != remainder && self.exposed(level, p, b))
             .max_by(|x, y| x.1.0.total_cmp(y.1.0))
             .map(|(value, (&probability, &base_rate))| Flag {
                 value,
@@ -164,12 +171,17 @@ mod tests {
         let r = Rarity::default();
         // Best guess 0.55 under a 0.7 level at 0.5 base: safe; value 1 at 0.3, 15×.
         let f = r
-            .flag(0.7, &[0.55, 0.30, 0.15], &[0.5, 0.02, 0.48])
+            .flag(0.7, &[0.55, 0.30, 0.15], &[0.5, 0.02, 0.48], None)
             .unwrap();
         assert_eq!(f.value, 1);
         assert!(f.by_rarity);
-        assert!(r.flag(0.7, &[0.55, 0.30, 0.15], &[0.5, 0.3, 0.2]).is_none());
-        let f = r.flag(0.5, &[0.8, 0.2, 0.0], &[0.5, 0.3, 0.2]).unwrap();
+        assert!(
+            r.flag(0.7, &[0.55, 0.30, 0.15], &[0.5, 0.3, 0.2], None)
+                .is_none()
+        );
+        let f = r
+            .flag(0.5, &[0.8, 0.2, 0.0], &[0.5, 0.3, 0.2], None)
+            .unwrap();
         assert_eq!((f.value, f.by_rarity), (0, false));
     }
 

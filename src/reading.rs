@@ -60,12 +60,10 @@ impl Level {
 }
 
 /// Classify a best guess: over threshold → exposed; at least 1.5× the base rate (and
-/// 5 points above it) → leaning; else quiet (common practice, no source). A value at
-/// least as common in the population as the threshold is never exposed: guessing it
-/// needs no footprint (the "somewhere else" remainder of the home levels). This looks at
+/// 5 points above it) → leaning; else quiet (common practice, no source). This looks at
 /// the best guess and the alert level only; [`assess`] applies the whole alert rule.
 pub fn level(probability: f64, base_rate: f64, threshold: f64) -> Level {
-    if probability > threshold && base_rate < threshold {
+    if probability > threshold {
         Level::Exposed
     } else {
         leaning_or_quiet(probability, base_rate)
@@ -100,14 +98,21 @@ pub struct Assessment {
 pub fn assess(attr: &Attribute, probs: &[f64], alert_level: f64, rarity: &Rarity) -> Assessment {
     let (best, probability) = crate::stats::argmax(probs);
     let base_rate = attr.base_rates[best];
-    let flag = rarity.flag(alert_level, probs, &attr.base_rates);
+    let remainder = attr.remainder();
+    let flag = rarity.flag(alert_level, probs, &attr.base_rates, remainder);
     let level = if flag.is_some() {
         Level::Exposed
+    } else if remainder == Some(best) {
+        Level::Quiet
     } else {
         leaning_or_quiet(probability, base_rate)
     };
     let guess = &attr.values[best].label;
-    let mut reading = attribute_sentence(&attr.label, guess, probability, base_rate, alert_level);
+    let mut reading = if remainder == Some(best) {
+        remainder_sentence(&attr.label, probability)
+    } else {
+        attribute_sentence(&attr.label, guess, probability, base_rate, alert_level)
+    };
     if let Some(f) = flag.filter(|f| f.by_rarity) {
         reading = if f.value == best {
             format!(
@@ -169,6 +174,15 @@ fn times_plain(x: f64) -> String {
     } else {
         format!("{x:.1}×")
     }
+}
+
+/// The sentence when the best guess is the remainder ("none of the values named").
+pub fn remainder_sentence(attribute_label: &str, probability: f64) -> String {
+    format!(
+        "Your footprint does not narrow your {} down: the likeliest answer, {}, is somewhere none of your items name.",
+        attribute_label.to_lowercase(),
+        percent(probability)
+    )
 }
 
 /// One sentence about one attribute's best guess against one alert level.

@@ -35,7 +35,53 @@ fn term_ratios(m: &TermMatch<'_>, priors: &Priors) -> Option<(usize, Vec<f64>)> 
             any = true;
         }
     }
+    if !m.term.members.is_empty() {
+        let named: Vec<(usize, f64)> = m
+            .term
+            .members
+            .iter()
+            .filter_map(|(value, s)| attr.value_index(value).map(|v| (v, *s)))
+            .collect();
+        any = !named.is_empty();
+        ratios = members_ratios(&attr.base_rates, &named);
+    }
     any.then_some((ai, ratios))
+}
+
+/// Ratios from members' shares: a named value `v` holds `D(v) = max(s_v, π(v))` of
+/// the item's members (a group about a faith is never less of that faith than
+/// everyone), the other values share the rest in their population proportions, and
+/// `L(v) = D(v)/π(v)`. So one stated share gives a strong ratio for a value that is
+/// rare in the loaded population and a mild one for a common value.
+fn members_ratios(base: &[f64], named: &[(usize, f64)]) -> Vec<f64> {
+    let mut dist = vec![0.0; base.len()];
+    let mut is_named = vec![false; base.len()];
+    for &(v, s) in named {
+        dist[v] = s.max(base[v]);
+        is_named[v] = true;
+    }
+    let taken: f64 = dist.iter().sum();
+    if taken >= 1.0 {
+        for d in &mut dist {
+            *d /= taken;
+        }
+    } else {
+        let rest: f64 = (0..base.len())
+            .filter(|&u| !is_named[u])
+            .map(|u| base[u])
+            .sum();
+        for u in (0..base.len()).filter(|&u| !is_named[u]) {
+            dist[u] = if rest > 0.0 {
+                (1.0 - taken) * base[u] / rest
+            } else {
+                0.0
+            };
+        }
+    }
+    dist.iter()
+        .zip(base)
+        .map(|(d, b)| if *b > 0.0 { d / b } else { 1.0 })
+        .collect()
 }
 
 /// The strength of a set of ratios: the largest |ln L|.
@@ -101,7 +147,7 @@ pub(crate) fn vocabulary_item(
         for (ai, ratios, m) in best {
             let attr = &priors.attributes[ai];
             let dist = normalise(ratios.iter().zip(&attr.base_rates).map(|(l, b)| l * b));
-            let leans: Vec<String> = m
+            let mut leans: Vec<String> = m
                 .term
                 .lean
                 .iter()
@@ -110,6 +156,16 @@ pub(crate) fn vocabulary_item(
                         .map(|vi| format!("{} ×{r}", attr.values[vi].label))
                 })
                 .collect();
+            leans.extend(m.term.members.iter().filter_map(|(v, s)| {
+                attr.value_index(v).map(|vi| {
+                    format!(
+                        "{} for {:.0}% of members (×{:.1} here)",
+                        attr.values[vi].label,
+                        100.0 * s,
+                        ratios[vi]
+                    )
+                })
+            }));
             set.push(Evidence::from_distribution(
                 Subject::Item(i),
                 ai,
@@ -122,5 +178,29 @@ pub(crate) fn vocabulary_item(
                 ),
             ));
         }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::members_ratios;
+
+    #[test]
+    fn members_share_gives_rate_aware_ratios() {
+        // A value at 3% of the population, stated at 75% of members:
+        // L = 0.75/0.03 = 25 for it; the rest, 25% over 97%, gives 0.25/0.97 to each other.
+        let base = [0.47, 0.03, 0.50];
+        let r = members_ratios(&base, &[(1, 0.75)]);
+        assert!((r[1] - 25.0).abs() < 1e-12, "{r:?}");
+        assert!((r[0] - 0.25 / 0.97).abs() < 1e-12 && (r[2] - r[0]).abs() < 1e-12);
+        // The implied members' distribution sums to 1.
+        let d: f64 = r.iter().zip(&base).map(|(l, b)| l * b).sum();
+        assert!((d - 1.0).abs() < 1e-12);
+        // A common value is never pushed under its own rate.
+        let r = members_ratios(&[0.9, 0.1], &[(0, 0.75)]);
+        assert!(
+            (r[0] - 1.0).abs() < 1e-12 && (r[1] - 1.0).abs() < 1e-12,
+            "{r:?}"
+        );
     }
 }

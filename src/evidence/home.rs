@@ -49,7 +49,7 @@ pub const HOME_REGION: &str = "home_region";
 /// Attribute id of the town level.
 pub const HOME_TOWN: &str = "home_town";
 /// Value id of the remainder of the region and town levels.
-pub const ELSEWHERE: &str = "elsewhere";
+pub const ELSEWHERE: &str = crate::priors::REMAINDER_ID;
 
 /// Towns kept as values of the town level at most (the most weighed by the
 /// footprint's names); the rest of their mass goes to "elsewhere" (common practice,

@@ -26,6 +26,10 @@ pub struct Term {
     pub attribute: Option<String>,
     /// Likelihood ratio per value id (others 1).
     pub lean: Vec<(String, f64)>,
+    /// Share of an item's members who hold each value named (a rule of thumb such as
+    /// "most members of a mosque's group are Muslim"); the ratio then follows from the
+    /// loaded priors' population rates ([`crate::evidence`]'s belief evidence).
+    pub members: Vec<(String, f64)>,
 }
 
 /// A term found in a name.
@@ -59,6 +63,8 @@ struct RawTerm {
     attribute: Option<String>,
     #[serde(default)]
     lean: BTreeMap<String, f64>,
+    #[serde(default)]
+    members: BTreeMap<String, f64>,
 }
 
 impl Vocabulary {
@@ -87,11 +93,26 @@ impl Vocabulary {
                     )),
                 }
             }
-            if !t.lean.is_empty() && t.attribute.is_none() {
-                problems.push(format!("{at}: 'lean' needs an 'attribute'"));
+            if !(t.lean.is_empty() && t.members.is_empty()) && t.attribute.is_none() {
+                problems.push(format!("{at}: 'lean' and 'members' need an 'attribute'"));
             }
-            if t.lean.is_empty() && special.is_empty() {
-                problems.push(format!("{at}: says nothing (no 'lean' and no 'special')"));
+            if !t.lean.is_empty() && !t.members.is_empty() {
+                problems.push(format!("{at}: give 'lean' or 'members', not both"));
+            }
+            if t.lean.is_empty() && t.members.is_empty() && special.is_empty() {
+                problems.push(format!(
+                    "{at}: says nothing (no 'lean', 'members' or 'special')"
+                ));
+            }
+            for (v, s) in &t.members {
+                if !(s.is_finite() && *s > 0.0 && *s < 1.0) {
+                    problems.push(format!(
+                        "{at}: members share for '{v}' must be above 0 and under 1"
+                    ));
+                }
+            }
+            if t.members.values().sum::<f64>() >= 1.0 {
+                problems.push(format!("{at}: members shares must add up to under 1"));
             }
             for (v, r) in &t.lean {
                 if !(r.is_finite() && *r > 0.0) {
@@ -113,6 +134,7 @@ impl Vocabulary {
                 special,
                 attribute: t.attribute,
                 lean: t.lean.into_iter().collect(),
+                members: t.members.into_iter().collect(),
             });
         }
         if !problems.is_empty() {
@@ -185,7 +207,7 @@ special = ["health"]
             "format = 1\n[[term]]\nwords = [\"x\"]\nspecial = [\"hobbies\"]\nlean = { a = -1 }\n";
         let err = Vocabulary::parse(bad, "bad.toml").unwrap_err().to_string();
         assert!(err.contains("not a special category"), "{err}");
-        assert!(err.contains("needs an 'attribute'"), "{err}");
+        assert!(err.contains("need an 'attribute'"), "{err}");
         assert!(err.contains("ratio above 0"), "{err}");
     }
 }

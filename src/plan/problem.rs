@@ -370,19 +370,7 @@ impl Problem {
             for &ci in &touching {
                 touches[ci] = true;
             }
-            // A value at least as common in the population as its level has none: no
-            // plan takes it under its population rate, and guessing it needs no
-            // footprint (the "somewhere else" remainder of the home levels).
-            let tau: Vec<f64> = (0..k)
-                .map(|v| {
-                    let level = t.level(v);
-                    if model.log_base[v] >= level.ln() {
-                        1.0
-                    } else {
-                        level
-                    }
-                })
-                .collect();
+            let tau: Vec<f64> = (0..k).map(|v| t.level(v)).collect();
             let kappa = tau.iter().map(|&x| ((1.0 - x) / x).ln()).collect();
             attrs.push(PAttr {
                 attribute: t.attribute,

@@ -438,6 +438,8 @@ pub fn summary(o: &PlanOutcome, priors: &Priors, show_real: bool) -> String {
                             lb.ceil().max(0.0),
                             if lb.ceil() == 1.0 { "is" } else { "are" }
                         ));
+                    } else if o.stopped.is_none() && o.method == Method::Exact {
+                        s.push_str(" It may not be the smallest such set: items that share a cause count together, which the proof of smallest does not cover.");
                     } else {
                         s.push_str(" It may not be the smallest such set.");
                     }

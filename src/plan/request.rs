@@ -272,12 +272,17 @@ impl PlanRequest {
 }
 
 /// Each value's own level for an attribute at alert level `level`, by the priors'
-/// rarity setting; `None` when that gives every value `level` (the rule is off, or no
-/// value is rare enough), or the attribute does not exist.
+/// rarity setting, with the remainder value (if any, [`crate::priors::REMAINDER_ID`])
+/// at 100%: guessing it discloses nothing, so no plan needs to push it down. `None`
+/// when that gives every value `level` (the rule is off, no value is rare enough and
+/// there is no remainder), or the attribute does not exist.
 fn rarity_levels(priors: &Priors, attribute: usize, level: f64) -> Option<Vec<f64>> {
     let a = priors.attributes.get(attribute)?;
-    let levels = priors.rarity.value_levels(level, &a.base_rates);
-    levels.iter().any(|&l| l < level).then_some(levels)
+    let mut levels = priors.rarity.value_levels(level, &a.base_rates);
+    if let Some(r) = a.remainder() {
+        levels[r] = 1.0;
+    }
+    levels.iter().any(|&l| l != level).then_some(levels)
 }
 
 /// A problem with the request itself.

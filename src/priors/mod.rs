@@ -30,7 +30,7 @@ pub use file::{
     ValueSpec,
 };
 pub use index::MatchedBy;
-pub use model::{AttrValue, Attribute, DEFAULT_SMOOTHING, Priors};
+pub use model::{AttrValue, Attribute, DEFAULT_SMOOTHING, Priors, REMAINDER_ID};
 pub use store::PriorItem;
 pub use write::{write_priors, write_priors_streaming};
 

@@ -41,7 +41,18 @@ pub struct Attribute {
     pub calibration: Calibration,
 }
 
+/// Id of a remainder value ("none of the values named", such as the home levels'
+/// "elsewhere"): guessing it discloses nothing, so the alert rule never flags it, the
+/// planner never constrains it and its reading says the footprint does not narrow the
+/// attribute down.
+pub const REMAINDER_ID: &str = "elsewhere";
+
 impl Attribute {
+    /// The remainder value's index, if the attribute has one ([`REMAINDER_ID`]).
+    pub fn remainder(&self) -> Option<usize> {
+        self.values.iter().position(|v| v.id == REMAINDER_ID)
+    }
+
     /// Find a value by id or label (case-insensitive).
     pub fn value_index(&self, s: &str) -> Option<usize> {
         let s = s.trim();

@@ -264,7 +264,12 @@ fn real_value_and_plan_accept_all_is_one_undo_step() {
     assert!(matches!(app.plan, PlanState::Running { .. }));
     finish_plan(&mut app, &fx);
     let result = app.current_plan().expect("plan ready").clone();
-    assert_eq!(result.outcome.status, Status::Optimal);
+    // Feasible, not proven smallest: items sharing a cause make the bounds unproven.
+    assert!(
+        matches!(result.outcome.status, Status::Optimal | Status::Feasible),
+        "{:?}",
+        result.outcome.status
+    );
     let hide = result.outcome.plan.as_ref().unwrap().subjects();
     assert!(!hide.is_empty(), "the demo teacher is exposed somewhere");
     let fx = app.handle_key(code(KeyCode::Enter));
@@ -441,14 +446,24 @@ fn snapshot_plan() {
 }
 
 #[test]
-fn snapshot_plan_proven() {
+fn snapshot_plan_exact() {
+    // The exact search runs to its end. Items sharing a cause count together
+    // (crate::combine), which the proof of smallest does not cover: the screen must say
+    // "proven" only when the status is Optimal.
     let mut app = App::new(persona_one_level("teacher"));
     let fx = press(&mut app, "3");
     finish_plan(&mut app, &fx);
-    assert_eq!(app.current_plan().unwrap().outcome.status, Status::Optimal);
+    let status = app.current_plan().unwrap().outcome.status;
     let screen = draw(&app, 80, 24);
-    assert!(screen.contains("Proven smallest"));
-    snap_all("plan_proven", &app);
+    match status {
+        Status::Optimal => assert!(screen.contains("Proven smallest"), "{screen}"),
+        Status::Feasible => assert!(
+            screen.contains("not proven smallest") && !screen.contains("Proven"),
+            "{screen}"
+        ),
+        other => panic!("the teacher has a plan: {other:?}"),
+    }
+    snap_all("plan_exact", &app);
     // PgDn scrolls to the usual advice (the coarse moves).
     app.handle_key(code(KeyCode::PageDown));
     let screen = draw(&app, 80, 24);
@@ -456,7 +471,7 @@ fn snapshot_plan_proven() {
         screen.contains("What the usual advice would do"),
         "{screen}"
     );
-    snap_all("plan_proven_scrolled", &app);
+    snap_all("plan_exact_scrolled", &app);
 }
 
 #[test]

@@ -9,7 +9,7 @@ use ratatui::layout::Rect;
 use ratatui::text::{Line, Span};
 use ratatui::widgets::Paragraph;
 use telltale::plan::{Method, PlanReport, Status, StopReason};
-use telltale::reading::{Level, level, percent};
+use telltale::reading::{Level, assess, percent};
 use telltale::whatif::PLAN_TIME_LIMIT;
 
 use super::widgets::{cell, cell_right, fit, wrap};
@@ -84,13 +84,17 @@ fn ready_words(r: &PlanResult, theme: Theme) -> (String, ratatui::style::Style) 
             format!("✓ Proven smallest: no set of fewer than {n} items does it.")
         }
         (Method::Exact, Status::Feasible) => {
-            let why = match o.stopped {
-                Some(StopReason::Cancelled) => "you stopped the search",
-                Some(StopReason::Deadline) => "the time limit was reached",
-                Some(StopReason::NodeLimit) => "the search limit was reached",
-                None => "the search could not prove more",
+            let mut t = match o.stopped {
+                Some(reason) => {
+                    let why = match reason {
+                        StopReason::Cancelled => "you stopped the search",
+                        StopReason::Deadline => "the time limit was reached",
+                        StopReason::NodeLimit => "the search limit was reached",
+                    };
+                    format!("◆ Best found when stopped ({why}): a smaller set may exist")
+                }
+                None => "◆ Best found, not proven smallest: items that share a cause count together, which the proof does not cover, so a smaller set may exist".into(),
             };
-            let mut t = format!("◆ Best found when stopped ({why}): a smaller set may exist");
             if let Some(lb) = o.lower_bound {
                 t.push_str(&format!("; at least {} needed", count(lb)));
             }
@@ -184,7 +188,7 @@ pub fn render(app: &App, frame: &mut Frame, area: Rect, theme: Theme) {
                     let p = probs[best];
                     (
                         format!("{} {}", attr.values[best].label, percent(p)),
-                        level(p, attr.base_rates[best], target),
+                        assess(attr, probs, target, &s.priors.rarity).level,
                     )
                 }
             }
