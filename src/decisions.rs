@@ -127,14 +127,17 @@ pub enum Error {
         "cannot find a folder for your saved decisions (no home folder); set {DATA_DIR_ENV} to choose one"
     )]
     NoDataDir,
-    #[error("cannot use the folder {dir} for saved decisions: {source}")]
-    Dir { dir: PathBuf, source: io::Error },
-    #[error("cannot save your decisions to {file}: {source}")]
-    Write { file: PathBuf, source: io::Error },
+    #[error("cannot use the folder {dir} for saved decisions: {cause}")]
+    // `cause` is said in the message and not also given as `source()` (said once).
+    Dir { dir: PathBuf, cause: io::Error },
+    #[error("cannot save your decisions to {file}: {cause}")]
+    // `cause` is said in the message and not also given as `source()` (said once).
+    Write { file: PathBuf, cause: io::Error },
     #[error("nothing is saved in the no-save mode")]
     NoSave,
-    #[error("cannot remove {file}: {source}")]
-    Remove { file: PathBuf, source: io::Error },
+    #[error("cannot remove {file}: {cause}")]
+    // `cause` is said in the message and not also given as `source()` (said once).
+    Remove { file: PathBuf, cause: io::Error },
 }
 
 /// What loading found.
@@ -250,7 +253,7 @@ impl Store {
         let dir = self.decisions_dir();
         create_private_dir(&dir).map_err(|source| Error::Dir {
             dir: dir.clone(),
-            source,
+            cause: source,
         })?;
         let path = self.path_for(&decisions.fingerprint);
         write_atomic(&path, |w| {
@@ -259,7 +262,7 @@ impl Store {
         })
         .map_err(|source| Error::Write {
             file: path.clone(),
-            source,
+            cause: source,
         })?;
         Ok(path)
     }
@@ -290,7 +293,7 @@ impl Store {
         match fs::remove_file(&seen) {
             Ok(()) => removed.push(seen),
             Err(e) if e.kind() == io::ErrorKind::NotFound => {}
-            Err(source) => return Err(Error::Remove { file: seen, source }),
+            Err(cause) => return Err(Error::Remove { file: seen, cause }),
         }
         // Empty folders go too (they say telltale was used here); a folder that still
         // holds something someone put there stays.
@@ -305,7 +308,7 @@ impl Store {
         let entries = match fs::read_dir(&dir) {
             Ok(e) => e,
             Err(e) if e.kind() == io::ErrorKind::NotFound => return Ok(Vec::new()),
-            Err(source) => return Err(Error::Dir { dir, source }),
+            Err(cause) => return Err(Error::Dir { dir, cause }),
         };
         let mut removed = Vec::new();
         for entry in entries.flatten() {
@@ -316,9 +319,9 @@ impl Store {
                 continue;
             }
             let path = entry.path();
-            fs::remove_file(&path).map_err(|source| Error::Remove {
+            fs::remove_file(&path).map_err(|cause| Error::Remove {
                 file: path.clone(),
-                source,
+                cause,
             })?;
             removed.push(path);
         }
@@ -335,12 +338,12 @@ impl Store {
     pub fn mark_cautions_seen(&self) -> Result<(), Error> {
         create_private_dir(&self.dir).map_err(|source| Error::Dir {
             dir: self.dir.clone(),
-            source,
+            cause: source,
         })?;
         let path = self.dir.join("cautions-seen");
         write_atomic(&path, |w| w.write_all(b"shown\n")).map_err(|source| Error::Write {
             file: path.clone(),
-            source,
+            cause: source,
         })
     }
 }

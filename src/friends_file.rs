@@ -14,11 +14,12 @@ use crate::text::name_key;
 
 #[derive(Debug, thiserror::Error)]
 pub enum Error {
-    #[error("{file}: cannot read the friends file: {source}")]
+    #[error("{file}: cannot read the friends file: {cause}")]
     Read {
         file: String,
-        #[source]
-        source: std::io::Error,
+        /// Said in the message and not also given as `source()`, so a printed error
+        /// chain says it once.
+        cause: std::io::Error,
     },
     #[error("{file}: {message}")]
     Header { file: String, message: String },
@@ -45,7 +46,7 @@ pub fn merge_friends_file(
     let file = path.display().to_string();
     let bytes = std::fs::read(path).map_err(|source| Error::Read {
         file: file.clone(),
-        source,
+        cause: source,
     })?;
     let (text, _) = crate::records::decode_text(&bytes);
     merge_friends_csv(footprint, &text, &file, priors)

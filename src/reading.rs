@@ -26,6 +26,13 @@ pub fn how_often(p: f64) -> String {
     format!("about 1 time in {n}")
 }
 
+/// A count with its noun, singular for exactly one: `count(1, "item", "items")` is
+/// "1 item", `count(0, "item", "items")` "0 items". Every "N things" a person reads
+/// goes through here, so no screen says "1 items" or "1 other values".
+pub fn count(n: usize, one: &str, many: &str) -> String {
+    format!("{n} {}", if n == 1 { one } else { many })
+}
+
 /// Percentage with sensible precision: "68%", "1.8%", "0.04%".
 pub fn percent(p: f64) -> String {
     let x = p * 100.0;
@@ -243,6 +250,17 @@ pub fn with_footing(sentence: String, rests_on_rules: bool) -> String {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn counts_are_singular_for_one_only() {
+        assert_eq!(count(0, "item", "items"), "0 items");
+        assert_eq!(count(1, "item", "items"), "1 item");
+        assert_eq!(count(2, "other value", "other values"), "2 other values");
+        assert_eq!(
+            count(1, "piece of evidence", "pieces of evidence"),
+            "1 piece of evidence"
+        );
+    }
 
     #[test]
     fn frequencies_read_naturally() {

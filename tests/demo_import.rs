@@ -40,6 +40,14 @@ fn both_layouts_import_exactly_what_was_written() {
         assert_eq!(fp.count(ItemKind::Follow), p.follows, "{} follows", p.slug);
         assert_eq!(fp.count(ItemKind::Event), p.events, "{} events", p.slug);
         assert_eq!(fp.friends.len(), p.friends, "{} friends", p.slug);
+        // One item count: the manifest's, the footprint's and every report's agree.
+        assert_eq!(fp.items.len(), p.items, "{} items", p.slug);
+        assert_eq!(
+            p.items,
+            p.likes + p.groups + p.follows + p.events,
+            "{} items are likes, groups, follows and events",
+            p.slug
+        );
         assert_eq!(fp.stats.duplicates_merged, 0, "{}", p.slug);
         assert!(fp.warnings.is_empty(), "{}: {:?}", p.slug, fp.warnings);
         let declared: Vec<&str> = ["age_band", "location", "politics", "religion"]
@@ -108,7 +116,7 @@ fn the_generator_reproduces_the_checked_in_demo() {
     assert_eq!(
         std::fs::read(&priors).expect("priors"),
         std::fs::read("reference-priors/demo-priors.json").expect("checked-in priors"),
-        "reference-priors/demo-priors.json is stale: run `cargo run --release -- synth demo`"
+        "reference-priors/demo-priors.json is stale: run `cargo run --release -- synth demo --out . --force`"
     );
     let fresh = tree(&exports);
     let shipped = tree(Path::new("demo-exports"));
@@ -120,7 +128,7 @@ fn the_generator_reproduces_the_checked_in_demo() {
     for (path, bytes) in &fresh {
         assert!(
             shipped[path] == *bytes,
-            "demo-exports/{path} is stale: run `cargo run --release -- synth demo`"
+            "demo-exports/{path} is stale: run `cargo run --release -- synth demo --out . --force`"
         );
     }
 }

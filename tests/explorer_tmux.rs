@@ -7,7 +7,7 @@
 //! the loading screen: it is up at once, Esc and Ctrl-C leave it with the terminal
 //! restored (a test-only variable makes the load slow), and a load error ends the
 //! explorer with the error's message. Skipped, with a message saying so, where tmux is
-//! absent.
+//! absent, except under CI (`CI=true`), where a missing tmux fails the test.
 
 use std::path::Path;
 use std::process::Command;
@@ -114,6 +114,11 @@ impl Drop for Tmux {
     }
 }
 
+/// CI sets `CI=true`: there a missing tool fails a test instead of skipping it.
+fn in_ci() -> bool {
+    std::env::var("CI").is_ok_and(|v| !matches!(v.trim(), "" | "0" | "false" | "no"))
+}
+
 fn tmux_available() -> bool {
     Command::new("tmux")
         .arg("-V")
@@ -133,9 +138,13 @@ fn first_probability(screen: &str) -> String {
 }
 
 /// A tmux driver on a server of its own (socket `SOCKET-PID`), or `None` after a
-/// SKIPPED line naming the test when tmux is not installed.
+/// SKIPPED line naming the test when tmux is not installed (a failure under CI).
 fn driver(test: &str, what: &str, socket: &str) -> Option<Tmux> {
     if !tmux_available() {
+        assert!(
+            !in_ci(),
+            "{test}: tmux is not installed, and under CI (CI=true) {what} must be driven in a real terminal (.ci/run installs tmux)"
+        );
         println!(
             "SKIPPED {test}: tmux is not installed, so {what} was not driven in a real terminal"
         );

@@ -31,7 +31,7 @@ fn draft_prints_a_mapping_that_parses_and_a_summary_on_stderr() {
     let text = out(&o);
     let m = Mapping::parse(&text, "draft").unwrap_or_else(|e| panic!("{e}\n{text}"));
     assert_eq!(m.sources.len(), 6);
-    assert!(err(&o).contains("Drafted 6 source(s)"), "{}", err(&o));
+    assert!(err(&o).contains("Drafted 6 sources"), "{}", err(&o));
     assert!(
         !text.contains("Drafted"),
         "the summary stays off standard output"
@@ -120,7 +120,7 @@ fn check_exits_3_when_a_source_finds_nothing() {
     assert_eq!(o.status.code(), Some(3), "{}", err(&o));
     let text = out(&o);
     assert!(text.contains("files:   none match"), "{text}");
-    assert!(text.contains("1 source(s) found nothing"), "{text}");
+    assert!(text.contains("1 source found nothing"), "{text}");
 }
 
 #[test]

@@ -3,7 +3,8 @@
 //! value out — no name, no probability beside "your value" (so the guess's figure
 //! cannot be matched against it), no real value in the JSON. `--show-real-values`
 //! puts them in, still under the warning. Error messages never repeat what was given
-//! with --true. Run on several demo personas, each real value once as the observer's
+//! with --true. The HTML page (`--format html`, the explorer's export) carries the
+//! warning in its title and before its heading. Run on several demo personas, each real value once as the observer's
 //! guess and once not. (The explorer's export: src/tui/tests_private.rs.)
 
 use std::process::{Command, Output};
@@ -142,12 +143,24 @@ fn plan_outputs_made_with_a_real_value_warn_first_and_never_give_it_away() {
             }
         }
 
+        // The HTML page (the explorer's export): the warning in its title and before
+        // its heading.
+        let html = run(&["--format", "html"]);
+        assert!(html.contains("<title>PRIVATE: "), "{persona} {truth} html");
+        let warned = html.find(&format!("<p class=\"private\"><strong>{WARNING}"));
+        let heading = html.find("<h1>");
+        assert!(
+            warned.is_some() && warned < heading,
+            "{persona} {truth} html: the warning before the heading"
+        );
         for (format, text) in [
             ("text", run(&[])),
             ("markdown", run(&["--format", "markdown"])),
             ("json", json_text.clone()),
+            ("html", html.clone()),
         ] {
             let head = text.trim_start_matches(['>', ' ', '*', '{', '\n', '"']);
+            let head = if format == "html" { WARNING } else { head };
             assert!(
                 head.starts_with("PRIVATE") || head.starts_with("warning\": \"PRIVATE"),
                 "{persona} {truth} {format}: the warning first:\n{}",

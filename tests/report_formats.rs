@@ -65,8 +65,10 @@ fn every_format_has_the_sources_special_categories_and_friends() {
         for s in &report.sources {
             assert!(html.contains(&escape_html(&s.label)), "{name}: {}", s.label);
         }
+        // The list is cut after `top` entries in every format (report::cut), with a
+        // sentence saying how many were left out.
         if let Some(sp) = &report.special_categories {
-            for item in &sp.items {
+            for item in sp.items.iter().take(15) {
                 assert!(
                     html.contains(&escape_html(&item.name)),
                     "{name}: {}",

@@ -8,11 +8,12 @@ pub type Result<T> = std::result::Result<T, Error>;
 
 #[derive(Debug, thiserror::Error)]
 pub enum Error {
-    #[error("{path}: cannot open: {source}")]
+    #[error("{path}: cannot open: {cause}")]
     Open {
         path: PathBuf,
-        #[source]
-        source: std::io::Error,
+        /// Said in the message and not also given as `source()`, so a printed error
+        /// chain says it once.
+        cause: std::io::Error,
     },
     #[error("{path}: not a zip file or a folder")]
     NotAnArchive { path: PathBuf },

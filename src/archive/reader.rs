@@ -55,7 +55,7 @@ impl Archive {
     pub fn open(path: &Path, limits: &Limits) -> Result<Archive> {
         let meta = std::fs::metadata(path).map_err(|source| Error::Open {
             path: path.to_path_buf(),
-            source,
+            cause: source,
         })?;
         if meta.is_dir() {
             return Ok(Archive::Folder(Folder::open(path, limits)?));

@@ -26,7 +26,7 @@ impl Zipped {
     pub fn open(path: &Path, limits: &Limits) -> Result<Zipped> {
         let file = File::open(path).map_err(|source| Error::Open {
             path: to_path_buf(path),
-            source,
+            cause: source,
         })?;
         Zipped::from_source(Box::new(BufReader::new(file)), path, limits)
     }

@@ -45,6 +45,12 @@ pub enum Command {
     /// Remove what the explorer saved on this computer for an archive (hidden and
     /// kept items, real values, alert levels, goal), or for every archive with --all.
     Forget(ForgetArgs),
+    /// Print a completion script for your shell (bash, zsh, fish, powershell, elvish),
+    /// e.g. `telltale completions bash > ~/.local/share/bash-completion/completions/telltale`.
+    Completions(CompletionsArgs),
+    /// Print the manual page (roff; `telltale man | man -l -`), or write one page per
+    /// command into a folder with --dir.
+    Man(ManArgs),
 }
 
 /// What the explorer keeps between runs.
@@ -75,6 +81,21 @@ pub struct ForgetArgs {
 
     #[command(flatten)]
     pub input: SourceArgs,
+}
+
+#[derive(Debug, Args)]
+pub struct CompletionsArgs {
+    /// The shell to complete for.
+    #[arg(value_enum)]
+    pub shell: clap_complete::Shell,
+}
+
+#[derive(Debug, Args)]
+pub struct ManArgs {
+    /// Write telltale.1 and a page for each command (telltale-scan.1, …) into this
+    /// folder instead of printing telltale.1.
+    #[arg(long, value_name = "DIR")]
+    pub dir: Option<PathBuf>,
 }
 
 #[derive(Debug, Subcommand)]
@@ -114,8 +135,8 @@ pub struct MappingCheckArgs {
 
 #[derive(Debug, Subcommand)]
 pub enum SynthCommand {
-    /// Regenerate the bundled demo: reference priors and persona archives of the
-    /// fictional Lanternwick network (reproducible from the seed).
+    /// Generate the demo into a folder you name: reference priors and persona archives
+    /// of the fictional Lanternwick network (reproducible from the seed).
     Demo(SynthDemoArgs),
     /// Write a cohort of invented members' archives (layout A, with their declared
     /// attributes) and the mapping beside them, for `priors build` and `eval`.
@@ -279,19 +300,17 @@ pub struct EvalArgs {
 
 #[derive(Debug, Args)]
 pub struct SynthDemoArgs {
+    /// Folder to write into: DIR/reference-priors/demo-priors.json and
+    /// DIR/demo-exports/ (`--out . --force` in a checkout regenerates the bundled demo).
+    #[arg(long, value_name = "DIR")]
+    pub out: PathBuf,
+    /// Replace files that are there with other contents (files already equal to what
+    /// the generator makes are never rewritten).
+    #[arg(long)]
+    pub force: bool,
     /// Random seed; the same seed gives the same files.
     #[arg(long, default_value_t = 7)]
     pub seed: u64,
-    /// Where to write the priors file.
-    #[arg(
-        long,
-        value_name = "FILE",
-        default_value = "reference-priors/demo-priors.json"
-    )]
-    pub priors_out: PathBuf,
-    /// Folder for the persona archives, their mappings and manifest.json.
-    #[arg(long, value_name = "DIR", default_value = "demo-exports")]
-    pub exports_out: PathBuf,
     /// Members counted into the priors.
     #[arg(long, default_value_t = 20_000)]
     pub members: usize,

@@ -10,6 +10,7 @@ use anyhow::{Context, Result};
 use telltale::archive::Archive;
 use telltale::limits::Limits;
 use telltale::mapping::{self, Mapping, MappingCheck, SourceKind, check_against, draft};
+use telltale::reading::count;
 use telltale::scan::load_priors;
 
 use super::args::{MappingCheckArgs, MappingCommand, MappingDraftArgs};
@@ -44,11 +45,15 @@ fn run_draft(args: &MappingDraftArgs) -> Result<ExitCode> {
         eprintln!("warning: {w}");
     }
     emit(None, |out| out.write_all(drafted.to_toml().as_bytes()))?;
+    let save_as = mapping::beside_mapping(&args.archive)
+        .map(|p| p.display().to_string())
+        .unwrap_or_else(|| "YOUR-FILE.toml".into());
     eprintln!(
-        "Drafted {} source(s) from {} data file(s) of {}. Check every guess, then try it:\n  telltale mapping check {} --mapping YOUR-FILE.toml",
-        drafted.sources.len(),
-        drafted.data_files(),
+        "Drafted {} from {} of {}. Save it, check every guess, then try it:\n  telltale mapping draft {} > {save_as}\n  telltale mapping check {} --mapping {save_as}\nSaved as {save_as} (beside the archive, with its name) it is found without --mapping.",
+        count(drafted.sources.len(), "source", "sources"),
+        count(drafted.data_files(), "data file", "data files"),
         drafted.archive,
+        args.archive.display(),
         args.archive.display()
     );
     Ok(ExitCode::SUCCESS)
@@ -88,10 +93,10 @@ fn write_checks(
     let checks = &check.sources;
     writeln!(
         out,
-        "{} with the mapping {} ({} source(s)):",
+        "{} with the mapping {} ({}):",
         archive,
         mapping.origin,
-        checks.len()
+        count(checks.len(), "source", "sources")
     )?;
     for w in &check.archive_warnings {
         writeln!(out, "warning: {w}")?;
@@ -127,8 +132,12 @@ fn write_checks(
         if c.warnings.len() > WARNINGS_SHOWN {
             writeln!(
                 out,
-                "   … and {} more warning(s)",
-                c.warnings.len() - WARNINGS_SHOWN
+                "   … and {}",
+                count(
+                    c.warnings.len() - WARNINGS_SHOWN,
+                    "more warning",
+                    "more warnings"
+                )
             )?;
         }
     }
@@ -146,7 +155,8 @@ fn write_checks(
     } else {
         writeln!(
             out,
-            "{empty} source(s) found nothing: fix their files, records or name settings (docs/mapping.md)."
+            "{} nothing: fix their files, records or name settings (docs/mapping.md).",
+            count(empty, "source found", "sources found")
         )
     }
 }

@@ -11,6 +11,7 @@ mod output;
 mod plan;
 mod priors;
 mod scan;
+mod shell;
 mod synth;
 
 use std::io::Write;
@@ -45,6 +46,8 @@ pub fn main() -> ExitCode {
         Some(Command::Eval(args)) => eval::run(&args),
         Some(Command::Mapping(cmd)) => mapping::run(cmd),
         Some(Command::Forget(args)) => forget::run(&args),
+        Some(Command::Completions(args)) => shell::completions(args.shell),
+        Some(Command::Man(args)) => shell::man(args.dir.as_deref()),
         None => match cli.archive {
             Some(archive) => explore::run(archive, cli.input, cli.session),
             None => {
@@ -58,8 +61,57 @@ pub fn main() -> ExitCode {
         Ok(code) => code,
         Err(e) => {
             // Not eprintln!: it panics when standard error is gone (a closed terminal).
-            let _ = writeln!(std::io::stderr(), "telltale: {e:#}");
+            let _ = writeln!(std::io::stderr(), "telltale: {}", said_once(&e));
             ExitCode::from(EXIT_ERROR)
         }
+    }
+}
+
+/// The error and its causes, joined with ": ", each cause said once: a cause whose
+/// text the message so far already ends with (an error that puts its source in its
+/// own message and also returns it from `source()`) is not said again.
+fn said_once(e: &anyhow::Error) -> String {
+    let mut text = String::new();
+    for cause in e.chain() {
+        let part = cause.to_string();
+        if text.ends_with(&part) {
+            continue;
+        }
+        if !text.is_empty() {
+            text.push_str(": ");
+        }
+        text.push_str(&part);
+    }
+    text
+}
+
+#[cfg(test)]
+mod tests {
+    use super::said_once;
+
+    /// An error that says its source in its message and also returns it.
+    #[derive(Debug, thiserror::Error)]
+    #[error("data.json: cannot open: {source}")]
+    struct Doubled {
+        source: std::io::Error,
+    }
+
+    fn missing() -> std::io::Error {
+        std::io::Error::new(std::io::ErrorKind::NotFound, "no such file")
+    }
+
+    #[test]
+    fn a_cause_already_in_the_message_is_said_once() {
+        let e = anyhow::Error::new(Doubled { source: missing() }).context("cannot use it");
+        assert_eq!(
+            said_once(&e),
+            "cannot use it: data.json: cannot open: no such file"
+        );
+    }
+
+    #[test]
+    fn distinct_causes_are_all_said() {
+        let e = anyhow::Error::new(missing()).context("cannot write out.txt");
+        assert_eq!(said_once(&e), "cannot write out.txt: no such file");
     }
 }

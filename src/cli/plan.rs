@@ -7,10 +7,11 @@ use std::time::Duration;
 use anyhow::{Context, Result, anyhow, bail};
 use telltale::footprint::Footprint;
 use telltale::plan::{
-    Budget, Method, PlanRequest, build_report_with, find_subject, solve, write_json,
-    write_markdown, write_text,
+    Budget, Method, PAGE_TOP, PlanRequest, build_report_with, find_subject, solve, write_html_page,
+    write_json, write_markdown, write_text,
 };
 use telltale::priors::Priors;
+use telltale::report::RowCount;
 use telltale::scan::Scan;
 
 use super::args::{PlanArgs, PlanMethod, ReportFormat};
@@ -120,13 +121,6 @@ fn request(args: &PlanArgs, priors: &Priors, footprint: &Footprint) -> Result<Pl
 }
 
 pub fn run(args: &PlanArgs) -> Result<ExitCode> {
-    if args.output.format == ReportFormat::Html {
-        bail!(
-            "telltale plan writes text, json or markdown; for an HTML page with the plan, \
-             open the archive in the explorer (telltale ARCHIVE), let its plan screen (3) \
-             work the plan out, then press e and choose HTML"
-        );
-    }
     let mut priors = super::scan::priors(&args.input)?;
     let input = input(args.archive.clone(), &args.input)?;
     let scan = Scan::run(&input, &mut priors)?;
@@ -134,6 +128,7 @@ pub fn run(args: &PlanArgs) -> Result<ExitCode> {
     telltale::lexicon::release_bundled();
     let req = request(args, &priors, &scan.footprint)?;
     let outcome = solve(&scan.exposure, &req).context("cannot plan")?;
+    let levels = alert_levels(&req, &priors);
     let report = build_report_with(
         &scan.archive_name,
         &scan.footprint,
@@ -146,8 +141,28 @@ pub fn run(args: &PlanArgs) -> Result<ExitCode> {
             ReportFormat::Text => write_text(&report, out),
             ReportFormat::Json => write_json(&report, out),
             ReportFormat::Markdown => write_markdown(&report, out),
-            ReportFormat::Html => unreachable!("refused above"),
+            // The explorer's export: the scan report, judged by the same alert levels
+            // as the plan, with the plan after its item table; a plan aimed at real
+            // values makes the whole page private (its warning goes first).
+            ReportFormat::Html => {
+                let mut page = scan.report_with(&priors, RowCount::First(PAGE_TOP));
+                page.set_alert_levels(&priors, &levels);
+                page.warning = report.warning.clone();
+                write_html_page(&page, PAGE_TOP, Some(&report), out)
+            }
         }
     })?;
     Ok(ExitCode::SUCCESS)
+}
+
+/// Each attribute's alert level in the request, in the priors' order (the priors' own
+/// where the request has no target for it).
+fn alert_levels(req: &PlanRequest, priors: &Priors) -> Vec<f64> {
+    let mut levels: Vec<f64> = priors.attributes.iter().map(|a| a.threshold).collect();
+    for t in &req.targets {
+        if let Some(l) = levels.get_mut(t.attribute) {
+            *l = t.threshold;
+        }
+    }
+    levels
 }

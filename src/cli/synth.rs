@@ -3,10 +3,11 @@
 use std::process::ExitCode;
 
 use anyhow::{Context, Result};
-use telltale::reading::percent;
+use telltale::reading::{count, percent};
+use telltale::synth::DemoConfig;
 use telltale::synth::cohort::{CohortConfig, generate_cohort};
+use telltale::synth::demo_files::{DEMO_EXPORTS, write_demo};
 use telltale::synth::large::{LargeConfig, write_large_archive, write_large_priors};
-use telltale::synth::{DemoConfig, generate_demo};
 
 use super::args::SynthCommand;
 
@@ -72,15 +73,37 @@ pub fn run(cmd: SynthCommand) -> Result<ExitCode> {
                 items: args.items,
                 ..DemoConfig::default()
             };
-            let out = generate_demo(&cfg, &args.priors_out, &args.exports_out)
-                .context("cannot write the demo files")?;
+            let (out, files) = write_demo(&cfg, &args.out, args.force)
+                .with_context(|| format!("cannot write the demo in {}", args.out.display()))?;
+            let exports = args.out.join(DEMO_EXPORTS);
             println!(
-                "Wrote {} ({} reference items) and {} persona archive(s) under {}.",
+                "Demo in {}: {} ({} reference items) and {} under {}.",
+                args.out.display(),
                 out.priors_path.display(),
                 out.priors_items,
-                out.personas.len(),
-                args.exports_out.display()
+                count(out.personas.len(), "persona archive", "persona archives"),
+                exports.display()
             );
+            println!(
+                "  {} new, {} replaced, {} left as they were (already the same).",
+                count(files.created.len(), "file", "files"),
+                files.replaced.len(),
+                files.unchanged.len()
+            );
+            for f in &files.replaced {
+                println!("  replaced {}", args.out.join(f).display());
+            }
+            if !files.foreign.is_empty() {
+                println!(
+                    "  Not made by the generator, left alone: {}.",
+                    files
+                        .foreign
+                        .iter()
+                        .map(|f| args.out.join(f).display().to_string())
+                        .collect::<Vec<_>>()
+                        .join(", ")
+                );
+            }
             println!(
                 "\nCalibration on {} held-out invented members:",
                 cfg.held_out

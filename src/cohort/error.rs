@@ -5,11 +5,12 @@ use std::path::PathBuf;
 
 #[derive(Debug, thiserror::Error)]
 pub enum Error {
-    #[error("cannot read the cohort folder {dir}: {source}")]
+    #[error("cannot read the cohort folder {dir}: {cause}")]
     ReadDir {
         dir: PathBuf,
-        #[source]
-        source: std::io::Error,
+        /// Said in the message and not also given as `source()`, so a printed error
+        /// chain says it once.
+        cause: std::io::Error,
     },
     #[error("{dir}: no archive could be read ({warnings} problem(s); see the warnings)")]
     Empty { dir: PathBuf, warnings: usize },

@@ -85,7 +85,7 @@ fn is_archive(path: &Path) -> bool {
 pub fn list_archives(dir: &Path) -> Result<Vec<PathBuf>> {
     let rd = std::fs::read_dir(dir).map_err(|source| Error::ReadDir {
         dir: dir.to_path_buf(),
-        source,
+        cause: source,
     })?;
     let mut out: Vec<PathBuf> = rd
         .filter_map(|e| e.ok().map(|e| e.path()))

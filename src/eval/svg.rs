@@ -6,6 +6,9 @@ use std::fmt::Write;
 
 use super::report::{AttrEval, Bin, EvalReport};
 
+/// What the accuracy charts' percentages count, up their left edge.
+const Y_ACCURACY: &str = "guesses right (accuracy)";
+
 /// Series colours (readable on white, distinguishable in greyscale by order).
 const COLOURS: [&str; 6] = [
     "#1b5e8c", "#c0622d", "#4d8c3a", "#7a4f9a", "#8c6d1b", "#555555",
@@ -36,7 +39,9 @@ impl Frame {
     }
 }
 
-fn open(out: &mut String, f: &Frame, title: &str) {
+/// Start a chart: the frame, its title, the horizontal grid with 0–100% labels, and
+/// `y_label` written up the left edge saying what those percentages count.
+fn open(out: &mut String, f: &Frame, title: &str, y_label: &str) {
     let _ = write!(
         out,
         r#"<svg xmlns="http://www.w3.org/2000/svg" width="{w}" height="{h}" viewBox="0 0 {w} {h}" role="img" aria-label="{t}" font-family="sans-serif" font-size="12"><title>{t}</title><rect width="{w}" height="{h}" fill="white"/>"#,
@@ -58,6 +63,12 @@ fn open(out: &mut String, f: &Frame, title: &str) {
             p = k * 25
         );
     }
+    let _ = write!(
+        out,
+        r#"<text transform="translate(14,{cy:.1}) rotate(-90)" text-anchor="middle">{l}</text>"#,
+        cy = (f.y(0.0) + f.y(1.0)) / 2.0,
+        l = escape(y_label)
+    );
 }
 
 fn legend(out: &mut String, f: &Frame, names: &[&str]) {
@@ -78,7 +89,7 @@ pub fn accuracy_bars(attrs: &[AttrEval]) -> String {
     let f = Frame {
         w: 640.0,
         h: 300.0,
-        left: 48.0,
+        left: 64.0,
         right: 12.0,
         top: 30.0,
         bottom: 40.0,
@@ -88,6 +99,7 @@ pub fn accuracy_bars(attrs: &[AttrEval]) -> String {
         &mut out,
         &f,
         "Accuracy per attribute: model, majority value, uniform guess",
+        Y_ACCURACY,
     );
     legend(
         &mut out,
@@ -128,7 +140,7 @@ pub fn share_lines(r: &EvalReport) -> String {
     let f = Frame {
         w: 640.0,
         h: 300.0,
-        left: 48.0,
+        left: 64.0,
         right: 12.0,
         top: 30.0,
         bottom: 40.0,
@@ -138,6 +150,7 @@ pub fn share_lines(r: &EvalReport) -> String {
         &mut out,
         &f,
         "Accuracy as the share of members with public attributes grows",
+        Y_ACCURACY,
     );
     let names: Vec<&str> = r.attributes.iter().map(|a| a.label.as_str()).collect();
     legend(&mut out, &f, &names);
@@ -189,7 +202,7 @@ pub fn reliability(a: &AttrEval) -> String {
     let f = Frame {
         w: 320.0,
         h: 316.0,
-        left: 48.0,
+        left: 64.0,
         right: 12.0,
         top: 46.0,
         bottom: 40.0,
@@ -202,6 +215,7 @@ pub fn reliability(a: &AttrEval) -> String {
             "{}: how often guesses at each confidence were right",
             a.label
         ),
+        "guesses that were right",
     );
     legend(&mut out, &f, &["before calibration", "after"]);
     let _ = write!(

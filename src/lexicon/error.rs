@@ -4,11 +4,12 @@ pub type Result<T> = std::result::Result<T, Error>;
 
 #[derive(Debug, thiserror::Error)]
 pub enum Error {
-    #[error("{file}: cannot read the lexicon: {source}")]
+    #[error("{file}: cannot read the lexicon: {cause}")]
     Read {
         file: String,
-        #[source]
-        source: std::io::Error,
+        /// Said in the message and not also given as `source()`, so a printed error
+        /// chain says it once.
+        cause: std::io::Error,
     },
     #[error("{file}: line {line}: {message}")]
     Line {

@@ -25,11 +25,12 @@ impl fmt::Display for Problem {
 
 #[derive(Debug, thiserror::Error)]
 pub enum Error {
-    #[error("{file}: cannot read the mapping file: {source}")]
+    #[error("{file}: cannot read the mapping file: {cause}")]
     Read {
         file: String,
-        #[source]
-        source: std::io::Error,
+        /// Said in the message and not also given as `source()`, so a printed error
+        /// chain says it once.
+        cause: std::io::Error,
     },
     #[error("{file}: line {line}, column {column}: not valid TOML: {message}")]
     Syntax {

@@ -47,7 +47,7 @@ pub fn locate(archive: &mut Archive) -> Result<FoundMapping> {
         if candidate.is_file() {
             let text = std::fs::read_to_string(&candidate).map_err(|source| Error::Read {
                 file: candidate.display().to_string(),
-                source,
+                cause: source,
             })?;
             return Ok(FoundMapping {
                 text,
@@ -60,19 +60,24 @@ pub fn locate(archive: &mut Archive) -> Result<FoundMapping> {
     })
 }
 
-fn beside(archive: &Path) -> Vec<PathBuf> {
-    let mut out = Vec::new();
+/// The mapping file of an archive's own name beside it (`exports/reporter` →
+/// `exports/reporter.mapping.toml`, `student.zip` → `student.mapping.toml`), the first
+/// place telltale looks outside the archive; `None` for a path with no name (`/`).
+pub fn beside_mapping(archive: &Path) -> Option<PathBuf> {
     let parent = archive.parent().unwrap_or(Path::new("."));
     let stem = if archive.is_dir() {
         archive.file_name()
     } else {
         archive.file_stem()
-    };
-    if let Some(stem) = stem {
-        let mut name = stem.to_os_string();
-        name.push(".mapping.toml");
-        out.push(parent.join(name));
-    }
+    }?;
+    let mut name = stem.to_os_string();
+    name.push(".mapping.toml");
+    Some(parent.join(name))
+}
+
+fn beside(archive: &Path) -> Vec<PathBuf> {
+    let parent = archive.parent().unwrap_or(Path::new("."));
+    let mut out: Vec<PathBuf> = beside_mapping(archive).into_iter().collect();
     out.push(parent.join(MAPPING_FILE_NAME));
     out
 }

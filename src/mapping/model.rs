@@ -163,7 +163,7 @@ impl Mapping {
     pub fn load(path: &Path) -> Result<Mapping> {
         let text = std::fs::read_to_string(path).map_err(|source| Error::Read {
             file: path.display().to_string(),
-            source,
+            cause: source,
         })?;
         Mapping::parse(&text, &path.display().to_string())
     }

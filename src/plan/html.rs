@@ -11,6 +11,25 @@ use super::render::{figure_or, state_words, verdict, why, withheld};
 use super::report::{AttrReport, PlanReport};
 use crate::reading::percent;
 use crate::report::escape_html as escape;
+use crate::report::{ScanReport, write_html_with};
+
+/// Items listed in the scan part of the page (the explorer's export and
+/// `telltale plan --format html` make the same page).
+pub const PAGE_TOP: usize = 25;
+
+/// The whole page: the scan report of `scan` (its first `top` items) with the plan's
+/// section after the item table, or without one when `plan` is `None`.
+pub fn write_html_page(
+    scan: &ScanReport,
+    top: usize,
+    plan: Option<&PlanReport>,
+    out: &mut dyn Write,
+) -> io::Result<()> {
+    write_html_with(scan, top, out, &mut |w| match plan {
+        Some(p) => write_html_section(p, w),
+        None => Ok(()),
+    })
+}
 
 /// Write the section (an `<h2>` and what follows it).
 pub fn write_html_section(r: &PlanReport, out: &mut dyn Write) -> io::Result<()> {

@@ -31,7 +31,7 @@ mod select;
 mod solve;
 
 pub use exact::StopReason;
-pub use html::write_html_section;
+pub use html::{PAGE_TOP, write_html_page, write_html_section};
 pub use outcome::{
     AttrState, Blocked, GreedySummary, HideItem, Infeasibility, MoveOutcome, Plan, PlanOutcome,
     Reason, SearchStats, Status,

@@ -226,8 +226,15 @@ pub fn write_text(r: &PlanReport, out: &mut dyn Write) -> io::Result<()> {
     }
     writeln!(out, "\nHOW THIS WAS WORKED OUT")?;
     let mut lines = vec![format!(
-        "{} candidate(s) with evidence were considered ({} without evidence left out, {} kept visible by you).",
-        r.search.candidates, r.search.pruned, r.search.kept
+        "{} with evidence {} considered ({} without evidence left out, {} kept visible by you).",
+        crate::reading::count(r.search.candidates, "candidate", "candidates"),
+        if r.search.candidates == 1 {
+            "was"
+        } else {
+            "were"
+        },
+        r.search.pruned,
+        r.search.kept
     )];
     match (r.greedy.count, r.greedy.excess_over_plan) {
         (Some(n), Some(x)) if x > 1e-9 => lines.push(format!(

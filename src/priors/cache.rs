@@ -80,7 +80,7 @@ impl Priors {
         let origin = path.display().to_string();
         let read_err = |source| Error::Read {
             file: origin.clone(),
-            source,
+            cause: source,
         };
         let mut notes = Vec::new();
         let hash = hash_file(path).map_err(read_err)?;

@@ -96,7 +96,7 @@ impl Priors {
     pub fn load(path: &Path) -> Result<Priors> {
         let text = std::fs::read_to_string(path).map_err(|source| Error::Read {
             file: path.display().to_string(),
-            source,
+            cause: source,
         })?;
         Priors::parse(&text, &path.display().to_string())
     }

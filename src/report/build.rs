@@ -122,6 +122,39 @@ pub struct ArchiveInfo {
     pub files_read: usize,
     pub records_skipped: usize,
     pub hidden: usize,
+    /// Records that repeated an item already read (same kind and id or name) and were
+    /// counted once, into `items`.
+    pub merged: usize,
+}
+
+impl ArchiveInfo {
+    /// The item count as every report and the explorer say it: "114 items (15 events,
+    /// 8 follows, 65 groups, 26 likes)", with "; 3 repeated records counted once" when
+    /// the import merged repeats. Items are likes, groups, follows and events; the
+    /// friend list is not one of them.
+    pub fn items_phrase(&self) -> String {
+        let kinds: Vec<String> = self
+            .by_kind
+            .iter()
+            .filter(|(_, n)| **n > 0)
+            .map(|(k, n)| crate::reading::count(*n, k.trim_end_matches('s'), k))
+            .collect();
+        let mut inside = if kinds.is_empty() {
+            "none".to_string()
+        } else {
+            kinds.join(", ")
+        };
+        if self.merged > 0 {
+            inside.push_str(&format!(
+                "; {} counted once",
+                crate::reading::count(self.merged, "repeated record", "repeated records")
+            ));
+        }
+        format!(
+            "{} ({inside})",
+            crate::reading::count(self.items, "item", "items")
+        )
+    }
 }
 
 #[derive(Debug, Clone, Serialize)]
@@ -249,6 +282,7 @@ pub fn build_with(
         files_read: footprint.stats.files_read,
         records_skipped: footprint.stats.records_skipped,
         hidden: exposure.hidden_subjects().len(),
+        merged: footprint.stats.duplicates_merged,
     };
     let priors_info = PriorsInfo {
         name: std::path::Path::new(&priors.origin)

@@ -10,7 +10,7 @@ use std::io::{self, Write};
 
 use super::build::{AttributeReport, ScanReport};
 use crate::cautions::TITLE;
-use crate::reading::{percent, rarity_note};
+use crate::reading::{count, percent, rarity_note};
 use crate::text::truncate_to_width;
 
 /// The policy: nothing may load, styles only from this page.
@@ -20,8 +20,8 @@ pub const CONTENT_SECURITY_POLICY: &str = "default-src 'none'; style-src 'unsafe
 const CHART_VALUES: usize = 6;
 
 const STYLE: &str = r#"
-:root{--fg:#1b1b1b;--muted:#555;--bg:#fff;--card:#f4f4f1;--line:#c8c8c2;--bar:#2f5d8a;--base:#b3261e;--exposed:#a4161a;--leaning:#8a5a00;--quiet:#2e6b34}
-@media (prefers-color-scheme:dark){:root{--fg:#ececec;--muted:#b0b0b0;--bg:#151515;--card:#232323;--line:#444;--bar:#7fb0e0;--base:#ff8a80;--exposed:#ff8a80;--leaning:#ffd180;--quiet:#a5d6a7}}
+:root{--fg:#1b1b1b;--muted:#555;--bg:#fff;--card:#f4f4f1;--line:#c8c8c2;--bar:#2f5d8a;--base:#b3261e;--exposed:#a4161a;--leaning:#8a5a00;--quiet:#2e6b34;--hint:#6b3fa0}
+@media (prefers-color-scheme:dark){:root{--fg:#ececec;--muted:#b0b0b0;--bg:#151515;--card:#232323;--line:#444;--bar:#7fb0e0;--base:#ff8a80;--exposed:#ff8a80;--leaning:#ffd180;--quiet:#a5d6a7;--hint:#c9a7f0}}
 *{box-sizing:border-box}
 body{margin:0;background:var(--bg);color:var(--fg);font:16px/1.5 system-ui,-apple-system,"Segoe UI",Roboto,sans-serif}
 main{max-width:60rem;margin:0 auto;padding:1rem}
@@ -42,6 +42,8 @@ svg text{fill:var(--fg);font:12px system-ui,sans-serif}
 svg .bar{fill:var(--bar)}svg .track{fill:var(--line);opacity:.45}svg .base{stroke:var(--base);stroke-width:2.5}svg .limit{stroke:var(--fg);stroke-width:1;stroke-dasharray:3 2}
 .key{font-size:.8rem;color:var(--muted)}
 .scroll{overflow-x:auto;-webkit-overflow-scrolling:touch}
+.wide::before{display:none}
+@media (max-width:44rem){.wide::before{display:block;position:sticky;left:0;content:"Wider than this screen: scroll sideways to see every column \2192";font-size:.85rem;color:var(--muted);border-left:4px solid var(--hint);padding:.1rem .5rem;margin-bottom:.25rem}.wide table{min-width:40rem}}
 table{border-collapse:collapse;width:100%;font-size:.9rem}
 th,td{padding:.35rem .5rem;border-bottom:1px solid var(--line);text-align:left;vertical-align:top}
 td.n,th.n{text-align:right;font-variant-numeric:tabular-nums;white-space:nowrap}
@@ -104,24 +106,12 @@ pub fn write_html_with(
         )?;
     }
     writeln!(out, "<h1>{}</h1>", escape(&title))?;
-    let kinds: Vec<String> = r
-        .archive
-        .by_kind
-        .iter()
-        .filter(|(_, n)| **n > 0)
-        .map(|(k, n)| format!("{n} {k}"))
-        .collect();
     writeln!(
         out,
-        "<p class=\"meta\">Made by telltale {} on this computer, offline. {} items ({}), {} friends. \
+        "<p class=\"meta\">Made by telltale {} on this computer, offline. {}, {} friends. \
          Reference statistics: {} — {}{}; {} of {} items matched. Archive fingerprint <code>{}</code>.</p>",
         escape(&r.tool.version),
-        r.archive.items,
-        escape(&if kinds.is_empty() {
-            "none".to_string()
-        } else {
-            kinds.join(", ")
-        }),
+        escape(&r.archive.items_phrase()),
         r.archive.friends,
         escape(&r.priors.name),
         escape(&r.priors.source),
@@ -137,8 +127,8 @@ pub fn write_html_with(
     if r.archive.hidden > 0 {
         writeln!(
             out,
-            "<p class=\"note\">This report treats {} item(s) as hidden: it shows what an observer could guess after hiding them.</p>",
-            r.archive.hidden
+            "<p class=\"note\">This report treats {} as hidden: it shows what an observer could guess after hiding them.</p>",
+            count(r.archive.hidden, "item", "items")
         )?;
     }
 
@@ -158,7 +148,7 @@ pub fn write_html_with(
 
     write_items(r, top, out)?;
     extra(out)?;
-    super::html_sections::write_after_items(r, out)?;
+    super::html_sections::write_after_items(r, top, out)?;
 
     if !r.warnings.is_empty() {
         writeln!(out, "<h2>Warnings</h2>\n<ul>")?;
@@ -194,8 +184,8 @@ fn write_attribute(a: &AttributeReport, out: &mut dyn Write) -> io::Result<()> {
     writeln!(out, "<p>{}</p>", escape(&a.reading))?;
     writeln!(
         out,
-        "<p class=\"meta\">Fed by {} visible item(s). Alert level {}.{}</p>",
-        a.feeding,
+        "<p class=\"meta\">Fed by {}. Alert level {}.{}</p>",
+        count(a.feeding, "piece of evidence", "pieces of evidence"),
         percent(a.threshold),
         a.special_category
             .as_deref()
@@ -293,7 +283,7 @@ fn write_items(r: &ScanReport, top: usize, out: &mut dyn Write) -> io::Result<()
     }
     writeln!(
         out,
-        "<div class=\"scroll\"><table>\n<thead><tr><th class=\"n\">#</th><th>Item</th><th>Kind</th><th>Points to</th>\
+        "<div class=\"scroll wide\"><table>\n<thead><tr><th class=\"n\">#</th><th>Item</th><th>Kind</th><th>Points to</th>\
          <th class=\"n\">Bits</th><th class=\"n\">Alike</th><th class=\"n\">Adds</th><th class=\"n\">If hidden</th></tr></thead>\n<tbody>"
     )?;
     for (n, i) in shown.iter().enumerate() {

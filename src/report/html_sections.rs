@@ -1,16 +1,17 @@
 //! The HTML report's sections after the item table, the same as the text and Markdown
 //! reports give: items no source recognises, the evidence sources, the special
 //! categories of personal data (GDPR Article 9) and the friend list. Long lists sit in
-//! a `<details>` element, so the page opens short and still holds everything.
+//! a `<details>` element, so the page opens short, and are cut as in every format
+//! (`super::cut`).
 
 use std::io::{self, Write};
 
 use super::build::ScanReport;
 use super::html::escape;
-use crate::reading::percent;
+use crate::reading::{count, percent};
 
 /// Write every section that has something to say.
-pub(super) fn write_after_items(r: &ScanReport, out: &mut dyn Write) -> io::Result<()> {
+pub(super) fn write_after_items(r: &ScanReport, top: usize, out: &mut dyn Write) -> io::Result<()> {
     if !r.unmatched.is_empty() {
         writeln!(
             out,
@@ -19,7 +20,7 @@ pub(super) fn write_after_items(r: &ScanReport, out: &mut dyn Write) -> io::Resu
         )?;
     }
     write_sources(r, out)?;
-    write_special(r, out)?;
+    write_special(r, top, out)?;
     write_friends(r, out)
 }
 
@@ -30,7 +31,7 @@ fn write_sources(r: &ScanReport, out: &mut dyn Write) -> io::Result<()> {
     writeln!(out, "<h2>Evidence sources</h2>")?;
     writeln!(
         out,
-        "<div class=\"scroll\"><table>\n<thead><tr><th>Source</th><th class=\"n\">Pieces</th><th class=\"n\">Items</th>\
+        "<div class=\"scroll wide\"><table>\n<thead><tr><th>Source</th><th class=\"n\">Pieces</th><th class=\"n\">Items</th>\
          <th class=\"n\">Bits toward the guesses</th><th>Provenance</th></tr></thead>\n<tbody>"
     )?;
     for s in &r.sources {
@@ -64,7 +65,7 @@ fn write_sources(r: &ScanReport, out: &mut dyn Write) -> io::Result<()> {
     Ok(())
 }
 
-fn write_special(r: &ScanReport, out: &mut dyn Write) -> io::Result<()> {
+fn write_special(r: &ScanReport, top: usize, out: &mut dyn Write) -> io::Result<()> {
     let Some(sp) = &r.special_categories else {
         return Ok(());
     };
@@ -73,16 +74,22 @@ fn write_special(r: &ScanReport, out: &mut dyn Write) -> io::Result<()> {
         "<h2>Special categories of personal data (GDPR Article 9)</h2>\n<ul>"
     )?;
     for c in &sp.counts {
-        writeln!(out, "<li>{}: {} item(s)</li>", escape(&c.category), c.items)?;
+        writeln!(
+            out,
+            "<li>{}: {}</li>",
+            escape(&c.category),
+            count(c.items, "item", "items")
+        )?;
     }
     writeln!(out, "</ul>")?;
+    let (shown, more) = super::cut_list(sp.items.len(), top, super::text::SPECIAL_ITEM);
     writeln!(
         out,
-        "<details><summary>The {} item(s)</summary>\n<div class=\"scroll\"><table>\n\
+        "<details><summary>The {}</summary>\n<div class=\"scroll\"><table>\n\
          <thead><tr><th>Item</th><th>Kind</th><th>Categories</th><th>Words</th></tr></thead>\n<tbody>",
-        sp.items.len()
+        count(sp.items.len(), "item", "items")
     )?;
-    for i in &sp.items {
+    for i in &sp.items[..shown] {
         writeln!(
             out,
             "<tr><td class=\"name\">{}</td><td>{}</td><td>{}</td><td>{}</td></tr>",
@@ -92,7 +99,11 @@ fn write_special(r: &ScanReport, out: &mut dyn Write) -> io::Result<()> {
             escape(&i.terms.join(", "))
         )?;
     }
-    writeln!(out, "</tbody></table></div></details>")?;
+    writeln!(out, "</tbody></table></div>")?;
+    if let Some(more) = more {
+        writeln!(out, "<p class=\"key\">{}</p>", escape(&more))?;
+    }
+    writeln!(out, "</details>")?;
     writeln!(
         out,
         "<p class=\"key\">These items touch data the law treats with special care, whether or not they change a guess above.</p>"

@@ -4,7 +4,7 @@ use std::io::{self, Write};
 
 use super::build::ScanReport;
 use crate::cautions::TITLE;
-use crate::reading::{percent, rarity_note};
+use crate::reading::{count, percent, rarity_note};
 
 /// Escape text for a Markdown table cell or line.
 fn esc(s: &str) -> String {
@@ -36,22 +36,10 @@ pub fn write_markdown(r: &ScanReport, top: usize, out: &mut dyn Write) -> io::Re
         "Made by telltale {} on this computer. Archive fingerprint `{}`.\n",
         r.tool.version, r.archive.fingerprint
     )?;
-    let kinds: Vec<String> = r
-        .archive
-        .by_kind
-        .iter()
-        .filter(|(_, n)| **n > 0)
-        .map(|(k, n)| format!("{n} {k}"))
-        .collect();
     writeln!(
         out,
-        "- **Archive:** {} items ({}), {} friends\n- **Reference statistics:** {} — {}{}; {} of {} items matched",
-        r.archive.items,
-        if kinds.is_empty() {
-            "none".into()
-        } else {
-            kinds.join(", ")
-        },
+        "- **Archive:** {}, {} friends\n- **Reference statistics:** {} — {}{}; {} of {} items matched",
+        esc(&r.archive.items_phrase()),
         r.archive.friends,
         esc(&r.priors.name),
         esc(&r.priors.source),
@@ -64,7 +52,11 @@ pub fn write_markdown(r: &ScanReport, top: usize, out: &mut dyn Write) -> io::Re
         r.archive.items
     )?;
     if r.archive.hidden > 0 {
-        writeln!(out, "- **Treated as hidden:** {} item(s)", r.archive.hidden)?;
+        writeln!(
+            out,
+            "- **Treated as hidden:** {}",
+            count(r.archive.hidden, "item", "items")
+        )?;
     }
     writeln!(out)?;
 
@@ -147,7 +139,7 @@ pub fn write_markdown(r: &ScanReport, top: usize, out: &mut dyn Write) -> io::Re
         )?;
     }
     write_sources(r, out)?;
-    write_special(r, out)?;
+    write_special(r, top, out)?;
     write_friends(r, out)?;
 
     if !r.warnings.is_empty() {
@@ -199,7 +191,7 @@ fn write_sources(r: &ScanReport, out: &mut dyn Write) -> io::Result<()> {
     Ok(())
 }
 
-fn write_special(r: &ScanReport, out: &mut dyn Write) -> io::Result<()> {
+fn write_special(r: &ScanReport, top: usize, out: &mut dyn Write) -> io::Result<()> {
     let Some(sp) = &r.special_categories else {
         return Ok(());
     };
@@ -208,11 +200,17 @@ fn write_special(r: &ScanReport, out: &mut dyn Write) -> io::Result<()> {
         "## Special categories of personal data (GDPR Article 9)\n"
     )?;
     for c in &sp.counts {
-        writeln!(out, "- {}: {} item(s)", esc(&c.category), c.items)?;
+        writeln!(
+            out,
+            "- {}: {}",
+            esc(&c.category),
+            count(c.items, "item", "items")
+        )?;
     }
+    let (shown, more) = super::cut_list(sp.items.len(), top, super::text::SPECIAL_ITEM);
     writeln!(out, "\n| Item | Kind | Categories | Words |")?;
     writeln!(out, "|---|---|---|---|")?;
-    for i in &sp.items {
+    for i in &sp.items[..shown] {
         writeln!(
             out,
             "| {} | {} | {} | {} |",
@@ -221,6 +219,9 @@ fn write_special(r: &ScanReport, out: &mut dyn Write) -> io::Result<()> {
             esc(&i.categories.join(", ")),
             esc(&i.terms.join(", "))
         )?;
+    }
+    if let Some(more) = more {
+        writeln!(out, "\n{}", esc(&more))?;
     }
     writeln!(
         out,

@@ -5,6 +5,7 @@
 //! never appear unless the caller asks for them.
 
 mod build;
+mod cut;
 mod html;
 mod html_sections;
 mod json;
@@ -17,6 +18,7 @@ pub use build::{
     ArchiveInfo, AttributeReport, ItemReport, PriorsInfo, REPORT_FORMAT, ScanReport, UnmatchedItem,
     ValueShare, build, build_with,
 };
+pub use cut::cut as cut_list;
 pub use html::{CONTENT_SECURITY_POLICY, escape as escape_html, write_html, write_html_with};
 pub use json::{write_json, write_json_streamed};
 pub use markdown::write_markdown;

@@ -169,7 +169,8 @@ pub fn source_reports(
                     let n = exposure.evidence().special.len();
                     if n > 0 {
                         notes.push(format!(
-                            "{n} item(s) in special categories of personal data (GDPR Art. 9), listed below"
+                            "{} in special categories of personal data (GDPR Art. 9), listed below",
+                            crate::reading::count(n, "item", "items")
                         ));
                     }
                 }

@@ -6,7 +6,7 @@ use std::io::{self, Write};
 
 use super::build::ScanReport;
 use crate::cautions::TITLE;
-use crate::reading::{percent, rarity_note};
+use crate::reading::{count, percent, rarity_note};
 use crate::text::{display_width, pad_to_width, truncate_to_width, wrap_words};
 
 /// How to render text.
@@ -77,29 +77,11 @@ pub fn write_text(r: &ScanReport, opts: TextOptions, out: &mut dyn Write) -> io:
         writeln!(out, "{}\n", p.bold(&wrap_words(w, 78, "")))?;
     }
     writeln!(out, "{}", p.bold("telltale: what your archive gives away"))?;
-    let kinds: Vec<String> = r
-        .archive
-        .by_kind
-        .iter()
-        .filter(|(_, n)| **n > 0)
-        .map(|(k, n)| {
-            if *n == 1 {
-                format!("1 {}", k.trim_end_matches('s'))
-            } else {
-                format!("{n} {k}")
-            }
-        })
-        .collect();
     writeln!(
         out,
-        "Archive    {} · {} items ({}) · {} friends",
+        "Archive    {} · {} · {} friends",
         r.archive.name,
-        r.archive.items,
-        if kinds.is_empty() {
-            "none".to_string()
-        } else {
-            kinds.join(", ")
-        },
+        r.archive.items_phrase(),
         r.archive.friends
     )?;
     writeln!(
@@ -118,8 +100,8 @@ pub fn write_text(r: &ScanReport, opts: TextOptions, out: &mut dyn Write) -> io:
     if r.archive.hidden > 0 {
         writeln!(
             out,
-            "Hidden     {} item(s) treated as hidden",
-            r.archive.hidden
+            "Hidden     {} treated as hidden",
+            count(r.archive.hidden, "item", "items")
         )?;
     }
     writeln!(out)?;
@@ -136,10 +118,10 @@ pub fn write_text(r: &ScanReport, opts: TextOptions, out: &mut dyn Write) -> io:
             p.level(&a.level),
         )?;
         let detail = format!(
-            "population rate {} · alert level {} · fed by {} piece(s) of evidence",
+            "population rate {} · alert level {} · fed by {}",
             percent(a.base_rate),
             percent(a.threshold),
-            a.feeding
+            count(a.feeding, "piece of evidence", "pieces of evidence")
         );
         writeln!(out, "{}", p.dim(&format!("    {detail}")))?;
         writeln!(out, "{}", wrap_words(&a.reading, 74, "    "))?;
@@ -285,13 +267,14 @@ fn write_sources(r: &ScanReport, p: &Paint, out: &mut dyn Write) -> io::Result<(
         let on = if s.id == "friends" {
             "the friend list".to_string()
         } else {
-            format!("{} item(s)", s.subjects)
+            count(s.subjects, "item", "items")
         };
         writeln!(
             out,
-            "  {} {:>4} piece(s) on {}, {:+.1} bits toward the guesses",
+            "  {} {:>4} {} on {}, {:+.1} bits toward the guesses",
             pad_to_width(&s.label, 22),
             s.pieces,
+            if s.pieces == 1 { "piece" } else { "pieces" },
             on,
             s.bits_toward_guesses
         )?;
@@ -303,6 +286,9 @@ fn write_sources(r: &ScanReport, p: &Paint, out: &mut dyn Write) -> io::Result<(
     writeln!(out)?;
     Ok(())
 }
+
+/// What the special-category list counts, in every format.
+pub(super) const SPECIAL_ITEM: (&str, &str) = ("special-category item", "special-category items");
 
 fn write_special(r: &ScanReport, p: &Paint, top: usize, out: &mut dyn Write) -> io::Result<()> {
     let Some(sp) = &r.special_categories else {
@@ -319,7 +305,8 @@ fn write_special(r: &ScanReport, p: &Paint, top: usize, out: &mut dyn Write) -> 
         .map(|c| format!("{} {}", c.category, c.items))
         .collect();
     writeln!(out, "{}", wrap_words(&counts.join(" · "), 74, "  "))?;
-    for i in sp.items.iter().take(top) {
+    let (shown, more) = super::cut_list(sp.items.len(), top, SPECIAL_ITEM);
+    for i in &sp.items[..shown] {
         writeln!(out, "  - {} ({})", truncate_to_width(&i.name, 60), i.kind)?;
         writeln!(
             out,
@@ -333,12 +320,8 @@ fn write_special(r: &ScanReport, p: &Paint, top: usize, out: &mut dyn Write) -> 
             ))
         )?;
     }
-    if sp.items.len() > top {
-        writeln!(
-            out,
-            "  … {} more (use --format json for all)",
-            sp.items.len() - top
-        )?;
+    if let Some(more) = more {
+        writeln!(out, "{}", wrap_words(&more, 74, "  "))?;
     }
     writeln!(
         out,

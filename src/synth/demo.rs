@@ -63,7 +63,12 @@ pub struct PersonaManifest {
     pub follows: usize,
     pub events: usize,
     pub friends: usize,
-    /// Items that are in the reference table.
+    /// Items in all: likes + groups + follows + events, the count every report and
+    /// the explorer give (no two share a kind and name, so none are merged; the
+    /// friend list is not an item).
+    pub items: usize,
+    /// Of those, the items the reference table lists (the rest are personal items
+    /// no table knows).
     pub listed_items: usize,
     /// True attribute values (value ids), as in the archive's self-declared file.
     pub truth: [String; 4],
@@ -177,6 +182,7 @@ pub fn generate_demo(
             follows: archive.count(ItemKind::Follow),
             events: archive.count(ItemKind::Event),
             friends: archive.friends.len(),
+            items: archive.items.len(),
             listed_items: archive.items.iter().filter(|i| i.listed).count(),
             truth: spec.values.map(str::to_string),
         });

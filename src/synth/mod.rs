@@ -9,6 +9,7 @@ pub mod calibrate;
 pub mod catalogue;
 pub mod cohort;
 mod demo;
+pub mod demo_files;
 pub mod large;
 pub mod large_items;
 pub mod layout_a;

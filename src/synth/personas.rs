@@ -126,6 +126,44 @@ fn year_start(year: i32) -> i64 {
         .unwrap_or(0)
 }
 
+/// The last year from 1950 to the demo's year written in a name ("Jazz Night 2019",
+/// "Class of 2004 Reunion").
+fn year_in_name(name: &str) -> Option<i32> {
+    let bytes = name.as_bytes();
+    let mut found = None;
+    for start in 0..bytes.len().saturating_sub(3) {
+        let digits = &bytes[start..start + 4];
+        let bounded = (start == 0 || !bytes[start - 1].is_ascii_digit())
+            && bytes.get(start + 4).is_none_or(|b| !b.is_ascii_digit());
+        if bounded && digits.iter().all(u8::is_ascii_digit) {
+            let year: i32 = digits.iter().fold(0, |y, d| y * 10 + i32::from(d - b'0'));
+            if (1950..=super::catalogue::DEMO_YEAR).contains(&year) {
+                found = Some(year);
+            }
+        }
+    }
+    found
+}
+
+/// When an item can be dated, so dates fit names: an event named for a year happened
+/// in that year (up to the demo's today); anything else named for a year was joined or
+/// liked no earlier than that year; other items any time after the person joined.
+fn date_span(kind: ItemKind, name: &str, joined: i64, now: i64) -> std::ops::Range<i64> {
+    let Some(year) = year_in_name(name) else {
+        return joined..now;
+    };
+    let (start, end) = (year_start(year), year_start(year + 1).min(now));
+    if kind == Event {
+        return start..end.max(start + 1);
+    }
+    let from = joined.max(start);
+    if from < now {
+        from..now
+    } else {
+        start..end.max(start + 1)
+    }
+}
+
 #[derive(Debug, Clone, PartialEq)]
 pub struct PersonaItem {
     pub kind: ItemKind,
@@ -184,7 +222,7 @@ pub fn generate(
                 name: c.name.clone(),
                 id: c.id.clone(),
                 category: c.category.to_string(),
-                date: rng.random_range(joined..now),
+                date: rng.random_range(date_span(c.kind, &c.name, joined, now)),
                 listed: true,
             }
         })
@@ -195,7 +233,7 @@ pub fn generate(
             name: name.to_string(),
             id: format!("lw-p-{}-{}", spec.slug, n + 1),
             category: "Personal".into(),
-            date: rng.random_range(joined..now),
+            date: rng.random_range(date_span(*kind, name, joined, now)),
             listed: false,
         });
     }
@@ -247,5 +285,44 @@ pub fn generate(
         joined,
         items,
         friends,
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use rand::SeedableRng;
+
+    fn year_of(t: i64) -> i32 {
+        time::OffsetDateTime::from_unix_timestamp(t)
+            .map(|d| d.year())
+            .unwrap_or(0)
+    }
+
+    #[test]
+    fn years_are_read_from_names() {
+        assert_eq!(year_in_name("Toddler Music Time 2026"), Some(2026));
+        assert_eq!(year_in_name("Class of 2004 Reunion"), Some(2004));
+        assert_eq!(year_in_name("Route 66 Diner"), None);
+        assert_eq!(year_in_name("Studio 54321"), None);
+        assert_eq!(year_in_name("Room 1200 Club"), None);
+    }
+
+    #[test]
+    fn dates_fit_the_years_in_names() {
+        let joined = year_start(2011) + 40 * 86_400;
+        let now = demo_now();
+        let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(3);
+        for _ in 0..200 {
+            let t = rng.random_range(date_span(Event, "Toddler Music Time 2026", joined, now));
+            assert_eq!(year_of(t), 2026);
+            assert!(t < now);
+            let t = rng.random_range(date_span(Event, "Jazz Night 2009", joined, now));
+            assert_eq!(year_of(t), 2009, "an event's date is its year's");
+            let t = rng.random_range(date_span(Group, "First-Year Students 2023", joined, now));
+            assert!(year_of(t) >= 2023 && t < now);
+            let t = rng.random_range(date_span(Like, "Night Owls", joined, now));
+            assert!(t >= joined && t < now);
+        }
     }
 }

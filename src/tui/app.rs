@@ -471,8 +471,8 @@ impl App {
                 }
                 self.session.hide_all(&hide);
                 self.status = Some(format!(
-                    "Hid {} item(s). u undoes all of them at once.",
-                    hide.len()
+                    "Hid {}. u undoes all of them at once.",
+                    telltale::reading::count(hide.len(), "item", "items")
                 ));
                 return self.changed();
             }

@@ -58,9 +58,10 @@ impl App {
                         self.status = Some("No file name given; nothing exported.".into());
                         return Vec::new();
                     }
+                    let home = directories::BaseDirs::new().map(|b| b.home_dir().to_path_buf());
                     return vec![Effect::Export {
                         format,
-                        path: PathBuf::from(path),
+                        path: expand_home(&path, home.as_deref()),
                     }];
                 }
                 KeyCode::Tab | KeyCode::BackTab | KeyCode::Left | KeyCode::Right => {
@@ -159,5 +160,39 @@ impl App {
             }
         }
         Vec::new()
+    }
+}
+
+/// A typed file name with a leading `~` (alone or followed by `/`) meaning the home
+/// folder, as in a shell; `~user` and a `~` later in the name are left as typed.
+fn expand_home(typed: &str, home: Option<&std::path::Path>) -> PathBuf {
+    match (typed.strip_prefix('~'), home) {
+        (Some(""), Some(home)) => home.to_path_buf(),
+        (Some(rest), Some(home)) if rest.starts_with('/') => {
+            home.join(rest.trim_start_matches('/'))
+        }
+        _ => PathBuf::from(typed),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::expand_home;
+    use std::path::{Path, PathBuf};
+
+    #[test]
+    fn a_leading_tilde_is_the_home_folder() {
+        let home = Some(Path::new("/home/ada"));
+        assert_eq!(
+            expand_home("~/reports/me.html", home),
+            PathBuf::from("/home/ada/reports/me.html")
+        );
+        assert_eq!(expand_home("~", home), PathBuf::from("/home/ada"));
+        assert_eq!(
+            expand_home("~bob/x.html", home),
+            PathBuf::from("~bob/x.html")
+        );
+        assert_eq!(expand_home("a~/x.html", home), PathBuf::from("a~/x.html"));
+        assert_eq!(expand_home("~/x.html", None), PathBuf::from("~/x.html"));
     }
 }

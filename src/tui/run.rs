@@ -12,7 +12,7 @@ use anyhow::{Context, Result};
 use crossterm::event::{self, Event, KeyCode, KeyEventKind, KeyModifiers};
 use telltale::decisions::Store;
 use telltale::plan::{self, PlanOutcome, Progress, solve_with_progress};
-use telltale::report::{write_html_with, write_markdown};
+use telltale::report::write_markdown;
 use telltale::safe_write::write_atomic;
 use telltale::scan::{Scan, ScanInput, load_priors};
 use telltale::whatif::{PlanAsk, Session};
@@ -22,8 +22,9 @@ use super::terminal::{Guard, Input, stop_flag, wait_input};
 use super::theme::Theme;
 use super::view;
 
-/// Items listed in an exported report.
-const EXPORT_TOP: usize = 25;
+/// Items listed in an exported report (the same page `telltale plan --format html`
+/// makes).
+const EXPORT_TOP: usize = plan::PAGE_TOP;
 
 /// What the explorer needs to start.
 pub struct Options {
@@ -443,10 +444,7 @@ pub(super) fn export(app: &App, format: ExportFormat, path: &std::path::Path) ->
     // goes first, before the scan's sections.
     report.warning = plan.and_then(|p| p.warning.clone());
     let result = write_atomic(path, |w| match format {
-        ExportFormat::Html => write_html_with(&report, EXPORT_TOP, w, &mut |out| match plan {
-            Some(p) => plan::write_html_section(p, out),
-            None => Ok(()),
-        }),
+        ExportFormat::Html => plan::write_html_page(&report, EXPORT_TOP, plan, w),
         ExportFormat::Markdown => {
             write_markdown(&report, EXPORT_TOP, w)?;
             match plan {

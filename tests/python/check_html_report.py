@@ -11,10 +11,16 @@
    other annotations and are ignored). The same page WITH our policy must not load
    it, and the report itself must make no request with that annotation.
 4. The charts are visible: the screenshots contain the chart bar colour (#2f5d8a).
+5. The item and evidence tables are wider than a phone: rendered with the page's style
+   sheet at 390 px they say to scroll sideways (the hint's mark colour #6b3fa0 is
+   found), at 1280 px they do not.
+6. Every chart of `telltale eval --format html` has a y-axis label, and it is drawn:
+   one reliability chart alone is rendered with and without its label, and only the
+   one with it has dark pixels in the left margin where the label stands.
 
 With --update-docs, the two screenshots are copied to docs/img/report-phone.png and
-docs/img/report-desktop.png. Without Chromium the check prints SKIPPED and passes
-(CI installs it in .ci/run).
+docs/img/report-desktop.png. Without Chromium the check prints SKIPPED and passes,
+except under CI (CI=true), where a missing Chromium fails it (.ci/run installs it).
 """
 import os
 import re
@@ -27,10 +33,16 @@ import zlib
 
 ROOT = os.path.dirname(os.path.dirname(os.path.dirname(os.path.abspath(__file__))))
 BAR_RGB = (0x2F, 0x5D, 0x8A)  # --bar in src/report/html.rs (light scheme)
+HINT_RGB = (0x6B, 0x3F, 0xA0)  # --hint in src/report/html.rs (light scheme)
 WIDTHS = {"phone": (390, 1700), "desktop": (1280, 1100)}
 
 passed = 0
 failed = 0
+
+
+def running_in_ci():
+    """CI sets CI=true; there a missing tool is a failure, not a skip."""
+    return os.environ.get("CI", "").strip().lower() not in ("", "0", "false", "no")
 
 
 def check(ok, what):
@@ -142,6 +154,55 @@ def requests(netlog):
     return found
 
 
+def dark_pixels(path, x0, x1, y0, y1):
+    """Pixels darker than mid-grey in the box [x0, x1) × [y0, y1)."""
+    width, height, bpp, rows = read_png(path)
+    n = 0
+    for y in range(y0, min(y1, height)):
+        row = rows[y]
+        for x in range(x0, min(x1, width)):
+            if all(row[x * bpp + k] < 110 for k in range(3)):
+                n += 1
+    return n
+
+
+def check_eval_charts(binary, chromium):
+    """Every evaluation chart has a y-axis label, and a rendered chart shows it."""
+    tmp = tempfile.mkdtemp(prefix="telltale-eval-check-")
+    cohort = os.path.join(tmp, "cohort")
+    subprocess.run([binary, "synth", "cohort", "--members", "60", "--out", cohort],
+                   check=True, stdout=subprocess.DEVNULL)
+    page = os.path.join(tmp, "eval.html")
+    subprocess.run([binary, "eval", cohort, "--folds", "2", "--public-share", "0.5",
+                    "--format", "html", "-o", page], check=True, stdout=subprocess.DEVNULL,
+                   stderr=subprocess.DEVNULL)
+    html = open(page, encoding="utf-8").read()
+    charts = re.findall(r"<svg.*?</svg>", html, re.S)
+    labelled = [c for c in charts if re.search(r'<text transform="translate\([\d.]+,[\d.]+\) rotate\(-90\)"', c)]
+    check(len(charts) >= 3 and len(labelled) == len(charts),
+          f"every eval chart has a y-axis label ({len(labelled)} of {len(charts)})")
+    reliability = next((c for c in charts if "how often guesses at each confidence" in c), None)
+    check(reliability is not None, "eval has a reliability (calibration) chart")
+    if reliability is None:
+        return
+    m = re.search(r'width="(\d+)" height="(\d+)"', reliability)
+    w, h = int(m.group(1)), int(m.group(2))
+    unlabelled = re.sub(r'<text transform="translate\([^"]*\) rotate\(-90\)"[^>]*>[^<]*</text>', "", reliability)
+    counts = {}
+    for name, svg in (("with", reliability), ("without", unlabelled)):
+        chart = os.path.join(tmp, f"chart-{name}.html")
+        open(chart, "w", encoding="utf-8").write(
+            f'<!doctype html><html><body style="margin:0;background:#fff">{svg}</body></html>')
+        png = os.path.join(tmp, f"chart-{name}.png")
+        render(chromium, chart, (w, h), png, os.path.join(tmp, f"chart-{name}.json"),
+               os.path.join(tmp, f"chart-profile-{name}"))
+        # The label stands up the left edge, left of the percentages (x < 24).
+        counts[name] = dark_pixels(png, 0, 24, 40, h - 40)
+    check(counts["with"] >= 30, f"the calibration chart's y-axis label is drawn ({counts['with']} dark pixels)")
+    check(counts["without"] == 0, f"control: nothing there without the label ({counts['without']})")
+    shutil.rmtree(tmp, ignore_errors=True)
+
+
 def main():
     update_docs = "--update-docs" in sys.argv
     binary = os.environ.get("TELLTALE_BIN", os.path.join(ROOT, "target/release/telltale"))
@@ -165,7 +226,10 @@ def main():
 
     chromium = chromium_binary()
     if chromium is None:
-        print("SKIPPED browser part of check_html_report: chromium is not installed")
+        if running_in_ci():
+            check(False, "chromium is installed (CI=true: the browser part must run)")
+        else:
+            print("SKIPPED browser part of check_html_report: chromium is not installed")
         print(f"{passed} passed, {failed} failed")
         return 1 if failed else 0
 
@@ -209,6 +273,25 @@ def main():
         if update_docs:
             os.makedirs(os.path.join(ROOT, "docs/img"), exist_ok=True)
             shutil.copy(png, os.path.join(ROOT, f"docs/img/report-{name}.png"))
+    # The wide tables say to scroll on a phone, and only there: the page's own style
+    # sheet with just its wide tables, so the screenshot is short enough to read.
+    style = re.search(r"<head>.*?</head>", html, re.S).group(0)
+    wide = re.findall(r'<div class="scroll wide">.*?</div>', html, re.S)
+    check(len(wide) >= 2, f"the item and evidence tables are marked wide ({len(wide)})")
+    tables = os.path.join(tmp, "wide-tables.html")
+    open(tables, "w", encoding="utf-8").write(
+        f"<!doctype html><html>{style}<body><main>{''.join(wide)}</main></body></html>")
+    for name, width in (("phone", 390), ("desktop", 1280)):
+        png = os.path.join(tmp, f"wide-{name}.png")
+        render(chromium, tables, (width, 800), png, os.path.join(tmp, f"wide-{name}.json"),
+               os.path.join(tmp, f"wide-profile-{name}"))
+        n, _ = count_colour(png, HINT_RGB, tol=10)
+        if name == "phone":
+            check(n >= 40, f"phone: the wide tables say to scroll sideways ({n} hint-coloured pixels)")
+        else:
+            check(n == 0, f"desktop: no scroll hint where the tables fit ({n} hint-coloured pixels)")
+
+    check_eval_charts(binary, chromium)
     print(f"check_html_report: {passed} passed, {failed} failed")
     shutil.rmtree(tmp, ignore_errors=True)
     return 1 if failed else 0

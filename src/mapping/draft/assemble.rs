@@ -37,6 +37,8 @@ pub struct DraftSource {
 pub struct Draft {
     /// The archive's file or folder name.
     pub archive: String,
+    /// The archive's path as the person gave it, for the commands the draft suggests.
+    pub path: std::path::PathBuf,
     pub sources: Vec<DraftSource>,
     /// Record sets left out, with the reason.
     pub unused: Vec<(String, String)>,
@@ -103,7 +105,9 @@ pub fn draft(archive: &mut Archive, priors: &Priors, limits: &Limits) -> Draft {
     let entries: Vec<String> = archive.entries().iter().map(|e| e.path.clone()).collect();
     let mut inspection = inspect(archive, limits);
     inspection.skipped = archive.skipped().to_vec();
-    draft_from(&archive.display_name(), inspection, &entries, priors)
+    let mut drafted = draft_from(&archive.display_name(), inspection, &entries, priors);
+    drafted.path = archive.path().to_path_buf();
+    drafted
 }
 
 /// Draft sources from an inspection; `entries` lists every file of the archive (to
@@ -121,6 +125,18 @@ pub fn draft_from(
     for set in &inspection.sets {
         let attrs = attribute_fields(set, priors);
         if set.single && attrs.is_empty() {
+            // Said only when nothing else in its file was found: a file holding just
+            // one object (an account profile) is then neither used nor silently lost.
+            if !inspection
+                .sets
+                .iter()
+                .any(|o| o.file == set.file && !o.single)
+            {
+                unused.push((
+                    describe_place(set),
+                    "one object, not a list of records, and no field holds the priors' attribute values".into(),
+                ));
+            }
             continue;
         }
         let kind = guess_kind(set, attrs.len());
@@ -201,6 +217,7 @@ pub fn draft_from(
     });
     Draft {
         archive: archive.to_string(),
+        path: archive.into(),
         sources,
         unused,
         top_folder: top,

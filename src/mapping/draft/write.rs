@@ -8,6 +8,7 @@ use super::assemble::{Draft, DraftSource};
 use super::inspect::{FieldProfile, RecordSet};
 use super::paths::{field_path, records_path};
 use crate::mapping::{Format, MAPPING_FILE_NAME, SourceKind};
+use crate::reading::count;
 
 /// Comment lines are wrapped at this width.
 const WIDTH: usize = 88;
@@ -33,18 +34,6 @@ fn comment(o: &mut String, text: &str, indent: usize) {
     }
     o.push_str(&line);
     o.push('\n');
-}
-
-/// The mapping file name telltale looks for beside an archive of this name
-/// (`export.zip` → `export.mapping.toml`).
-fn beside_name(archive: &str) -> String {
-    let lower = archive.to_lowercase();
-    let stem = if lower.ends_with(".zip") {
-        &archive[..archive.len() - 4]
-    } else {
-        archive
-    };
-    format!("{stem}.mapping.toml")
 }
 
 fn field_ref(set: &RecordSet, f: &FieldProfile) -> String {
@@ -78,14 +67,6 @@ fn field_note(f: &FieldProfile, records: usize, role: &str) -> String {
         }
         "date" => format!("reads as a date in {} of {records} records", f.dates),
         _ => String::new(),
-    }
-}
-
-fn plural(n: usize, noun: &str) -> String {
-    if n == 1 {
-        format!("1 {noun}")
-    } else {
-        format!("{n} {noun}s")
     }
 }
 
@@ -138,14 +119,16 @@ impl Draft {
         );
         o.push_str(&format!(
             "#   telltale mapping check {} --mapping THIS-FILE\n",
-            self.archive
+            self.path.display()
         ));
+        let save_as = crate::mapping::beside_mapping(&self.path)
+            .map(|p| format!("as {} (beside the archive, with its name)", p.display()))
+            .unwrap_or_else(|| "beside the archive".into());
         comment(
             &mut o,
             &format!(
-                "Once it is right, save it beside the archive as {} (or as \
-                 {MAPPING_FILE_NAME}, or pass --mapping) and telltale uses it from then on.",
-                beside_name(&self.archive)
+                "Once it is right, save it {save_as} or as {MAPPING_FILE_NAME} inside or \
+                 beside the archive: telltale then finds it without --mapping."
             ),
             0,
         );
@@ -237,8 +220,8 @@ impl Draft {
             comment(
                 &mut o,
                 &format!(
-                    "{} file(s) not read (not JSON, NDJSON or CSV): {}{more}",
-                    other.len(),
+                    "{} not read (not JSON, NDJSON or CSV): {}{more}",
+                    count(other.len(), "file", "files"),
                     shown.join(", ")
                 ),
                 2,
@@ -263,7 +246,7 @@ fn write_source(o: &mut String, s: &DraftSource) {
         } else {
             String::new()
         };
-        format!("{}{sampled}", plural(s.records, "record"))
+        format!("{}{sampled}", count(s.records, "record", "records"))
     };
     // The files themselves (the globs may hide a top folder or stand for several).
     let files = if s.paths.len() == 1 {
@@ -368,7 +351,7 @@ fn write_source(o: &mut String, s: &DraftSource) {
                 attr,
                 toml_string(&field_ref(set, f)),
                 f.present,
-                plural(set.profiled, "record")
+                count(set.profiled, "record", "records")
             ));
         }
     }

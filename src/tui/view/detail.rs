@@ -213,8 +213,8 @@ pub fn lines(app: &App, subject: Subject, width: u16, theme: Theme) -> Vec<Line<
             out.push(fit(
                 Line::styled(
                     format!(
-                        "    {} other values: members {}, everyone {}",
-                        others.2,
+                        "    {}: members {}, everyone {}",
+                        telltale::reading::count(others.2, "other value", "other values"),
                         percent(others.0),
                         percent(others.1)
                     ),

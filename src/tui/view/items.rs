@@ -6,7 +6,7 @@ use ratatui::layout::Rect;
 use ratatui::text::{Line, Span};
 use ratatui::widgets::Paragraph;
 use telltale::decisions::Mark;
-use telltale::reading::percent;
+use telltale::reading::{count, percent};
 use telltale::whatif::overview;
 
 use super::widgets::{cell, cell_right, fit};
@@ -56,7 +56,22 @@ pub fn render(app: &App, frame: &mut Frame, area: Rect, theme: Theme) {
     };
     let mut filt = vec![
         Span::styled(
-            format!("{} of {} · ", app.rows.len(), s.n_subjects()),
+            {
+                // Items are counted as everywhere (footprint items, identical names
+                // merged); the friend list is named beside them, never counted as one.
+                let n_items = s.footprint().items.len();
+                let shown = app
+                    .rows
+                    .iter()
+                    .filter(|r| r.subject != telltale::evidence::Subject::FriendList)
+                    .count();
+                let friends = if shown < app.rows.len() {
+                    " and your friend list"
+                } else {
+                    ""
+                };
+                format!("{shown} of {}{friends} · ", count(n_items, "item", "items"))
+            },
             theme.dim(),
         ),
         Span::styled("about ", theme.dim()),

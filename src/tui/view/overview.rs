@@ -6,7 +6,7 @@ use ratatui::Frame;
 use ratatui::layout::Rect;
 use ratatui::text::{Line, Span};
 use ratatui::widgets::Paragraph;
-use telltale::reading::percent;
+use telltale::reading::{count, percent};
 use telltale::whatif::overview;
 
 use super::widgets::{bar, cell, fit, wrap};
@@ -30,7 +30,7 @@ pub fn render(app: &App, frame: &mut Frame, area: Rect, theme: Theme) {
             theme.title()
         };
         // Facts beside the name: what feeds it, how it changed, your real value.
-        // The verb agrees with the first number: "1 of 5 items supports it".
+        // The verb agrees with the first number: "1 of 5 pieces of evidence supports it".
         let mut facts = vec![if s.only_friend_list {
             format!(
                 "only your friend list {} it",
@@ -41,11 +41,13 @@ pub fn render(app: &App, frame: &mut Frame, area: Rect, theme: Theme) {
                 }
             )
         } else {
+            // Pieces of evidence, not items ("80 of 151 pieces support it"): one item
+            // can give several (the reference table and a place name), and the friend
+            // list gives some too. Short, so "before hiding" still fits at 80 columns.
             format!(
-                "{} of {} {} {} it",
+                "{} of {} {} it",
                 s.supporting,
-                s.feeding,
-                if s.feeding == 1 { "item" } else { "items" },
+                count(s.feeding, "piece", "pieces"),
                 if s.supporting == 1 {
                     "supports"
                 } else {

@@ -19,12 +19,8 @@ use crate::tui::theme::{Theme, level_tag};
 const SPINNER: [char; 4] = ['|', '/', '-', '\\'];
 
 fn count(n: f64) -> String {
-    let n = n.ceil().max(0.0) as u64;
-    if n == 1 {
-        "1 item".into()
-    } else {
-        format!("{n} items")
-    }
+    let n = n.ceil().max(0.0) as usize;
+    telltale::reading::count(n, "item", "items")
 }
 
 /// The status lines: what is known about the plan, in words.
@@ -382,8 +378,10 @@ fn detail_lines(r: &PlanReport, w: usize, theme: Theme) -> Vec<Line<'static>> {
         lines.push(Line::raw(""));
     }
     let mut how = format!(
-        "{} item(s) with evidence considered, {} without evidence left out, {} kept by you.",
-        r.search.candidates, r.search.pruned, r.search.kept
+        "{} with evidence considered, {} without evidence left out, {} kept by you.",
+        telltale::reading::count(r.search.candidates, "item", "items"),
+        r.search.pruned,
+        r.search.kept
     );
     match (r.greedy.count, r.greedy.excess_over_plan) {
         (Some(n), Some(x)) if x > 1e-9 => how.push_str(&format!(
