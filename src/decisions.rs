@@ -227,7 +227,12 @@ impl Store {
                     restored: true,
                 };
             }
-            Err(e) => format!("line {}, column {}: {e}", e.line(), e.column()),
+            Err(e) => format!(
+                "line {}, column {}: {}",
+                e.line(),
+                e.column(),
+                crate::records::json_reason(&e)
+            ),
         };
         let kept = set_aside(&path, &text);
         let warning = match kept {

@@ -224,8 +224,12 @@ fn check_attribute_names(footprint: &mut Footprint, priors: &Priors, mapping_ori
         footprint
             .warnings
             .push(crate::footprint::Warning::new(format!(
-                "{} more unknown attribute value(s) ignored",
-                unknown_value.len() - shown
+                "{} more ignored",
+                crate::reading::count(
+                    unknown_value.len() - shown,
+                    "unknown attribute value",
+                    "unknown attribute values"
+                )
             )));
     }
 }

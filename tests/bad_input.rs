@@ -97,6 +97,8 @@ fn bad_records_become_warnings_and_the_rest_is_imported() {
     );
     assert!(has("likes.json, record 4, field 'date'"), "{msgs:#?}");
     assert!(has("follows.ndjson, line 2: not valid JSON"), "{msgs:#?}");
+    // The place is said once: serde_json's own " at line L column C" is left off.
+    assert!(!has(" at line "), "{msgs:#?}");
     assert!(has("events/broken.json"), "{msgs:#?}");
     assert!(has("truncated"), "{msgs:#?}");
     assert!(
@@ -113,7 +115,7 @@ fn a_bad_mapping_lists_every_problem_with_its_line() {
     let msg = err.to_string();
     assert!(matches!(err, MappingError::Invalid { .. }));
     assert!(
-        msg.starts_with("my-mapping.toml: the mapping has 2 problem(s)"),
+        msg.starts_with("my-mapping.toml: the mapping has 2 problems"),
         "{msg}"
     );
     assert!(
@@ -181,6 +183,17 @@ fn a_missing_mapping_says_how_to_draft_one() {
         .to_string();
     assert!(err.contains("telltale mapping draft"), "{err}");
     assert!(err.contains("--mapping FILE"), "{err}");
+    // The draft is suggested under a name telltale then finds by itself: the
+    // archive's own, beside it.
+    let beside = dir.path().join("my-archive.mapping.toml");
+    assert!(err.contains(&format!("> {}", beside.display())), "{err}");
+    std::fs::write(
+        &beside,
+        "format = 1\n[[source]]\nkind = \"like\"\nfiles = [\"x.json\"]\nname = \"$.n\"\n",
+    )
+    .expect("write");
+    let found = telltale::mapping::locate(&mut archive).expect("found beside");
+    assert_eq!(found.origin, beside.display().to_string());
 }
 
 #[test]

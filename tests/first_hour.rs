@@ -174,6 +174,18 @@ fn the_manual_page_covers_every_command() {
         "roff"
     );
     assert!(page.contains(".TH telltale 1"), "title line");
+    // The NAME line says the name once ("telltale \- See what …").
+    let name_line = page
+        .lines()
+        .skip_while(|l| !l.starts_with(".SH NAME"))
+        .nth(1)
+        .unwrap_or("");
+    assert!(name_line.starts_with("telltale \\- "), "{name_line}");
+    assert!(
+        !name_line.to_lowercase().contains("\\- telltale"),
+        "{name_line}"
+    );
+    // Every command, as the page's SUBCOMMANDS section names it (telltale-NAME(1)).
     for cmd in [
         "scan",
         "plan",
@@ -182,9 +194,14 @@ fn the_manual_page_covers_every_command() {
         "priors",
         "eval",
         "mapping",
+        "forget",
         "completions",
+        "man",
     ] {
-        assert!(page.contains(cmd), "lists {cmd}");
+        assert!(
+            page.contains(&format!("telltale\\-{cmd}(1)")),
+            "lists {cmd}"
+        );
     }
 
     let dir = tempfile::tempdir().expect("tempdir");

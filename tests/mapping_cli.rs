@@ -92,13 +92,13 @@ fn check_lists_each_source_with_its_files_and_counts() {
         .and_then(|a| a.iter().find(|p| p["archive"] == "reporter"))
         .expect("reporter");
     for (kind, key, noun) in [
-        ("like", "likes", "item(s)"),
-        ("group", "groups", "item(s)"),
-        ("friend", "friends", "friend(s)"),
+        ("like", "likes", "items"),
+        ("group", "groups", "items"),
+        ("friend", "friends", "friends"),
     ] {
         let n = reporter[key].as_u64().expect("count");
         assert!(
-            text.contains(&format!("{n} kept {noun}")),
+            text.contains(&format!("{n} {noun} kept")),
             "{kind}: {n} in\n{text}"
         );
     }

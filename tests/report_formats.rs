@@ -78,10 +78,12 @@ fn every_format_has_the_sources_special_categories_and_friends() {
             }
         }
         if !report.unmatched.is_empty() {
-            let line = format!(
-                "{} of your items are not recognised",
-                report.unmatched.len()
-            );
+            let n = report.unmatched.len();
+            let line = if n == 1 {
+                "1 of your items is not recognised".to_string()
+            } else {
+                format!("{n} of your items are not recognised")
+            };
             assert!(html.contains(&line) && md.contains(&line), "{name}: {line}");
         }
     }

@@ -4,8 +4,8 @@ use std::path::PathBuf;
 
 use clap::{Args, Parser, Subcommand, ValueEnum};
 
-/// telltale: see what your own social-network archive gives away about your age band,
-/// home location, political leaning and religion, and what to hide. Runs offline.
+/// See what your own social-network archive gives away about your age band, home
+/// location, political leaning and religion, and what to hide. Runs offline.
 #[derive(Debug, Parser)]
 #[command(name = "telltale", version, args_conflicts_with_subcommands = true)]
 pub struct Cli {
@@ -101,7 +101,8 @@ pub struct ManArgs {
 #[derive(Debug, Subcommand)]
 pub enum MappingCommand {
     /// Inspect an archive's structure and print a commented draft mapping to check and
-    /// edit: `telltale mapping draft ARCHIVE > my-mapping.toml`.
+    /// edit: `telltale mapping draft me.zip > me.mapping.toml` (the name telltale looks
+    /// for beside the archive).
     Draft(MappingDraftArgs),
     /// Show what each source of a mapping finds in an archive: files, records, items.
     Check(MappingCheckArgs),

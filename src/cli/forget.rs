@@ -38,7 +38,10 @@ pub fn run(args: &ForgetArgs) -> Result<ExitCode> {
             store.dir().display()
         );
     } else {
-        println!("Removed what was saved {what} ({} file(s)):", removed.len());
+        println!(
+            "Removed what was saved {what} ({}):",
+            telltale::reading::count(removed.len(), "file", "files")
+        );
         for p in &removed {
             println!("  {}", p.display());
         }

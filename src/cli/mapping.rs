@@ -120,11 +120,10 @@ fn write_checks(
         };
         writeln!(
             out,
-            "   records: {} read, {} skipped; {} kept {}{dated}",
+            "   records: {} read, {} skipped; {} kept{dated}",
             c.records_seen,
             c.records_skipped,
-            c.kept,
-            c.kept_noun(),
+            c.kept_words(),
         )?;
         for w in c.warnings.iter().take(WARNINGS_SHOWN) {
             writeln!(out, "   warning: {w}")?;

@@ -12,7 +12,7 @@ pub enum Error {
         /// chain says it once.
         cause: std::io::Error,
     },
-    #[error("{dir}: no archive could be read ({warnings} problem(s); see the warnings)")]
+    #[error("{dir}: no archive could be read ({}; see the warnings)", crate::reading::count(*warnings, "problem", "problems"))]
     Empty { dir: PathBuf, warnings: usize },
     #[error(
         "the schema has no candidate items: give --schema a priors file whose items list the pages, groups and accounts to count"

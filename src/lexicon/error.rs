@@ -19,7 +19,7 @@ pub enum Error {
     },
     #[error("{file}: not valid TOML: {message}")]
     Syntax { file: String, message: String },
-    #[error("{file}: the lexicon has {} problem(s):\n{}", problems.len(), list(problems))]
+    #[error("{file}: the lexicon has {}:\n{}", crate::reading::count(problems.len(), "problem", "problems"), list(problems))]
     Invalid { file: String, problems: Vec<String> },
 }
 

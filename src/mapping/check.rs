@@ -34,13 +34,14 @@ impl SourceCheck {
         }
     }
 
-    /// What `kept` counts, in words.
-    pub fn kept_noun(&self) -> &'static str {
-        match self.kind {
-            SourceKind::Item(_) => "item(s)",
-            SourceKind::Friend => "friend(s)",
-            SourceKind::SelfDeclared => "attribute value(s)",
-        }
+    /// What `kept` counts, with its number: "12 items", "1 friend".
+    pub fn kept_words(&self) -> String {
+        let (one, many) = match self.kind {
+            SourceKind::Item(_) => ("item", "items"),
+            SourceKind::Friend => ("friend", "friends"),
+            SourceKind::SelfDeclared => ("attribute value", "attribute values"),
+        };
+        crate::reading::count(self.kept, one, many)
     }
 }
 

@@ -39,19 +39,24 @@ pub enum Error {
         column: usize,
         message: String,
     },
-    #[error("{file}: the mapping has {} problem(s):\n{}", problems.len(), list(problems))]
+    #[error("{file}: the mapping has {}:\n{}", crate::reading::count(problems.len(), "problem", "problems"), list(problems))]
     Invalid {
         file: String,
         problems: Vec<Problem>,
     },
     #[error(
         "no mapping file for {archive}: telltale needs one to know where your likes, groups and friends are.\n\
-         Pass --mapping FILE, or put '{name}' inside the archive or beside it.\n\
-         To start one, run: telltale mapping draft {archive} > my-mapping.toml\n\
-         (docs/mapping.md explains every setting)",
+         Pass --mapping FILE, or put '{name}' inside the archive, or '{draft_to}' or '{name}' beside it.\n\
+         To start one, run: telltale mapping draft {archive} > {draft_to}\n\
+         (then check it with: telltale mapping check {archive}; docs/mapping.md explains every setting)",
         name = super::MAPPING_FILE_NAME
     )]
-    NotFound { archive: String },
+    NotFound {
+        archive: String,
+        /// Where a draft is found without --mapping: the mapping named after the
+        /// archive, beside it.
+        draft_to: String,
+    },
 }
 
 fn list(problems: &[Problem]) -> String {

@@ -57,6 +57,10 @@ pub fn locate(archive: &mut Archive) -> Result<FoundMapping> {
     }
     Err(Error::NotFound {
         archive: archive.path().display().to_string(),
+        draft_to: beside_mapping(archive.path())
+            .unwrap_or_else(|| PathBuf::from(MAPPING_FILE_NAME))
+            .display()
+            .to_string(),
     })
 }
 

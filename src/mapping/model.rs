@@ -300,7 +300,7 @@ impl SourceCheck<'_> {
                 self.problem(
                     None,
                     "files",
-                    "missing; give the file(s) inside the archive, e.g. files = [\"likes/*.json\"]"
+                    "missing; give the files inside the archive, e.g. files = [\"likes/*.json\"]"
                         .into(),
                 );
                 None

@@ -157,9 +157,9 @@ pub fn write_text(r: &PlanReport, out: &mut dyn Write) -> io::Result<()> {
                 "every attribute under your alert levels".to_string()
             } else {
                 format!(
-                    "{} of {} attributes under your alert levels ({})",
+                    "{} of {} under your alert levels ({})",
                     m.attributes_met,
-                    m.after.len(),
+                    crate::reading::count(m.after.len(), "attribute", "attributes"),
                     over.join(", ")
                 )
             };

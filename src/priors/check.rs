@@ -342,8 +342,12 @@ impl<'a> ItemBuilder<'a> {
         }
         if self.n_problems > DETAILED_PROBLEMS {
             self.warnings.push(format!(
-                "… and {} more item problem(s)",
-                self.n_problems - DETAILED_PROBLEMS
+                "… and {} more",
+                crate::reading::count(
+                    self.n_problems - DETAILED_PROBLEMS,
+                    "item problem",
+                    "item problems"
+                )
             ));
         }
         let index = Index::build(&self.items, self.name_hashes, self.aliases);

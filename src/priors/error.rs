@@ -24,6 +24,6 @@ pub enum Error {
         found: String,
         expected: u32,
     },
-    #[error("{file}: the priors file has {} problem(s):\n{}", problems.len(), problems.iter().map(|p| format!("  - {p}")).collect::<Vec<_>>().join("\n"))]
+    #[error("{file}: the priors file has {}:\n{}", crate::reading::count(problems.len(), "problem", "problems"), problems.iter().map(|p| format!("  - {p}")).collect::<Vec<_>>().join("\n"))]
     Invalid { file: String, problems: Vec<String> },
 }

@@ -135,7 +135,7 @@ impl Priors {
                     file: origin.to_string(),
                     line: e.line(),
                     column: e.column(),
-                    message: e.to_string(),
+                    message: crate::records::json_reason(&e),
                 })
             }
         }

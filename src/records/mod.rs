@@ -17,3 +17,14 @@ pub use prune::Keep;
 pub use reader::{Record, RecordSink, read_records, records_found_nothing};
 pub use split::{Split, SplitPlan, Unsplit, split_records};
 pub use value::{FieldError, field_text, field_value};
+
+/// What is wrong with a JSON text, without the " at line L column C" serde_json adds:
+/// every message that shows it says the place itself, so it is said once.
+pub fn json_reason(e: &serde_json::Error) -> String {
+    let full = e.to_string();
+    let place = format!(" at line {} column {}", e.line(), e.column());
+    match full.strip_suffix(&place) {
+        Some(reason) => reason.to_string(),
+        None => full,
+    }
+}

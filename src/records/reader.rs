@@ -85,7 +85,11 @@ fn parse_json(text: &str, keep: Option<&Keep>) -> Result<Value, (String, usize)>
     parsed.map_err(|e| {
         let what = match e.classify() {
             serde_json::error::Category::Eof => "the file ends too early (truncated?)".to_string(),
-            _ => format!("not valid JSON: {e}"),
+            _ => format!(
+                "not valid JSON (column {}): {}",
+                e.column(),
+                super::json_reason(&e)
+            ),
         };
         (what, e.line())
     })

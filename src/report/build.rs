@@ -55,6 +55,18 @@ pub struct ScanReport {
 }
 
 impl ScanReport {
+    /// "3 of your items are not recognised by any evidence source, so telltale cannot
+    /// judge them" (or "1 … is … it"), for every format; empty when all are.
+    pub fn unmatched_sentence(&self) -> String {
+        match self.unmatched.len() {
+            0 => String::new(),
+            1 => "1 of your items is not recognised by any evidence source, so telltale cannot judge it".into(),
+            n => format!(
+                "{n} of your items are not recognised by any evidence source, so telltale cannot judge them"
+            ),
+        }
+    }
+
     /// Use the person's own alert levels (one per attribute, in the priors' order)
     /// instead of the priors': the threshold, level and reading of each attribute are
     /// worked out again, so every section of a document built from this report and a

@@ -108,11 +108,11 @@ pub fn write_html_with(
     writeln!(out, "<h1>{}</h1>", escape(&title))?;
     writeln!(
         out,
-        "<p class=\"meta\">Made by telltale {} on this computer, offline. {}, {} friends. \
-         Reference statistics: {} — {}{}; {} of {} items matched. Archive fingerprint <code>{}</code>.</p>",
+        "<p class=\"meta\">Made by telltale {} on this computer, offline. {}, {}. \
+         Reference statistics: {} — {}{}; {} of {} matched. Archive fingerprint <code>{}</code>.</p>",
         escape(&r.tool.version),
         escape(&r.archive.items_phrase()),
-        r.archive.friends,
+        count(r.archive.friends, "friend", "friends"),
         escape(&r.priors.name),
         escape(&r.priors.source),
         if r.priors.synthetic {
@@ -121,7 +121,7 @@ pub fn write_html_with(
             ""
         },
         r.priors.items_matched,
-        r.archive.items,
+        count(r.archive.items, "item", "items"),
         escape(&r.archive.fingerprint),
     )?;
     if r.archive.hidden > 0 {

@@ -15,8 +15,8 @@ pub(super) fn write_after_items(r: &ScanReport, top: usize, out: &mut dyn Write)
     if !r.unmatched.is_empty() {
         writeln!(
             out,
-            "<p class=\"note\">{} of your items are not recognised by any evidence source, so telltale cannot judge them.</p>",
-            r.unmatched.len()
+            "<p class=\"note\">{}.</p>",
+            escape(&r.unmatched_sentence())
         )?;
     }
     write_sources(r, out)?;
@@ -117,8 +117,8 @@ fn write_friends(r: &ScanReport, out: &mut dyn Write) -> io::Result<()> {
     writeln!(out, "<h2>Friends</h2>")?;
     writeln!(
         out,
-        "<p>{} friends (names are never shown). {}</p>",
-        f.total,
+        "<p>{} (names are never shown). {}</p>",
+        count(f.total, "friend", "friends"),
         if f.hidden {
             "The friend list is treated as private; the last column shows it visible again."
         } else {

@@ -38,9 +38,9 @@ pub fn write_markdown(r: &ScanReport, top: usize, out: &mut dyn Write) -> io::Re
     )?;
     writeln!(
         out,
-        "- **Archive:** {}, {} friends\n- **Reference statistics:** {} — {}{}; {} of {} items matched",
+        "- **Archive:** {}, {}\n- **Reference statistics:** {} — {}{}; {} of {} matched",
         esc(&r.archive.items_phrase()),
-        r.archive.friends,
+        count(r.archive.friends, "friend", "friends"),
         esc(&r.priors.name),
         esc(&r.priors.source),
         if r.priors.synthetic {
@@ -49,7 +49,7 @@ pub fn write_markdown(r: &ScanReport, top: usize, out: &mut dyn Write) -> io::Re
             ""
         },
         r.priors.items_matched,
-        r.archive.items
+        count(r.archive.items, "item", "items")
     )?;
     if r.archive.hidden > 0 {
         writeln!(
@@ -132,11 +132,7 @@ pub fn write_markdown(r: &ScanReport, top: usize, out: &mut dyn Write) -> io::Re
     }
 
     if !r.unmatched.is_empty() {
-        writeln!(
-            out,
-            "{} of your items are not recognised by any evidence source, so telltale cannot judge them.\n",
-            r.unmatched.len()
-        )?;
+        writeln!(out, "{}.\n", r.unmatched_sentence())?;
     }
     write_sources(r, out)?;
     write_special(r, top, out)?;
@@ -237,8 +233,8 @@ fn write_friends(r: &ScanReport, out: &mut dyn Write) -> io::Result<()> {
     writeln!(out, "## Friends\n")?;
     writeln!(
         out,
-        "{} friends (names are never shown). {}\n",
-        f.total,
+        "{} (names are never shown). {}\n",
+        count(f.total, "friend", "friends"),
         if f.hidden {
             "The friend list is treated as private; the last columns show it visible again."
         } else {

@@ -13,6 +13,7 @@ use crate::footprint::Footprint;
 use crate::infer::Exposure;
 use crate::lexicon::SpecialCategory;
 use crate::priors::Priors;
+use crate::reading::count;
 
 /// Items naming places in one region before the report calls it a pattern (common
 /// practice, no source).
@@ -119,9 +120,9 @@ pub fn source_reports(
             let mut notes = Vec::new();
             match kind {
                 SourceKind::Table => notes.push(format!(
-                    "{} of {} items matched a reference item",
+                    "{} of {} matched a reference item",
                     exposure.evidence().matched_items,
-                    footprint.items.len()
+                    count(footprint.items.len(), "item", "items")
                 )),
                 SourceKind::Places => {
                     // Items per value they point at, and their joint weight.
@@ -179,8 +180,8 @@ pub fn source_reports(
                         && stats.known.iter().all(|&k| k == 0)
                     {
                         notes.push(format!(
-                            "none of your {} friends has a known attribute; give some with --friends FILE or the mapping's [source.attributes]",
-                            stats.total
+                            "none of your {} has a known attribute; give some with --friends FILE or the mapping's [source.attributes]",
+                            count(stats.total, "friend", "friends")
                         ));
                     }
                 }

@@ -79,14 +79,14 @@ pub fn write_text(r: &ScanReport, opts: TextOptions, out: &mut dyn Write) -> io:
     writeln!(out, "{}", p.bold("telltale: what your archive gives away"))?;
     writeln!(
         out,
-        "Archive    {} · {} · {} friends",
+        "Archive    {} · {} · {}",
         r.archive.name,
         r.archive.items_phrase(),
-        r.archive.friends
+        count(r.archive.friends, "friend", "friends")
     )?;
     writeln!(
         out,
-        "Reference  {} · {}{} · {} of {} items matched",
+        "Reference  {} · {}{} · {} of {} matched",
         r.priors.name,
         r.priors.source,
         if r.priors.synthetic {
@@ -95,7 +95,7 @@ pub fn write_text(r: &ScanReport, opts: TextOptions, out: &mut dyn Write) -> io:
             ""
         },
         r.priors.items_matched,
-        r.archive.items
+        count(r.archive.items, "item", "items")
     )?;
     if r.archive.hidden > 0 {
         writeln!(
@@ -210,8 +210,8 @@ pub fn write_text(r: &ScanReport, opts: TextOptions, out: &mut dyn Write) -> io:
     if !r.unmatched.is_empty() {
         writeln!(
             out,
-            "  {} of your items are not recognised by any evidence source, so telltale cannot judge them{}.",
-            r.unmatched.len(),
+            "  {}{}.",
+            r.unmatched_sentence(),
             if r.unmatched.len() <= 3 {
                 format!(
                     ": {}",
@@ -367,8 +367,8 @@ fn write_friends(r: &ScanReport, p: &Paint, out: &mut dyn Write) -> io::Result<(
         "{}",
         wrap_words(
             &format!(
-                "{} friends; attributes known: {}.",
-                f.total,
+                "{}; attributes known: {}.",
+                count(f.total, "friend", "friends"),
                 known.join(", ")
             ),
             74,

@@ -33,9 +33,10 @@ pub struct DemoFiles {
 #[derive(Debug, thiserror::Error)]
 pub enum Error {
     #[error(
-        "{} under {dir} would be replaced ({}); nothing was written. Add --force to replace them, or choose an empty folder",
+        "{} under {dir} would be replaced ({}); nothing was written. Add --force to replace {}, or choose an empty folder",
         crate::reading::count(.files.len(), "file", "files"),
-        list(.files)
+        list(.files),
+        if .files.len() == 1 { "it" } else { "them" }
     )]
     WouldReplace { dir: PathBuf, files: Vec<PathBuf> },
     #[error("{}: {cause}", .path.display())]

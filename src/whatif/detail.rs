@@ -83,7 +83,10 @@ pub fn item_detail(s: &Session, subject: Subject) -> ItemDetail {
             "friends".to_string(),
             None,
             None,
-            Some(format!("{} friends in the archive", fp.friends.len())),
+            Some(format!(
+                "{} in the archive",
+                crate::reading::count(fp.friends.len(), "friend", "friends")
+            )),
         ),
     };
     let mut evidence = Vec::new();

@@ -66,7 +66,7 @@ pub fn render(app: &App, frame: &mut Frame, area: Rect, theme: Theme) {
                     .filter(|r| r.subject != telltale::evidence::Subject::FriendList)
                     .count();
                 let friends = if shown < app.rows.len() {
-                    " and your friend list"
+                    " + friend list"
                 } else {
                     ""
                 };

@@ -77,7 +77,10 @@ fn ready_words(r: &PlanResult, theme: Theme) -> (String, ratatui::style::Style) 
             "✓ Nothing needs hiding: every attribute is already under its alert level.".into()
         }
         (Method::Exact, Status::Optimal) => {
-            format!("✓ Proven smallest: no set of fewer than {n} items does it.")
+            format!(
+                "✓ Proven smallest: no set of fewer than {} does it.",
+                telltale::reading::count(n, "item", "items")
+            )
         }
         (Method::Exact, Status::Feasible) => {
             let mut t = match o.stopped {
@@ -360,10 +363,10 @@ fn detail_lines(r: &PlanReport, w: usize, theme: Theme) -> Vec<Line<'static>> {
                 format!("• To {}: every attribute under its level", m.description)
             } else {
                 format!(
-                    "• To {}: {} of {} attributes under their levels",
+                    "• To {}: {} of {} under their levels",
                     m.description,
                     m.attributes_met,
-                    m.after.len()
+                    telltale::reading::count(m.after.len(), "attribute", "attributes")
                 )
             };
             if let Some(n) = plan_n
