@@ -158,6 +158,19 @@ pub fn priors_json(data: &[u8]) {
     if let Ok(priors) = crate::priors::Priors::parse(&text, "fuzz.json") {
         match_some(&priors);
     }
+    // Small limits, so the paths that stop at one (items, attributes, values,
+    // aliases, name length, member lists) are reached by short inputs.
+    let small = Limits {
+        priors_items: 2,
+        attributes: 2,
+        values: 3,
+        aliases: 1,
+        name_bytes: 12,
+        ..Limits::default()
+    };
+    if let Ok(priors) = crate::priors::Priors::parse_within(&text, "fuzz.json", &small) {
+        match_some(&priors);
+    }
 }
 
 /// The priors cache reader. The first byte picks how the rest is used: odd, as a whole
@@ -209,6 +222,20 @@ pub fn friends_csv(data: &[u8]) {
         return;
     };
     let (text, _) = decode_text(data);
-    let mut footprint = crate::footprint::Footprint::default();
-    let _ = crate::friends_file::merge_friends_csv(&mut footprint, &text, "fuzz.csv", &priors);
+    // Default limits, then small ones, so the limit paths are reached too.
+    let small = Limits {
+        name_bytes: 8,
+        friends_rows: 3,
+        ..Limits::default()
+    };
+    for limits in [Limits::default(), small] {
+        let mut footprint = crate::footprint::Footprint::default();
+        let _ = crate::friends_file::merge_friends_csv(
+            &mut footprint,
+            &text,
+            "fuzz.csv",
+            &priors,
+            &limits,
+        );
+    }
 }

@@ -1,6 +1,7 @@
-//! Bounds on what one import may read, so that a huge, broken or hostile archive gets
-//! an error naming the limit instead of exhausting the machine. Every limit has a
-//! default sized for real personal archives and can be raised by the user.
+//! Bounds on what one import may read, so that a huge, broken or hostile archive,
+//! priors file, friends file or mapping gets an error or a warning naming the file and
+//! the limit instead of exhausting the machine. Every limit has a default sized for
+//! real personal archives and real reference tables, and can be raised by the user.
 
 use std::fmt;
 use std::str::FromStr;
@@ -25,6 +26,25 @@ pub struct Limits {
     /// Largest ratio of decompressed to compressed size for a zip entry (a
     /// compression bomb inflates thousands of times).
     pub compression_ratio: u64,
+    /// Largest priors file, in bytes.
+    pub priors_bytes: u64,
+    /// Most reference items one priors file may list.
+    pub priors_items: u64,
+    /// Most attributes one priors file may list (and member entries one item may have).
+    pub attributes: u64,
+    /// Most values one attribute may have (and counts one member list may hold).
+    pub values: u64,
+    /// Most aliases one reference item may have.
+    pub aliases: u64,
+    /// Longest name, id, alias, label or provenance text in a priors file, and longest
+    /// field in a friends file, in bytes.
+    pub name_bytes: u64,
+    /// Largest friends file (`--friends`), in bytes.
+    pub friends_bytes: u64,
+    /// Most rows a friends file may have.
+    pub friends_rows: u64,
+    /// Largest mapping file, in bytes.
+    pub mapping_bytes: u64,
 }
 
 impl Default for Limits {
@@ -38,6 +58,19 @@ impl Default for Limits {
             line_bytes: 16 << 20,    // 16 MiB
             json_depth: 128,         // serde_json's own recursion bound
             compression_ratio: 1000, // common practice, no source: text compresses ~5–50×
+            // The limits below are common practice, no source: each sits well above what
+            // a real file needs (the one-million-item benchmark priors file is 301 MB; a
+            // country's first-level regions number under 100) and well below what would
+            // exhaust a laptop.
+            priors_bytes: 512 << 20, // 512 MiB
+            priors_items: 5_000_000,
+            attributes: 256,
+            values: 10_000,
+            aliases: 1_000,
+            name_bytes: 4 << 10, // 4 KiB: far past any page or group title
+            friends_bytes: 64 << 20,
+            friends_rows: 1_000_000,
+            mapping_bytes: 4 << 20, // a mapping with 2,000 sources is about 150 KB
         }
     }
 }
@@ -53,10 +86,19 @@ pub enum LimitName {
     LineBytes,
     JsonDepth,
     CompressionRatio,
+    PriorsBytes,
+    PriorsItems,
+    Attributes,
+    Values,
+    Aliases,
+    NameBytes,
+    FriendsBytes,
+    FriendsRows,
+    MappingBytes,
 }
 
 impl LimitName {
-    pub const ALL: [LimitName; 8] = [
+    pub const ALL: [LimitName; 17] = [
         LimitName::EntryBytes,
         LimitName::TotalBytes,
         LimitName::Entries,
@@ -65,6 +107,15 @@ impl LimitName {
         LimitName::LineBytes,
         LimitName::JsonDepth,
         LimitName::CompressionRatio,
+        LimitName::PriorsBytes,
+        LimitName::PriorsItems,
+        LimitName::Attributes,
+        LimitName::Values,
+        LimitName::Aliases,
+        LimitName::NameBytes,
+        LimitName::FriendsBytes,
+        LimitName::FriendsRows,
+        LimitName::MappingBytes,
     ];
 
     pub fn key(self) -> &'static str {
@@ -77,6 +128,15 @@ impl LimitName {
             LimitName::LineBytes => "line-bytes",
             LimitName::JsonDepth => "json-depth",
             LimitName::CompressionRatio => "compression-ratio",
+            LimitName::PriorsBytes => "priors-bytes",
+            LimitName::PriorsItems => "priors-items",
+            LimitName::Attributes => "attributes",
+            LimitName::Values => "values",
+            LimitName::Aliases => "aliases",
+            LimitName::NameBytes => "name-bytes",
+            LimitName::FriendsBytes => "friends-bytes",
+            LimitName::FriendsRows => "friends-rows",
+            LimitName::MappingBytes => "mapping-bytes",
         }
     }
 
@@ -90,7 +150,48 @@ impl LimitName {
             LimitName::LineBytes => "length of one line",
             LimitName::JsonDepth => "JSON nesting depth",
             LimitName::CompressionRatio => "compression ratio of a zip entry",
+            LimitName::PriorsBytes => "size of a priors file",
+            LimitName::PriorsItems => "number of reference items in a priors file",
+            LimitName::Attributes => "number of attributes",
+            LimitName::Values => "number of values of one attribute",
+            LimitName::Aliases => "number of aliases of one item",
+            LimitName::NameBytes => "length of one name, id, label or field",
+            LimitName::FriendsBytes => "size of a friends file",
+            LimitName::FriendsRows => "number of rows in a friends file",
+            LimitName::MappingBytes => "size of a mapping file",
         }
+    }
+
+    /// True for limits on a number of bytes.
+    pub fn is_bytes(self) -> bool {
+        matches!(
+            self,
+            LimitName::EntryBytes
+                | LimitName::TotalBytes
+                | LimitName::LineBytes
+                | LimitName::PriorsBytes
+                | LimitName::NameBytes
+                | LimitName::FriendsBytes
+                | LimitName::MappingBytes
+        )
+    }
+
+    /// A value of this limit in words: "4.0 KiB" for sizes, "10,000" for counts.
+    pub fn show(self, value: u64) -> String {
+        if self.is_bytes() {
+            human_bytes(value)
+        } else {
+            thousands(value)
+        }
+    }
+
+    /// The hint that ends every message about this limit.
+    pub fn raise_hint(self) -> String {
+        let what = if self.is_bytes() { "SIZE" } else { "N" };
+        format!(
+            "raise it with --limit {}={what} if you trust the file",
+            self.key()
+        )
     }
 }
 
@@ -111,6 +212,15 @@ impl Limits {
             LimitName::LineBytes => self.line_bytes,
             LimitName::JsonDepth => self.json_depth,
             LimitName::CompressionRatio => self.compression_ratio,
+            LimitName::PriorsBytes => self.priors_bytes,
+            LimitName::PriorsItems => self.priors_items,
+            LimitName::Attributes => self.attributes,
+            LimitName::Values => self.values,
+            LimitName::Aliases => self.aliases,
+            LimitName::NameBytes => self.name_bytes,
+            LimitName::FriendsBytes => self.friends_bytes,
+            LimitName::FriendsRows => self.friends_rows,
+            LimitName::MappingBytes => self.mapping_bytes,
         }
     }
 
@@ -124,6 +234,15 @@ impl Limits {
             LimitName::LineBytes => self.line_bytes = value,
             LimitName::JsonDepth => self.json_depth = value,
             LimitName::CompressionRatio => self.compression_ratio = value,
+            LimitName::PriorsBytes => self.priors_bytes = value,
+            LimitName::PriorsItems => self.priors_items = value,
+            LimitName::Attributes => self.attributes = value,
+            LimitName::Values => self.values = value,
+            LimitName::Aliases => self.aliases = value,
+            LimitName::NameBytes => self.name_bytes = value,
+            LimitName::FriendsBytes => self.friends_bytes = value,
+            LimitName::FriendsRows => self.friends_rows = value,
+            LimitName::MappingBytes => self.mapping_bytes = value,
         }
     }
 
@@ -168,6 +287,19 @@ pub fn parse_size(s: &str) -> Result<u64, String> {
         .ok_or_else(|| format!("'{s}' is too large"))
 }
 
+/// A whole number with thousands separators: "52,428,800".
+pub fn thousands(n: u64) -> String {
+    let digits = n.to_string();
+    let mut out = String::with_capacity(digits.len() + digits.len() / 3);
+    for (i, c) in digits.chars().enumerate() {
+        if i > 0 && (digits.len() - i).is_multiple_of(3) {
+            out.push(',');
+        }
+        out.push(c);
+    }
+    out
+}
+
 /// Human form of a byte count: "1.0 GiB", "512 KiB", "17 bytes".
 pub fn human_bytes(n: u64) -> String {
     const UNITS: [(&str, u64); 3] = [("GiB", 1 << 30), ("MiB", 1 << 20), ("KiB", 1 << 10)];
@@ -200,5 +332,20 @@ mod tests {
         assert_eq!(human_bytes(17), "17 bytes");
         assert_eq!(human_bytes(1 << 30), "1.0 GiB");
         assert_eq!(human_bytes(1536), "1.5 KiB");
+        assert_eq!(thousands(52_428_800), "52,428,800");
+        assert_eq!(thousands(999), "999");
+        assert_eq!(thousands(1000), "1,000");
+        assert_eq!(LimitName::NameBytes.show(4096), "4.0 KiB");
+        assert_eq!(LimitName::Values.show(10_000), "10,000");
+    }
+
+    #[test]
+    fn every_limit_has_a_key_a_value_and_a_setter() {
+        let mut l = Limits::default();
+        for name in LimitName::ALL {
+            assert_eq!(LimitName::from_str(name.key()), Ok(name));
+            l.set(name, 7);
+            assert_eq!(l.get(name), 7, "{name}");
+        }
     }
 }

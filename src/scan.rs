@@ -25,8 +25,13 @@ pub const DEMO_PRIORS_NAME: &str = "demo-priors.json (bundled)";
 /// [`priors::disable_cache`] was called), or the bundled demo priors when no file is
 /// named.
 pub fn load_priors(path: Option<&Path>) -> Result<Priors, priors::Error> {
+    load_priors_within(path, &Limits::default())
+}
+
+/// [`load_priors`] within reading limits (the `--limit` settings).
+pub fn load_priors_within(path: Option<&Path>, limits: &Limits) -> Result<Priors, priors::Error> {
     match path {
-        Some(p) => Priors::load_cached(p, priors::cache_dir().as_deref()),
+        Some(p) => Priors::load_cached_within(p, priors::cache_dir().as_deref(), limits),
         None => Priors::parse(DEMO_PRIORS_JSON, DEMO_PRIORS_NAME),
     }
 }
@@ -70,9 +75,9 @@ pub struct Scan {
 /// The mapping the input names, or else the one found inside or beside the archive.
 fn mapping_for(input: &ScanInput, archive: &mut Archive) -> Result<Mapping, Error> {
     Ok(match &input.mapping {
-        Some(p) => Mapping::load(p)?,
+        Some(p) => Mapping::load_within(p, &input.limits)?,
         None => {
-            let found = mapping::locate(archive)?;
+            let found = mapping::locate_within(archive, &input.limits)?;
             Mapping::parse(&found.text, &found.origin)?
         }
     })
@@ -114,7 +119,7 @@ impl Scan {
         })?;
         priors.restore_file_attributes();
         if let Some(path) = &input.friends_file {
-            merge_friends_file(&mut footprint, path, priors)?;
+            merge_friends_file(&mut footprint, path, priors, &input.limits)?;
         }
         Ok(Scan::from_footprint(
             archive.display_name(),

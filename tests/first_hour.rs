@@ -59,7 +59,12 @@ fn library_errors_say_their_cause_once_when_printed_as_a_chain() {
     }
     let priors = telltale::scan::load_priors(None).expect("bundled priors");
     let mut fp = telltale::footprint::Footprint::default();
-    if let Err(e) = telltale::friends_file::merge_friends_file(&mut fp, nowhere, &priors) {
+    if let Err(e) = telltale::friends_file::merge_friends_file(
+        &mut fp,
+        nowhere,
+        &priors,
+        &telltale::limits::Limits::default(),
+    ) {
         printed.push(chain(e));
     }
     // A file where the decisions folder should be: the folder cannot be made.

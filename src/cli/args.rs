@@ -335,7 +335,9 @@ pub struct SourceArgs {
 
     /// Raise or lower a reading limit, e.g. --limit entry-bytes=2G. Limits:
     /// entry-bytes, total-bytes, entries, folder-depth, records, line-bytes,
-    /// json-depth.
+    /// json-depth, compression-ratio; for the priors file priors-bytes, priors-items,
+    /// attributes, values, aliases, name-bytes; friends-bytes, friends-rows;
+    /// mapping-bytes (docs/mapping.md, "Reading limits").
     #[arg(long = "limit", value_name = "NAME=VALUE")]
     pub limits: Vec<String>,
 

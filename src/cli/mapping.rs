@@ -11,7 +11,7 @@ use telltale::archive::Archive;
 use telltale::limits::Limits;
 use telltale::mapping::{self, Mapping, MappingCheck, SourceKind, check_against, draft};
 use telltale::reading::count;
-use telltale::scan::load_priors;
+use telltale::scan::load_priors_within;
 
 use super::args::{MappingCheckArgs, MappingCommand, MappingDraftArgs};
 use super::output::emit;
@@ -38,7 +38,8 @@ fn limits(settings: &[String]) -> Result<Limits> {
 
 fn run_draft(args: &MappingDraftArgs) -> Result<ExitCode> {
     let limits = limits(&args.limits)?;
-    let priors = load_priors(args.priors.as_deref()).context("cannot use the priors")?;
+    let priors =
+        load_priors_within(args.priors.as_deref(), &limits).context("cannot use the priors")?;
     let mut archive = Archive::open(&args.archive, &limits)?;
     let drafted = draft(&mut archive, &priors, &limits);
     for w in drafted.warnings() {
@@ -62,10 +63,10 @@ fn run_draft(args: &MappingDraftArgs) -> Result<ExitCode> {
 fn run_check(args: &MappingCheckArgs) -> Result<ExitCode> {
     let limits = limits(&args.limits)?;
     let mapping = match &args.mapping {
-        Some(p) => Mapping::load(p)?,
+        Some(p) => Mapping::load_within(p, &limits)?,
         None => {
             let mut archive = Archive::open(&args.archive, &limits)?;
-            let found = mapping::locate(&mut archive)?;
+            let found = mapping::locate_within(&mut archive, &limits)?;
             Mapping::parse(&found.text, &found.origin)?
         }
     };

@@ -7,19 +7,14 @@ use anyhow::{Context, Result};
 use telltale::evidence::Sources;
 use telltale::limits::Limits;
 use telltale::report::{RowCount, TextOptions, write_html, write_markdown, write_text};
-use telltale::scan::{Scan, ScanInput, load_priors};
+use telltale::scan::{Scan, ScanInput, load_priors_within};
 
 use super::args::{ColourChoice, OutputArgs, ReportFormat, ScanArgs, SourceArgs};
 use super::output::{emit, use_colour};
 
 /// Build the scan input from the shared arguments.
 pub fn input(archive: PathBuf, src: &SourceArgs) -> Result<ScanInput> {
-    let mut limits = Limits::default();
-    for setting in &src.limits {
-        limits
-            .apply(setting)
-            .map_err(|e| anyhow::anyhow!("--limit {setting}: {e}"))?;
-    }
+    let limits = limits(src)?;
     let mut sources = match &src.sources {
         Some(list) => Sources::parse_list(list).map_err(|e| anyhow::anyhow!("--sources: {e}"))?,
         None => Sources::all(),
@@ -34,10 +29,22 @@ pub fn input(archive: PathBuf, src: &SourceArgs) -> Result<ScanInput> {
     })
 }
 
+/// The reading limits: the defaults with the --limit settings applied.
+pub fn limits(src: &SourceArgs) -> Result<Limits> {
+    let mut limits = Limits::default();
+    for setting in &src.limits {
+        limits
+            .apply(setting)
+            .map_err(|e| anyhow::anyhow!("--limit {setting}: {e}"))?;
+    }
+    Ok(limits)
+}
+
 /// Load the priors the flags name (or the bundled ones), note what the cache did, and
 /// apply the rarity settings of the alert rule.
 pub fn priors(src: &SourceArgs) -> Result<telltale::priors::Priors> {
-    let mut priors = load_priors(src.priors.as_deref()).context("cannot use the priors")?;
+    let mut priors = load_priors_within(src.priors.as_deref(), &limits(src)?)
+        .context("cannot use the priors")?;
     note_cache(&priors);
     priors.rarity = rarity(src)?;
     Ok(priors)
@@ -55,11 +62,13 @@ pub fn rarity(src: &SourceArgs) -> Result<telltale::alert::Rarity> {
     telltale::alert::Rarity::new(floor, lift).map_err(|e| anyhow::anyhow!("{e}"))
 }
 
-/// What the priors cache did, on a terminal only (scripts stay quiet).
+/// What the priors cache did: its problems (a cache refused or unwritable) always,
+/// the rest on a terminal only (scripts stay quiet).
 pub fn note_cache(priors: &telltale::priors::Priors) {
     use std::io::IsTerminal;
-    if std::io::stderr().is_terminal() {
-        for n in &priors.cache_notes {
+    let terminal = std::io::stderr().is_terminal();
+    for n in &priors.cache_notes {
+        if terminal || telltale::priors::is_cache_problem(n) {
             eprintln!("priors: {n}");
         }
     }

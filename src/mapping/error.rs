@@ -25,6 +25,10 @@ impl fmt::Display for Problem {
 
 #[derive(Debug, thiserror::Error)]
 pub enum Error {
+    #[error("{file}: the mapping file is {size}, over the limit of {limit} (mapping-bytes: the size of a mapping file); {hint}",
+        size = crate::limits::human_bytes(*size), limit = crate::limits::human_bytes(*limit),
+        hint = crate::limits::LimitName::MappingBytes.raise_hint())]
+    TooBig { file: String, size: u64, limit: u64 },
     #[error("{file}: cannot read the mapping file: {cause}")]
     Read {
         file: String,

@@ -19,8 +19,33 @@ pub struct FoundMapping {
     pub origin: String,
 }
 
-/// Look for a mapping inside or beside the archive.
+/// Look for a mapping inside or beside the archive, within the default limits.
 pub fn locate(archive: &mut Archive) -> Result<FoundMapping> {
+    locate_within(archive, &Limits::default())
+}
+
+/// A mapping file's text, refused before it is read when over the `mapping-bytes`
+/// limit.
+pub(crate) fn read_mapping(path: &Path, limits: &Limits) -> Result<String> {
+    let file = path.display().to_string();
+    let read_err = |source| Error::Read {
+        file: file.clone(),
+        cause: source,
+    };
+    let size = std::fs::metadata(path).map_err(read_err)?.len();
+    if size > limits.mapping_bytes {
+        return Err(Error::TooBig {
+            file,
+            size,
+            limit: limits.mapping_bytes,
+        });
+    }
+    std::fs::read_to_string(path).map_err(read_err)
+}
+
+/// Look for a mapping inside or beside the archive; one over the `mapping-bytes`
+/// limit is refused with a message naming it.
+pub fn locate_within(archive: &mut Archive, limits: &Limits) -> Result<FoundMapping> {
     let inside = archive
         .entries()
         .iter()
@@ -30,9 +55,16 @@ pub fn locate(archive: &mut Archive) -> Result<FoundMapping> {
         })
         .cloned();
     if let Some(entry) = inside {
+        if entry.size > limits.mapping_bytes {
+            return Err(Error::TooBig {
+                file: format!("{} (inside {})", entry.path, archive.display_name()),
+                size: entry.size,
+                limit: limits.mapping_bytes,
+            });
+        }
         let limits = Limits {
-            entry_bytes: 1 << 20,
-            ..Limits::default()
+            entry_bytes: limits.mapping_bytes,
+            ..limits.clone()
         };
         let mut budget = ReadBudget::new(&limits);
         if let Ok(bytes) = archive.read(&entry, &mut budget) {
@@ -45,10 +77,7 @@ pub fn locate(archive: &mut Archive) -> Result<FoundMapping> {
     }
     for candidate in beside(archive.path()) {
         if candidate.is_file() {
-            let text = std::fs::read_to_string(&candidate).map_err(|source| Error::Read {
-                file: candidate.display().to_string(),
-                cause: source,
-            })?;
+            let text = read_mapping(&candidate, limits)?;
             return Ok(FoundMapping {
                 text,
                 origin: candidate.display().to_string(),

@@ -17,5 +17,5 @@ mod raw;
 pub use check::{MappingCheck, SourceCheck, check_against};
 pub use draft::{Draft, draft};
 pub use error::{Error, Problem, Result};
-pub use locate::{FoundMapping, MAPPING_FILE_NAME, beside_mapping, locate};
+pub use locate::{FoundMapping, MAPPING_FILE_NAME, beside_mapping, locate, locate_within};
 pub use model::{DateFormat, Field, Format, Mapping, Repair, Source, SourceKind};

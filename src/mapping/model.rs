@@ -159,12 +159,15 @@ pub struct Mapping {
 }
 
 impl Mapping {
-    /// Read and check a mapping file.
+    /// Read and check a mapping file within the default reading limits.
     pub fn load(path: &Path) -> Result<Mapping> {
-        let text = std::fs::read_to_string(path).map_err(|source| Error::Read {
-            file: path.display().to_string(),
-            cause: source,
-        })?;
+        Mapping::load_within(path, &crate::limits::Limits::default())
+    }
+
+    /// Read and check a mapping file; one over the `mapping-bytes` limit is refused
+    /// before it is read.
+    pub fn load_within(path: &Path, limits: &crate::limits::Limits) -> Result<Mapping> {
+        let text = super::locate::read_mapping(path, limits)?;
         Mapping::parse(&text, &path.display().to_string())
     }
 

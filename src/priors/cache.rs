@@ -19,11 +19,13 @@ use std::path::{Path, PathBuf};
 use std::sync::atomic::{AtomicBool, Ordering};
 
 use super::bin::{Reader, Stream, Writer};
+use super::check::MAX_COUNT;
 use super::error::{Error, Result};
 use super::index::{Index, Keyed};
 use super::model::Priors;
 use super::store::{HAS_ID, Items, KIND_MASK, TAG_F64, width};
 use crate::footprint::ItemKind;
+use crate::limits::Limits;
 
 /// Bumped whenever the layout below changes; a cache of another version is refused.
 pub const CACHE_VERSION: u32 = 3;
@@ -72,21 +74,39 @@ pub fn cache_path(dir: &Path, hash: &blake3::Hash) -> PathBuf {
 
 impl Priors {
     /// Load a priors file, through the cache in `cache` when given (see the module
-    /// notes); `Priors::cache_notes` says what happened.
+    /// notes), within the default reading limits; `Priors::cache_notes` says what
+    /// happened.
     pub fn load_cached(path: &Path, cache: Option<&Path>) -> Result<Priors> {
+        Priors::load_cached_within(path, cache, &Limits::default())
+    }
+
+    /// [`Priors::load_cached`] within `limits`: a file over the size limit is refused
+    /// before it is hashed, and a cache whose contents break a limit is not used (the
+    /// JSON is read instead, and says which limit).
+    pub fn load_cached_within(
+        path: &Path,
+        cache: Option<&Path>,
+        limits: &Limits,
+    ) -> Result<Priors> {
         let Some(dir) = cache else {
-            return Priors::load(path);
+            return Priors::load_within(path, limits);
         };
         let origin = path.display().to_string();
         let read_err = |source| Error::Read {
             file: origin.clone(),
             cause: source,
         };
+        let len = std::fs::metadata(path).map_err(read_err)?.len();
+        if len > limits.priors_bytes {
+            return Err(super::model::too_big(&origin, len, limits));
+        }
         let mut notes = Vec::new();
         let hash = hash_file(path).map_err(read_err)?;
         let cached = cache_path(dir, &hash);
         match open_cache(&cached) {
-            Ok((file, len)) => match decode_from(file, len, &hash, &origin) {
+            Ok((file, len)) => match decode_from(file, len, &hash, &origin)
+                .and_then(|p| within(&p, limits).map(|()| p))
+            {
                 Ok(mut priors) => {
                     priors
                         .cache_notes
@@ -94,15 +114,15 @@ impl Priors {
                     return Ok(priors);
                 }
                 Err(why) => notes.push(format!(
-                    "the cache {} was not used ({why}); read the JSON instead",
+                    "the cache {} of {origin} was not used ({why}); read {origin} itself instead",
                     cached.display()
                 )),
             },
             Err(e) if e.kind() == std::io::ErrorKind::NotFound => {}
             Err(e) => notes.push(format!("cannot read the cache {}: {e}", cached.display())),
         }
-        let text = std::fs::read_to_string(path).map_err(read_err)?;
-        let mut priors = Priors::parse(&text, &origin)?;
+        let text = super::model::read_within(path, &origin, limits)?;
+        let mut priors = Priors::parse_within(&text, &origin, limits)?;
         if text.len() >= MIN_CACHED_BYTES || priors.len_items() >= MIN_CACHED_ITEMS {
             // The key is the hash of the text actually parsed (the file may have
             // changed since it was hashed above).
@@ -118,6 +138,40 @@ impl Priors {
         }
         priors.cache_notes = notes;
         Ok(priors)
+    }
+}
+
+/// True for a cache note that reports a problem (a cache refused, unreadable or not
+/// written), which a person should see even when telltale's output goes to a script;
+/// the others say only that a cache was read or written.
+pub fn is_cache_problem(note: &str) -> bool {
+    !(note.starts_with("read from the cache") || note.starts_with("wrote the cache"))
+}
+
+/// A cache that reads and checks is still not used when its contents break one of
+/// this run's reading limits (it may have been made with raised ones): the JSON is
+/// read instead and names the limit.
+fn within(p: &Priors, limits: &Limits) -> std::result::Result<(), &'static str> {
+    let s = &p.store;
+    let name_max = limits.name_bytes as usize;
+    let too_long = |t: &str| t.len() > name_max;
+    let over = p.attributes.len() as u64 > limits.attributes
+        || p.attributes.iter().any(|a| {
+            a.values.len() as u64 > limits.values
+                || too_long(&a.id)
+                || too_long(&a.label)
+                || a.values
+                    .iter()
+                    .any(|v| too_long(&v.id) || too_long(&v.label))
+        })
+        || s.len() as u64 > limits.priors_items
+        || s.spans
+            .windows(2)
+            .any(|w| (w[1] - w[0]) as usize > name_max);
+    if over {
+        Err("over one of this run's reading limits")
+    } else {
+        Ok(())
     }
 }
 
@@ -281,6 +335,9 @@ fn read_payload<R: Read>(r: &mut Stream<R>, origin: &str) -> Option<Priors> {
     let attributes = (0..n_attr)
         .map(|_| h.attribute())
         .collect::<Option<Vec<_>>>()?;
+    if !attributes_ok(&attributes) {
+        return None;
+    }
     let n_warn = usize::try_from(h.u64()?).ok()?;
     if n_warn > head.len() / 8 {
         return None;
@@ -334,6 +391,54 @@ fn read_payload<R: Read>(r: &mut Stream<R>, origin: &str) -> Option<Priors> {
     })
 }
 
+/// The attributes are what the JSON checks leave: ids and value ids each used once,
+/// base and member rates above 0 summing to 1 (and the logs of the base rates beside
+/// them), a threshold above 0 and at most 1, smoothing and pseudocount 0 or more and
+/// not both 0, a temperature above 0 and finite logistic weights. A cache whose
+/// checksum matches but whose numbers are absurd (edited, or written by a broken
+/// build) is refused like a damaged one.
+fn attributes_ok(attributes: &[super::model::Attribute]) -> bool {
+    let sums_to_one = |v: &[f64]| {
+        v.iter().all(|x| x.is_finite() && *x > 0.0) && (v.iter().sum::<f64>() - 1.0).abs() < 1e-6
+    };
+    let mut ids = std::collections::HashSet::new();
+    attributes.iter().all(|a| {
+        let mut values = std::collections::HashSet::new();
+        let weights_ok = match &a.calibration {
+            super::file::Calibration::Temperature { lambda } => lambda.is_finite() && *lambda > 0.0,
+            super::file::Calibration::Logistic {
+                lambda,
+                intercept,
+                log_odds,
+                log_base_rate,
+                evidence_spread,
+            } => {
+                lambda.is_finite()
+                    && *lambda > 0.0
+                    && [intercept, log_odds, log_base_rate, evidence_spread]
+                        .iter()
+                        .all(|w| w.is_finite())
+            }
+        };
+        ids.insert(a.id.as_str())
+            && a.values.iter().all(|v| values.insert(v.id.as_str()))
+            && sums_to_one(&a.base_rates)
+            && sums_to_one(&a.member_rates)
+            && a.base_rates
+                .iter()
+                .zip(&a.log_base)
+                .all(|(p, l)| (p.ln() - l).abs() <= 1e-9 * (1.0 + l.abs()))
+            && a.threshold > 0.0
+            && a.threshold <= 1.0
+            && a.smoothing.is_finite()
+            && a.smoothing >= 0.0
+            && a.pseudocount.is_finite()
+            && a.pseudocount >= 0.0
+            && a.smoothing + a.pseudocount > 0.0
+            && weights_ok
+    })
+}
+
 /// Offsets start at 0, never go down, end at `len`, and (for text) fall on character
 /// boundaries.
 fn spans_ok(spans: &[u32], len: usize, text: Option<&str>) -> bool {
@@ -379,14 +484,15 @@ fn items_ok(s: &mut Items) -> bool {
             else {
                 return false;
             };
-            // Raw counts are what the checks leave: finite, not below 0.
+            // Raw counts are what the checks leave: finite, not below 0, not over
+            // MAX_COUNT.
             if s.entry_tag[e] == TAG_F64
                 && !s.counts[at as usize..end as usize]
                     .chunks_exact(8)
                     .all(|c| {
                         let v =
                             f64::from_le_bytes([c[0], c[1], c[2], c[3], c[4], c[5], c[6], c[7]]);
-                        v.is_finite() && v >= 0.0
+                        v.is_finite() && (0.0..=MAX_COUNT).contains(&v)
                     })
             {
                 return false;

@@ -25,6 +25,16 @@ pub(crate) const MAX_COUNT: f64 = 1e15;
 /// Item-level problems listed in detail before they are only counted.
 const DETAILED_PROBLEMS: usize = 10;
 
+/// The start of a name for a message: at most 60 characters, with "…" when cut, so
+/// a hostile name never fills a screen or a warning list.
+pub fn short(name: &str) -> std::borrow::Cow<'_, str> {
+    const KEEP: usize = 60;
+    match name.char_indices().nth(KEEP) {
+        None => name.into(),
+        Some((end, _)) => format!("{}…", &name[..end]).into(),
+    }
+}
+
 /// Check the attributes; every problem is listed in the error.
 pub(crate) fn check_attributes(
     specs: &[super::file::AttributeSpec],
@@ -196,12 +206,18 @@ pub(crate) struct ItemBuilder<'a> {
     too_large: bool,
     members: Vec<(usize, std::ops::Range<usize>)>,
     counts: Vec<f64>,
+    /// Longest name, id or alias kept.
+    name_bytes: usize,
 }
 
 const NO_ITEM: u32 = u32::MAX;
 
 impl<'a> ItemBuilder<'a> {
-    pub fn new(attributes: &'a [Attribute], capacity: usize) -> ItemBuilder<'a> {
+    pub fn new(
+        attributes: &'a [Attribute],
+        capacity: usize,
+        limits: &crate::limits::Limits,
+    ) -> ItemBuilder<'a> {
         ItemBuilder {
             attr_index: attributes
                 .iter()
@@ -219,10 +235,12 @@ impl<'a> ItemBuilder<'a> {
             too_large: false,
             members: Vec::new(),
             counts: Vec::new(),
+            name_bytes: usize::try_from(limits.name_bytes).unwrap_or(usize::MAX),
         }
     }
 
-    fn note(&mut self, w: String) {
+    /// Record an item problem (listed in detail up to a point, then counted).
+    pub(crate) fn note(&mut self, w: String) {
         self.n_problems += 1;
         if self.n_problems <= DETAILED_PROBLEMS {
             self.warnings.push(w);
@@ -230,8 +248,9 @@ impl<'a> ItemBuilder<'a> {
     }
 
     /// Check item `ii` and store it unless it must be skipped. `members` are (attribute
-    /// id, counts as read) in ascending attribute-id order, each id once (as a sorted
-    /// map gives them).
+    /// id, counts as read, how many counts the list had) in ascending attribute-id
+    /// order, each id once (as a sorted map gives them). A name, id or alias over the
+    /// name limit is skipped with a warning.
     pub fn push<'m>(
         &mut self,
         ii: usize,
@@ -239,9 +258,26 @@ impl<'a> ItemBuilder<'a> {
         name: &str,
         kind: Option<ItemKind>,
         aliases: impl Iterator<Item = &'m str>,
-        members: impl Iterator<Item = (&'m str, &'m [f64])>,
+        members: impl Iterator<Item = (&'m str, &'m [f64], usize)>,
     ) {
-        let at = || format!("items[{ii}] ('{name}')");
+        let at = || format!("items[{ii}] ('{}')", short(name));
+        let over = [("name", Some(name)), ("id", id)]
+            .into_iter()
+            .find_map(|(field, text)| {
+                text.filter(|t| t.len() > self.name_bytes)
+                    .map(|t| (field, t.len()))
+            });
+        if let Some((field, len)) = over {
+            let w = format!(
+                "{}: the {field} is {} bytes long, over the limit of {} (name-bytes); item skipped ({})",
+                at(),
+                crate::limits::thousands(len as u64),
+                crate::limits::LimitName::NameBytes.show(self.name_bytes as u64),
+                crate::limits::LimitName::NameBytes.raise_hint()
+            );
+            self.note(w);
+            return;
+        }
         let n = self.items.len() as u32;
         if let Some(id) = id {
             let h = key_hash(id);
@@ -265,21 +301,22 @@ impl<'a> ItemBuilder<'a> {
         }
         self.members.clear();
         self.counts.clear();
-        for (attr_id, m) in members {
+        for (attr_id, m, len) in members {
             let Some(&ai) = self.attr_index.get(attr_id) else {
                 let w = format!(
-                    "{}: unknown attribute '{attr_id}'; its counts are ignored",
-                    at()
+                    "{}: unknown attribute '{}'; its counts are ignored",
+                    at(),
+                    short(attr_id)
                 );
                 self.note(w);
                 continue;
             };
             let k = self.value_counts[ai] as usize;
-            if m.len() != k {
+            if m.len() != k || len != k {
                 let w = format!(
                     "{}: '{attr_id}' has {} counts for {k} values; ignored",
                     at(),
-                    m.len()
+                    len
                 );
                 self.note(w);
                 continue;
@@ -321,7 +358,7 @@ impl<'a> ItemBuilder<'a> {
         if !key.is_empty() {
             self.name_hashes.push((key_hash(&key), n));
         }
-        for alias in aliases {
+        for alias in aliases.filter(|a| a.len() <= self.name_bytes) {
             let key = name_key(alias);
             if !key.is_empty() {
                 self.aliases.push((n, key));

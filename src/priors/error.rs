@@ -24,6 +24,16 @@ pub enum Error {
         found: String,
         expected: u32,
     },
+    #[error("{file}: {what}, over the limit of {limit} ({key}: the {describe}); {hint}",
+        limit = name.show(*limit), key = name.key(), describe = name.describe(), hint = name.raise_hint())]
+    Limit {
+        file: String,
+        /// What is over the limit and by how much, e.g. "the file is 600.0 MiB" or
+        /// "attributes[0] (politics) has 100,000 values".
+        what: String,
+        name: crate::limits::LimitName,
+        limit: u64,
+    },
     #[error("{file}: the priors file has {}:\n{}", crate::reading::count(problems.len(), "problem", "problems"), problems.iter().map(|p| format!("  - {p}")).collect::<Vec<_>>().join("\n"))]
     Invalid { file: String, problems: Vec<String> },
 }

@@ -13,17 +13,19 @@ mod error;
 mod file;
 mod index;
 mod model;
+mod seeds;
 mod store;
 mod stream;
 mod write;
 
 pub use cache::{
     CACHE_DIR_ENV, CACHE_VERSION, MIN_CACHED_BYTES, MIN_CACHED_ITEMS, cache_dir, cache_path,
-    disable_cache, hash_file,
+    disable_cache, hash_file, is_cache_problem,
 };
 pub(crate) use cache::{
     HEADER_LEN as CACHE_HEADER_LEN, decode_from as decode_cache, encode as encode_cache,
 };
+pub use check::short as short_name;
 pub use error::{Error, Result};
 pub use file::{
     AttributeSpec, Calibration, FORMAT, ItemSpec, MemberSpec, PriorsFile, PrivacySpec, Provenance,
@@ -34,5 +36,7 @@ pub use model::{AttrValue, Attribute, DEFAULT_SMOOTHING, Priors, REMAINDER_ID};
 pub use store::PriorItem;
 pub use write::{write_priors, write_priors_streaming};
 
+#[cfg(test)]
+mod limit_tests;
 #[cfg(test)]
 mod tests;

@@ -9,6 +9,30 @@ use super::file::{Calibration, FORMAT, ItemSpec, MemberSpec, PriorsFile, Provena
 use super::index::{Index, MatchedBy};
 use super::store::{Items, PriorItem};
 use crate::footprint::Item;
+use crate::limits::{LimitName, Limits};
+
+/// The error for a priors file of `len` bytes, over the size limit.
+pub(crate) fn too_big(origin: &str, len: u64, limits: &Limits) -> Error {
+    Error::Limit {
+        file: origin.to_string(),
+        what: format!("the file is {}", LimitName::PriorsBytes.show(len)),
+        name: LimitName::PriorsBytes,
+        limit: limits.priors_bytes,
+    }
+}
+
+/// A priors file's text, refused before it is read when it is over the size limit.
+pub(crate) fn read_within(path: &Path, origin: &str, limits: &Limits) -> Result<String> {
+    let read_err = |source| Error::Read {
+        file: origin.to_string(),
+        cause: source,
+    };
+    let len = std::fs::metadata(path).map_err(read_err)?.len();
+    if len > limits.priors_bytes {
+        return Err(too_big(origin, len, limits));
+    }
+    std::fs::read_to_string(path).map_err(read_err)
+}
 
 /// Default Dirichlet prior strength α (common practice, no source: a handful of
 /// pseudo-members keeps tiny items close to the population).
@@ -93,16 +117,31 @@ pub struct Priors {
 }
 
 impl Priors {
+    /// Load a priors file within the default reading limits.
     pub fn load(path: &Path) -> Result<Priors> {
-        let text = std::fs::read_to_string(path).map_err(|source| Error::Read {
-            file: path.display().to_string(),
-            cause: source,
-        })?;
-        Priors::parse(&text, &path.display().to_string())
+        Priors::load_within(path, &Limits::default())
     }
 
+    /// Load a priors file within `limits` (the file's size first, then everything
+    /// [`Priors::parse_within`] bounds).
+    pub fn load_within(path: &Path, limits: &Limits) -> Result<Priors> {
+        let origin = path.display().to_string();
+        let text = read_within(path, &origin, limits)?;
+        Priors::parse_within(&text, &origin, limits)
+    }
+
+    /// Parse priors text within the default reading limits.
     pub fn parse(text: &str, origin: &str) -> Result<Priors> {
-        match super::stream::parse(text, origin) {
+        Priors::parse_within(text, origin, &Limits::default())
+    }
+
+    /// Parse priors text within `limits`: the number of items, attributes, values and
+    /// aliases and the length of every name (see docs/priors.md, "Limits").
+    pub fn parse_within(text: &str, origin: &str, limits: &Limits) -> Result<Priors> {
+        if text.len() as u64 > limits.priors_bytes {
+            return Err(too_big(origin, text.len() as u64, limits));
+        }
+        match super::stream::parse(text, origin, limits) {
             Ok(checked) => checked,
             Err(e) => {
                 // A file of another version gets a version message rather than a list
@@ -218,7 +257,7 @@ pub(crate) fn check_items(
     specs: &[ItemSpec],
     origin: &str,
 ) -> Result<(Items, Index, Vec<String>)> {
-    let mut builder = ItemBuilder::new(attributes, specs.len());
+    let mut builder = ItemBuilder::new(attributes, specs.len(), &Limits::default());
     let mut counts: Vec<Vec<f64>> = Vec::new();
     for (ii, spec) in specs.iter().enumerate() {
         counts.clear();
@@ -232,7 +271,7 @@ pub(crate) fn check_items(
             spec.members
                 .keys()
                 .zip(&counts)
-                .map(|(k, c)| (k.as_str(), c.as_slice())),
+                .map(|(k, c)| (k.as_str(), c.as_slice(), c.len())),
         );
     }
     builder.finish(origin)

@@ -14,7 +14,7 @@ use telltale::decisions::Store;
 use telltale::plan::{self, PlanOutcome, Progress, solve_with_progress};
 use telltale::report::write_markdown;
 use telltale::safe_write::write_atomic;
-use telltale::scan::{Scan, ScanInput, load_priors};
+use telltale::scan::{Scan, ScanInput, load_priors_within};
 use telltale::whatif::{PlanAsk, Session};
 
 use super::app::{App, Effect, ExportFormat};
@@ -90,7 +90,8 @@ fn load(opts: Options, tx: &mpsc::Sender<LoadMsg>) -> Result<Ready> {
     };
     stage(Stage::Priors);
     let input = (opts.input)()?;
-    let mut priors = load_priors(opts.priors.as_deref()).context("cannot use the priors")?;
+    let mut priors = load_priors_within(opts.priors.as_deref(), &input.limits)
+        .context("cannot use the priors")?;
     priors.rarity = opts.rarity;
     let mut last: Option<(Instant, bool)> = None;
     let scan = Scan::run_with_progress(&input, &mut priors, &mut |done, total| {

@@ -263,7 +263,7 @@ priors_case("priors-deep-nesting", ["priors.json: line 1", "invalid type: sequen
             lambda p: json.dumps(p).replace("[10, 30]", "[" * 100000 + "]" * 100000), exit_code=1)
 priors_case("priors-deep-provenance", ["priors.json: line 1", "invalid type"],
             lambda p: '{"format": 1, "provenance": {"source": ' + "[" * 50000 + "]" * 50000 + "}}", exit_code=1)
-priors_case("priors-huge-string", ['"best_guess": "right"'],
+priors_case("priors-huge-string", ["priors.json: items[1] ('" + "x" * 60 + "…'): the name is 2,097,152 bytes long, over the limit of 4.0 KiB (name-bytes); item skipped (raise it with --limit name-bytes=SIZE if you trust the file)", '"best_guess": "right"'],
             lambda p: p["items"].append({"name": "x" * (2 << 20), "members": {"politics": [1, 1]}}))
 priors_case("priors-truncated", ["priors.json: line 1, column 200", "EOF while parsing"],
             lambda p: json.dumps(p)[:200], exit_code=1)
@@ -280,7 +280,86 @@ def many_values(p):
     p["items"] = []
 
 
-priors_case("priors-100000-values", ['"best_guess": "0"'], many_values)
+priors_case("priors-100000-values", ["priors.json: attributes[0] (politics) has 100,000 values, over the limit of 10,000 (values: the number of values of one attribute); raise it with --limit values=N if you trust the file"],
+            many_values, exit_code=1)
+
+# ---- Reading limits on the priors file (docs/priors.md, "Limits"): each message names
+# the file, the field and the limit.
+LIMIT = lambda setting: PRIORS_JSON + ["--limit", setting]
+priors_case("priors-over-size", ["priors.json: the file is", "over the limit of 100 bytes (priors-bytes: the size of a priors file); raise it with --limit priors-bytes=SIZE"],
+            lambda p: None, exit_code=1, args=LIMIT("priors-bytes=100"))
+priors_case("priors-too-many-items", ["priors.json: the file lists more than 2 reference items, over the limit of 2 (priors-items", "--limit priors-items=N"],
+            lambda p: p["items"].extend([{"name": f"Filler {i}", "members": {"politics": [1, 1]}} for i in range(2)]),
+            exit_code=1, args=LIMIT("priors-items=2"))
+priors_case("priors-many-aliases",
+            ["priors.json: items[0] ('Weekend Pottery Fans'): 1,501 aliases, over the limit of 1,000 (aliases); the first 1,000 kept",
+             "priors.json: items[0] ('Weekend Pottery Fans'): alias 1 is over the limit of 4.0 KiB (name-bytes); ignored", '"best_guess": "right"'],
+            lambda p: p["items"][0].__setitem__("aliases", ["Pottery Weekenders", "a" * 5000] + [f"alias {i}" for i in range(1499)]))
+priors_case("priors-long-label", ["priors.json: attributes[0] (politics).values[1].label is 5,000 bytes long, over the limit of 4.0 KiB (name-bytes"],
+            lambda p: p["attributes"][0]["values"][1].__setitem__("label", "R" * 5000), exit_code=1)
+priors_case("priors-many-member-attributes",
+            ["priors.json: items[0] ('Weekend Pottery Fans'): members for 301 attributes, over the limit of 256 (attributes); the rest ignored"],
+            lambda p: p["items"][0]["members"].update({f"other-{i:03}": [1, 1] for i in range(300)}))
+priors_case("priors-long-count-list", ["priors.json: items[0] ('Weekend Pottery Fans'): 'politics' has 20000 counts for 2 values; ignored"],
+            set_counts([1] * 20000))
+priors_case("priors-items-first-long-name",
+            ["priors.json: items[0] ('" + "n" * 60 + "…'): the name is 5,000 bytes long, over the limit of 4.0 KiB (name-bytes); item skipped", '"items_matched": 1'],
+            lambda p: json.dumps({"items": [{"name": "n" * 5000, "members": {"politics": [1, 1]}}] + p["items"],
+                                  "format": 1, "provenance": p["provenance"], "attributes": p["attributes"]}))
+
+# ---- A tampered priors cache (tests/corpus.rs makes the real cache of
+# shared/cache-priors.json, 20,001 items, in a temporary cache folder, then spoils it
+# as case.toml's `cache` says; each run must name the cache and the file, read the
+# JSON instead, rebuild the cache and leave the saved decisions alone).
+shared = os.path.join(ROOT, "shared")
+os.makedirs(shared, exist_ok=True)
+cache_priors = json.loads(json.dumps(BASE_PRIORS))
+cache_priors["attributes"][0]["threshold"] = 0.4375  # a figure found once in the cache
+cache_priors["items"] += [{"name": f"Filler item {i}", "members": {"politics": [1 + i % 7, 2]}} for i in range(20000)]
+write(os.path.join(shared, "cache-priors.json"), json.dumps(cache_priors))
+CACHE_ARGS = ["scan", "{archive}", "--mapping", "{mapping}", "--priors", "{shared}/cache-priors.json", "--format", "json"]
+for mode, why in [("truncated", "cut short or padded"),
+                  ("bit-flipped", "damaged: its checksum does not match"),
+                  ("wrong-version", "made by another version of telltale"),
+                  ("absurd-values", "its contents are inconsistent"),
+                  ("other-file", "made from another priors file"),
+                  ("not-a-cache", "not a telltale priors cache")]:
+    d = case(f"priors-cache-{mode}",
+             ["cache-priors.json was not used (" + why + "); read", "cache-priors.json itself instead", '"best_guess": "right"'],
+             args=CACHE_ARGS)
+    with open(os.path.join(d, "case.toml"), "a") as f:
+        f.write(f'cache = "{mode}"\n')
+    os.makedirs(os.path.join(d, "archive"))
+    write(os.path.join(d, "archive", "likes.json"), GOOD_LIKES)
+
+# ---- Friends files and mappings over their limits.
+FRIENDS = ["scan", "{archive}", "--mapping", "{mapping}", "--friends", "{friends}", "--format", "json"]
+
+
+def friends_case(name, expect, csv, extra=(), exit_code=0):
+    d = case(name, expect, exit_code=exit_code, args=FRIENDS + list(extra))
+    os.makedirs(os.path.join(d, "archive"))
+    write(os.path.join(d, "archive", "likes.json"), GOOD_LIKES)
+    write(os.path.join(d, "friends.csv"), csv)
+
+
+friends_case("friends-too-many-rows", ["friends.csv: more than 2 rows, over the limit (friends-rows: the number of rows in a friends file); the rest are not read (raise it with --limit friends-rows=N if you trust the file)"],
+             "name,politics\nAda,left\nBo,right\nCy,left\nDee,right\n", extra=["--limit", "friends-rows=2"])
+friends_case("friends-long-field", ["friends.csv, record 2: field 'name' is 5,000 bytes long, over the limit of 4.0 KiB (name-bytes); row skipped"],
+             "name,politics\nAda,left\n" + "B" * 5000 + ",right\n")
+friends_case("friends-over-size", ["friends.csv: the friends file is", "over the limit of 10 bytes (friends-bytes: the size of a friends file); raise it with --limit friends-bytes=SIZE"],
+             "name,politics\nAda,left\n", extra=["--limit", "friends-bytes=10"], exit_code=1)
+
+d = case("mapping-over-size", ["mapping.toml: the mapping file is 112 bytes, over the limit of 50 bytes (mapping-bytes: the size of a mapping file); raise it with --limit mapping-bytes=SIZE"],
+         exit_code=1, args=JSON + ["--limit", "mapping-bytes=50"])
+os.makedirs(os.path.join(d, "archive"))
+write(os.path.join(d, "archive", "likes.json"), GOOD_LIKES)
+
+d = case("mapping-inside-over-size", ["telltale-mapping.toml (inside archive): the mapping file is 112 bytes, over the limit of 50 bytes (mapping-bytes"],
+         exit_code=1, args=["scan", "{archive}", "--limit", "mapping-bytes=50"])
+os.makedirs(os.path.join(d, "archive"))
+write(os.path.join(d, "archive", "likes.json"), GOOD_LIKES)
+write(os.path.join(d, "archive", "telltale-mapping.toml"), LIKES_MAPPING)
 
 # ---- Hostile mappings.
 d = case("mapping-deep-toml", ["mapping.toml: line 2", "not valid TOML: cannot recurse further"], exit_code=1,
