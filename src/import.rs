@@ -273,7 +273,12 @@ pub fn import_with_options(
             if bad > 0 {
                 state.footprint.warnings.push(
                     Warning::new(format!(
-                        "not valid UTF-8 text: {bad} invalid byte sequence(s) replaced with �"
+                        "not valid UTF-8 text: {} replaced with �",
+                        crate::reading::count(
+                            bad,
+                            "invalid byte sequence",
+                            "invalid byte sequences"
+                        )
                     ))
                     .in_file(&entry.path),
                 );

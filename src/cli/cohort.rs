@@ -110,9 +110,9 @@ pub fn read(args: &CohortArgs, schema: &Schema) -> Result<Cohort> {
         eprintln!("warning: … and {} more", cohort.warnings.len() - 20);
     }
     eprintln!(
-        "Read {} labelled member(s) from {} archive(s) in {}.",
-        cohort.members.len(),
-        cohort.archives,
+        "Read {} from {} in {}.",
+        telltale::reading::count(cohort.members.len(), "labelled member", "labelled members"),
+        telltale::reading::count(cohort.archives, "archive", "archives"),
         args.cohort.display()
     );
     Ok(cohort)

@@ -60,8 +60,12 @@ pub fn run(cmd: SynthCommand) -> Result<ExitCode> {
             let written = generate_cohort(&cfg, &args.out)
                 .with_context(|| format!("cannot write the cohort in {}", args.out.display()))?;
             println!(
-                "Wrote {} invented member archive(s) (layout A, with declared attributes) and telltale-mapping.toml in {}.",
-                written.len(),
+                "Wrote {} (layout A, with declared attributes) and telltale-mapping.toml in {}.",
+                telltale::reading::count(
+                    written.len(),
+                    "invented member archive",
+                    "invented member archives"
+                ),
                 args.out.display()
             );
             Ok(ExitCode::SUCCESS)

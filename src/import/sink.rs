@@ -62,8 +62,8 @@ impl State {
         for ((file, field), n) in &self.repeats {
             if *n > DETAILED_WARNINGS {
                 let mut w = Warning::new(format!(
-                    "{} more record(s) with the same problem",
-                    n - DETAILED_WARNINGS
+                    "{} with the same problem",
+                    crate::reading::count(n - DETAILED_WARNINGS, "more record", "more records")
                 ))
                 .in_file(file.clone());
                 if !field.is_empty() {

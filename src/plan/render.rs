@@ -254,8 +254,9 @@ pub fn write_text(r: &PlanReport, out: &mut dyn Write) -> io::Result<()> {
     }
     if r.search.nodes > 0 {
         lines.push(format!(
-            "The exact search (branch and bound) looked at {} node(s) in {:.2} s.",
-            r.search.nodes, r.search.seconds
+            "The exact search (branch and bound) looked at {} in {:.2} s.",
+            crate::reading::count(r.search.nodes as usize, "node", "nodes"),
+            r.search.seconds
         ));
     }
     for l in lines {

@@ -285,8 +285,13 @@ fn read_csv(
     if ragged > 0 {
         sink.warn(
             Warning::new(format!(
-                "{ragged} row(s) have a different number of fields than the header ({} columns); missing fields were left empty",
-                headers.len()
+                "{} a different number of fields than the header ({}); missing fields were left empty",
+                if ragged == 1 {
+                    "1 row has".to_string()
+                } else {
+                    format!("{ragged} rows have")
+                },
+                crate::reading::count(headers.len(), "column", "columns")
             ))
             .in_file(file)
             .at_line(first_ragged.unwrap_or(1)),

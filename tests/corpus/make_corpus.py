@@ -116,7 +116,7 @@ os.makedirs(os.path.join(d, "archive"))
 write(os.path.join(d, "archive", "likes.json"), '{"likes": [\n {"title": "A"},\n {"title": "B",, }\n]}')
 
 # 8. Ragged CSV.
-d = case("ragged-csv", ["groups.csv, line 3: 2 row(s) have a different number of fields", "Chess Circle"], args=JSON,
+d = case("ragged-csv", ["groups.csv, line 3: 2 rows have a different number of fields", "Chess Circle"], args=JSON,
          mapping='format = 1\n[[source]]\nkind = "group"\nfiles = ["groups.csv"]\nname = "Group"\ndate = "Joined"\n')
 os.makedirs(os.path.join(d, "archive"))
 write(os.path.join(d, "archive", "groups.csv"), "Group,Joined\nChess Circle,2020-01-02\nLonely\nA,2020-01-01,extra\n")

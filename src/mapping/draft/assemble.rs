@@ -151,8 +151,8 @@ pub fn draft_from(
             unused.push((
                 place,
                 format!(
-                    "{} record(s), but no field holds names (text with letters in most records)",
-                    set.records
+                    "{}, but no field holds names (text with letters in most records)",
+                    crate::reading::count(set.records, "record", "records")
                 ),
             ));
             continue;
