@@ -257,3 +257,115 @@ fn eval_cli_writes_versioned_json_and_reports() {
     assert!(!bad.status.success());
     assert!(String::from_utf8_lossy(&bad.stderr).contains("--public-share"));
 }
+
+/// The best-possible table of a text or HTML eval: per attribute its label, accuracy,
+/// Bayes-optimal accuracy, ratio and the best guess's ECE, as printed.
+fn best_rows(out: &str, html: bool) -> Vec<Vec<String>> {
+    let start = out
+        .find("Against the best possible")
+        .expect("best-possible section");
+    let section = &out[start..];
+    if html {
+        let table = &section[..section.find("</table>").expect("table end")];
+        table
+            .split("<tr>")
+            .skip(2)
+            .map(|row| {
+                row.split("</td>")
+                    .filter(|cell| cell.contains("<td"))
+                    .filter_map(|cell| cell.rsplit('>').next())
+                    .map(|c| c.trim().to_string())
+                    .collect()
+            })
+            .collect()
+    } else {
+        section
+            .lines()
+            .skip(2)
+            .take_while(|l| l.starts_with("  "))
+            .map(|l| {
+                // The label may hold spaces: the last four fields are the figures.
+                let fields: Vec<&str> = l.split_whitespace().collect();
+                let n = fields.len();
+                let mut row = vec![fields[..n - 4].join(" ")];
+                row.extend(fields[n - 4..].iter().map(|s| s.to_string()));
+                row
+            })
+            .collect()
+    }
+}
+
+/// On a synthetic cohort the generator's model is known: eval reports the
+/// Bayes-optimal accuracy and each attribute's ratio to it, the same figures in the
+/// text and the HTML evals of the same seed, and no model beats the best possible by
+/// more than chance (the Bayes-optimal guess is the best on average, not on every
+/// sample).
+#[test]
+fn eval_reports_the_best_possible_alike_in_text_and_html() {
+    let dir = tempfile::tempdir().expect("tempdir");
+    let cohort_dir = dir.path().join("cohort");
+    generate_cohort(
+        &CohortConfig {
+            seed: 5,
+            members: 240,
+            ..CohortConfig::default()
+        },
+        &cohort_dir,
+    )
+    .expect("cohort");
+    let cohort = cohort_dir.to_str().unwrap();
+    let run = |format: &str| {
+        let o = telltale(&[
+            "eval",
+            cohort,
+            "--folds",
+            "3",
+            "--public-share",
+            "1",
+            "--seed",
+            "4",
+            "--format",
+            format,
+        ]);
+        assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
+        String::from_utf8_lossy(&o.stdout).into_owned()
+    };
+    let text = run("text");
+    let html = run("html");
+    let (t, h) = (best_rows(&text, false), best_rows(&html, true));
+    assert_eq!(t.len(), 4, "{text}");
+    assert_eq!(t, h, "text and HTML differ:\n{text}\n{html}");
+    let report: EvalReport = serde_json::from_str(&run("json")).expect("json");
+    assert!(
+        report
+            .best_possible
+            .as_deref()
+            .unwrap_or("")
+            .contains("seed 5")
+    );
+    for a in &report.attributes {
+        let best = a.bayes_optimal.expect("Bayes-optimal figure");
+        let ratio = a.ratio_to_best.expect("ratio");
+        assert!((ratio - a.accuracy / best).abs() < 1e-12);
+        // The best possible beats the most common value; the observer model, trained
+        // on 160 members, does not beat it by more than 3 standard errors.
+        assert!(
+            best > a.majority_rate,
+            "{}: {best} vs {}",
+            a.id,
+            a.majority_rate
+        );
+        let se = (best * (1.0 - best) / a.members as f64).sqrt();
+        assert!(
+            a.accuracy <= best + 3.0 * se,
+            "{}: {} vs {best}",
+            a.id,
+            a.accuracy
+        );
+        let row = t.iter().find(|r| r[0] == a.label).expect("row");
+        assert_eq!(row[2], format!("{:.1}%", 100.0 * best));
+        assert_eq!(row[3], format!("{ratio:.3}"));
+        let ece = a.bayes_optimal_ece.expect("its ECE");
+        assert_eq!(row[4], format!("{ece:.3}"));
+    }
+}

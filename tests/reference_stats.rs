@@ -145,3 +145,56 @@ proptest! {
         prop_assert!(after >= before - 1e-12, "bits fell from {before} to {after}");
     }
 }
+
+/// Reliability bins and expected calibration error against scikit-learn's
+/// `calibration_curve` (strategy "uniform", 10 bins) and ECE as in Guo et al. 2017,
+/// eq. 3 (tests/data/calibration.json, made by tests/python/gen_calibration.py): every
+/// non-empty bin's share right, mean confidence and count, and the ECE.
+#[test]
+fn reliability_and_ece_match_scikit_learn() {
+    let text = std::fs::read_to_string("tests/data/calibration.json").expect("fixture");
+    let data: serde_json::Value = serde_json::from_str(&text).expect("json");
+    let cases = data["cases"].as_array().expect("cases");
+    assert_eq!(cases.len(), 3);
+    let floats = |v: &serde_json::Value| -> Vec<f64> {
+        v.as_array()
+            .expect("array")
+            .iter()
+            .map(|x| x.as_f64().expect("number"))
+            .collect()
+    };
+    for case in cases {
+        let name = case["name"].as_str().expect("name");
+        let conf = floats(&case["confidence"]);
+        let correct: Vec<bool> = case["correct"]
+            .as_array()
+            .expect("correct")
+            .iter()
+            .map(|x| x.as_bool().expect("bool"))
+            .collect();
+        let preds: Vec<(f64, bool)> = conf.into_iter().zip(correct).collect();
+        let ece = telltale::stats::expected_calibration_error(&preds, 10);
+        let want = case["ece"].as_f64().expect("ece");
+        assert!((ece - want).abs() < 1e-12, "{name}: ECE {ece} vs {want}");
+        let bins: Vec<_> = telltale::eval::reliability(&preds)
+            .into_iter()
+            .filter(|b| b.count > 0)
+            .collect();
+        let (truth, pred) = (floats(&case["prob_true"]), floats(&case["prob_pred"]));
+        let counts = floats(&case["counts"]);
+        assert_eq!(bins.len(), truth.len(), "{name}: non-empty bins");
+        for (((b, t), p), n) in bins.iter().zip(&truth).zip(&pred).zip(&counts) {
+            assert!(
+                (b.accuracy - t).abs() < 1e-12,
+                "{name}: share right {} vs {t}",
+                b.accuracy
+            );
+            assert!(
+                (b.confidence - p).abs() < 1e-12,
+                "{name}: confidence {} vs {p}",
+                b.confidence
+            );
+            assert_eq!(b.count as f64, *n, "{name}: count");
+        }
+    }
+}

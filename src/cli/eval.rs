@@ -5,8 +5,10 @@ use std::process::ExitCode;
 
 use anyhow::Result;
 use telltale::eval::{
-    EvalParams, evaluate, parse_shares, write_html, write_json, write_markdown, write_text,
+    BestGuess, EvalParams, evaluate_against, parse_shares, write_html, write_json, write_markdown,
+    write_text,
 };
+use telltale::synth::oracle::{CohortOracle, GENERATOR_FILE, GeneratorRecord};
 
 use super::args::{EvalArgs, EvalFormat};
 use super::cohort::{bar, read, schema};
@@ -32,9 +34,30 @@ pub fn run(args: &EvalArgs) -> Result<ExitCode> {
     };
     let pb = bar(args.folds * (1 + params.shares.len()), "fitting models");
     let synthetic = schema.priors.provenance.synthetic;
-    let report = evaluate(&schema, &cohort, &params, synthetic, &mut |done, _| {
-        pb.set_position(done as u64)
-    });
+    // A cohort made by `synth cohort` says how: its generator's model gives the best
+    // possible guesses. A record that cannot be read is only a note.
+    let record = args.cohort.cohort.join(GENERATOR_FILE);
+    let oracle = match std::fs::read_to_string(&record) {
+        Ok(text) => match serde_json::from_str::<GeneratorRecord>(&text) {
+            Ok(r) => Some(CohortOracle::new(r, &schema.priors)),
+            Err(e) => {
+                eprintln!(
+                    "note: {}: not used ({e}); no best possible figures",
+                    record.display()
+                );
+                None
+            }
+        },
+        Err(_) => None,
+    };
+    let report = evaluate_against(
+        &schema,
+        &cohort,
+        &params,
+        synthetic,
+        oracle.as_ref().map(|o| o as &dyn BestGuess),
+        &mut |done, _| pb.set_position(done as u64),
+    );
     pb.finish_and_clear();
     let report = report?;
     emit(args.output.as_deref(), |out| match args.format {

@@ -4,7 +4,7 @@ use std::io::{self, Write};
 
 use super::report::EvalReport;
 use super::svg::{self, escape};
-use super::text::summary;
+use super::text::{BEST_HEADS, best_possible, summary};
 use crate::reading::percent;
 
 pub fn write_html(r: &EvalReport, out: &mut dyn Write) -> io::Result<()> {
@@ -35,6 +35,25 @@ pub fn write_html(r: &EvalReport, out: &mut dyn Write) -> io::Result<()> {
         )?;
     }
     writeln!(out, "</table>")?;
+    if let Some((sentence, rows)) = best_possible(r) {
+        writeln!(
+            out,
+            "<h2>Against the best possible</h2><p>{}</p><table><tr>",
+            escape(&sentence)
+        )?;
+        for h in BEST_HEADS {
+            write!(out, "<th>{h}</th>")?;
+        }
+        writeln!(out, "</tr>")?;
+        for [label, acc, best, ratio, ece] in rows {
+            writeln!(
+                out,
+                "<tr><td>{}</td><td class=n>{acc}</td><td class=n>{best}</td><td class=n>{ratio}</td><td class=n>{ece}</td></tr>",
+                escape(&label)
+            )?;
+        }
+        writeln!(out, "</table>")?;
+    }
     writeln!(
         out,
         "<figure>{}</figure>",

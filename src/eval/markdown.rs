@@ -5,7 +5,7 @@ use std::io::{self, Write};
 
 use super::report::EvalReport;
 use super::svg;
-use super::text::summary;
+use super::text::{BEST_HEADS, best_possible, summary};
 use crate::reading::percent;
 
 pub fn write_markdown(r: &EvalReport, out: &mut dyn Write) -> io::Result<()> {
@@ -32,6 +32,14 @@ pub fn write_markdown(r: &EvalReport, out: &mut dyn Write) -> io::Result<()> {
             a.ece_temperature,
             a.ece_calibrated
         )?;
+    }
+    if let Some((sentence, rows)) = best_possible(r) {
+        writeln!(out, "\n## Against the best possible\n\n{sentence}\n")?;
+        writeln!(out, "| {} |", BEST_HEADS.join(" | "))?;
+        writeln!(out, "|---|---:|---:|---:|---:|")?;
+        for row in rows {
+            writeln!(out, "| {} |", row.join(" | "))?;
+        }
     }
     writeln!(
         out,

@@ -44,6 +44,19 @@ pub struct AttrEval {
     pub ece_calibrated: f64,
     pub reliability_naive: Vec<Bin>,
     pub reliability_calibrated: Vec<Bin>,
+    /// Accuracy of the best possible guess (the argmax of the true generating
+    /// posterior given each member's items), where the model that made the cohort is
+    /// known (synthetic cohorts); see [`EvalReport::best_possible`].
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub bayes_optimal: Option<f64>,
+    /// Expected calibration error of the best possible guess's own confidence: a true
+    /// posterior is calibrated, so this is near 0 up to sampling error, and a larger
+    /// figure would say the generating model was taken wrongly.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub bayes_optimal_ece: Option<f64>,
+    /// `accuracy / bayes_optimal`: 1 means the observer model is as good as possible.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub ratio_to_best: Option<f64>,
 }
 
 /// Accuracy at one public share.
@@ -74,6 +87,19 @@ pub struct EvalReport {
     pub attributes: Vec<AttrEval>,
     pub public_share: Vec<ShareRow>,
     pub synthetic: bool,
+    /// What the Bayes-optimal figures were computed from, when they were.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub best_possible: Option<String>,
+}
+
+/// The best possible guess, where the model that made a cohort is known.
+pub trait BestGuess {
+    /// Per attribute (in the schema's order), the true posterior over its values given
+    /// a member's items (indices of the schema's candidate items); `None` when it cannot
+    /// be given for this schema.
+    fn posteriors(&self, items: &[u32]) -> Option<Vec<Vec<f64>>>;
+    /// Where the figures come from, in a sentence, for the report.
+    fn describe(&self) -> String;
 }
 
 /// Write the report as pretty JSON.

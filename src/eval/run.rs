@@ -10,7 +10,7 @@ use rand::seq::SliceRandom;
 use rand::seq::index::sample;
 use rand_chacha::ChaCha8Rng;
 
-use super::report::{AttrEval, Bin, EVAL_FORMAT, EvalReport, ShareRow};
+use super::report::{AttrEval, BestGuess, Bin, EVAL_FORMAT, EvalReport, ShareRow};
 use crate::cohort::fit::{ECE_BINS, fit_all, pseudo_members};
 use crate::cohort::privacy::{Budget, DEFAULT_PEOPLE_SHARE};
 use crate::cohort::{
@@ -211,7 +211,10 @@ fn guess(t: &Trained, members: &[Member], pooled: &mut [Pooled]) {
     }
 }
 
-fn reliability(preds: &[(f64, bool)]) -> Vec<Bin> {
+/// The reliability diagram of (confidence, correct) pairs: ten bins 0.1 wide, each
+/// with its count, mean confidence and share right (the bins of
+/// `sklearn.calibration.calibration_curve` with `strategy="uniform"`, empty ones kept).
+pub fn reliability(preds: &[(f64, bool)]) -> Vec<Bin> {
     let mut bins: Vec<Bin> = (0..ECE_BINS)
         .map(|b| Bin {
             from: b as f64 / ECE_BINS as f64,
@@ -248,6 +251,19 @@ pub fn evaluate(
     synthetic: bool,
     progress: &mut dyn FnMut(usize, usize),
 ) -> Result<EvalReport> {
+    evaluate_against(schema, cohort, params, synthetic, None, progress)
+}
+
+/// [`evaluate`], and where the model that made the cohort is known, the accuracy of
+/// its best possible guesses for the same members and each attribute's ratio to it.
+pub fn evaluate_against(
+    schema: &Schema,
+    cohort: &Cohort,
+    params: &EvalParams,
+    synthetic: bool,
+    best: Option<&dyn BestGuess>,
+    progress: &mut dyn FnMut(usize, usize),
+) -> Result<EvalReport> {
     let n = cohort.members.len();
     if params.folds < 2 || params.folds > n {
         return Err(Error::Params(format!(
@@ -268,6 +284,10 @@ pub fn evaluate(
     let n_attr = schema.n_attributes();
     let mut pooled = vec![Pooled::default(); n_attr];
     let mut share_hits = vec![vec![(0usize, 0usize); n_attr]; params.shares.len()];
+    // Per attribute: the best possible guess's hits and the members it was asked about.
+    let mut best_hits = vec![(0usize, 0usize); n_attr];
+    let mut best_preds: Vec<Vec<(f64, bool)>> = vec![Vec::new(); n_attr];
+    let mut best_ok = best.is_some();
     let total = params.folds * (1 + params.shares.len());
     let mut done = 0;
     for f in 0..params.folds {
@@ -281,6 +301,22 @@ pub fn evaluate(
         }
         let trained = train(schema, &train_m, params, &mut rng)?;
         guess(&trained, &test_m, &mut pooled);
+        if let Some(b) = best.filter(|_| best_ok) {
+            for m in &test_m {
+                let Some(post) = b.posteriors(&m.items).filter(|p| p.len() == n_attr) else {
+                    best_ok = false;
+                    break;
+                };
+                for (a, hits) in best_hits.iter_mut().enumerate() {
+                    if let Some(truth) = m.values.get(a).copied().flatten() {
+                        let (best, confidence) = argmax(&post[a]);
+                        hits.0 += usize::from(best == truth);
+                        hits.1 += 1;
+                        best_preds[a].push((confidence, best == truth));
+                    }
+                }
+            }
+        }
         done += 1;
         progress(done, total);
         for (si, &share) in params.shares.iter().enumerate() {
@@ -304,20 +340,29 @@ pub fn evaluate(
         .attributes
         .iter()
         .zip(&pooled)
-        .map(|(a, p)| AttrEval {
-            id: a.id.clone(),
-            label: a.label.clone(),
-            values: a.values.len(),
-            members: p.calibrated.len(),
-            accuracy: accuracy(&p.calibrated),
-            majority_rate: p.majority_hits as f64 / p.calibrated.len().max(1) as f64,
-            uniform_rate: a.uniform_rate(),
-            log_loss: p.log_loss / p.calibrated.len().max(1) as f64,
-            ece_naive: expected_calibration_error(&p.naive, ECE_BINS),
-            ece_temperature: expected_calibration_error(&p.temperature, ECE_BINS),
-            ece_calibrated: expected_calibration_error(&p.calibrated, ECE_BINS),
-            reliability_naive: reliability(&p.naive),
-            reliability_calibrated: reliability(&p.calibrated),
+        .zip(best_hits.iter().zip(&best_preds))
+        .map(|((a, p), (&(hits, asked), best_p))| {
+            let accuracy = accuracy(&p.calibrated);
+            let bayes_optimal = (best_ok && asked > 0).then(|| hits as f64 / asked as f64);
+            AttrEval {
+                id: a.id.clone(),
+                label: a.label.clone(),
+                values: a.values.len(),
+                members: p.calibrated.len(),
+                accuracy,
+                majority_rate: p.majority_hits as f64 / p.calibrated.len().max(1) as f64,
+                uniform_rate: a.uniform_rate(),
+                log_loss: p.log_loss / p.calibrated.len().max(1) as f64,
+                ece_naive: expected_calibration_error(&p.naive, ECE_BINS),
+                ece_temperature: expected_calibration_error(&p.temperature, ECE_BINS),
+                ece_calibrated: expected_calibration_error(&p.calibrated, ECE_BINS),
+                reliability_naive: reliability(&p.naive),
+                reliability_calibrated: reliability(&p.calibrated),
+                bayes_optimal,
+                bayes_optimal_ece: bayes_optimal
+                    .map(|_| expected_calibration_error(best_p, ECE_BINS)),
+                ratio_to_best: bayes_optimal.filter(|&b| b > 0.0).map(|b| accuracy / b),
+            }
         })
         .collect();
     let public_share = params
@@ -345,6 +390,7 @@ pub fn evaluate(
         attributes,
         public_share,
         synthetic,
+        best_possible: best.filter(|_| best_ok).map(|b| b.describe()),
     })
 }
 

@@ -31,6 +31,38 @@ pub fn summary(r: &EvalReport) -> String {
     )
 }
 
+/// The best-possible section, the same words and figures in every format: a
+/// sentence saying where the figures come from, then per attribute its label, the
+/// observer model's accuracy, the Bayes-optimal accuracy and their ratio. `None` when
+/// the cohort's generating model is not known.
+pub fn best_possible(r: &EvalReport) -> Option<(String, Vec<[String; 5]>)> {
+    let source = r.best_possible.as_ref()?;
+    let rows = r
+        .attributes
+        .iter()
+        .filter_map(|a| {
+            let best = a.bayes_optimal?;
+            Some([
+                a.label.clone(),
+                format!("{:.1}%", 100.0 * a.accuracy),
+                format!("{:.1}%", 100.0 * best),
+                a.ratio_to_best.map_or("—".into(), |x| format!("{x:.3}")),
+                a.bayes_optimal_ece
+                    .map_or("—".into(), |x| format!("{x:.3}")),
+            ])
+        })
+        .collect();
+    Some((
+        format!(
+            "Against the best possible: the Bayes-optimal accuracy is that of guessing, for each held-out member, the most probable value under {source}. The ratio is the model's accuracy over it (1 is as good as possible). The best guess's own ECE should be near 0 (a true posterior is calibrated); a larger one would say the generator's model was taken wrongly."
+        ),
+        rows,
+    ))
+}
+
+/// Column heads of the best-possible table.
+pub const BEST_HEADS: [&str; 5] = ["attribute", "accuracy", "Bayes-optimal", "ratio", "its ECE"];
+
 pub fn write_text(r: &EvalReport, out: &mut dyn Write) -> io::Result<()> {
     writeln!(out, "Evaluation of the observer model")?;
     writeln!(out, "{}", summary(r))?;
@@ -53,6 +85,18 @@ pub fn write_text(r: &EvalReport, out: &mut dyn Write) -> io::Result<()> {
             a.ece_temperature,
             a.ece_calibrated
         )?;
+    }
+    if let Some((sentence, rows)) = best_possible(r) {
+        writeln!(out)?;
+        writeln!(out, "{sentence}")?;
+        writeln!(
+            out,
+            "  {:<20} {:>9} {:>14} {:>7} {:>8}",
+            BEST_HEADS[0], BEST_HEADS[1], BEST_HEADS[2], BEST_HEADS[3], BEST_HEADS[4]
+        )?;
+        for [label, acc, best, ratio, ece] in rows {
+            writeln!(out, "  {label:<20} {acc:>9} {best:>14} {ratio:>7} {ece:>8}")?;
+        }
     }
     if !r.public_share.is_empty() {
         writeln!(out)?;

@@ -2,7 +2,8 @@
 //! archive in layout A (zip files `member-0001.zip`, …) that includes their declared
 //! attributes in `account/about_me.json`, and the layout-A mapping beside them. With
 //! the demo's seed and item count the catalogue is the demo's, so the bundled demo
-//! priors list the same items and serve as the schema.
+//! priors list the same items and serve as the schema. `cohort-generator.json` records
+//! the seed and sizes, so `eval` can work out the best possible guesses.
 
 use std::fs;
 use std::io;
@@ -91,6 +92,14 @@ pub fn generate_cohort(cfg: &CohortConfig, out_dir: &Path) -> io::Result<Vec<Coh
             cfg.seed
         ),
     )?;
+    let record = super::oracle::GeneratorRecord {
+        generator: "telltale synth cohort".into(),
+        seed: cfg.seed,
+        items: cfg.items,
+        mean_degree: cfg.mean_degree,
+    };
+    let text = serde_json::to_string_pretty(&record).map_err(io::Error::other)?;
+    fs::write(out_dir.join(super::oracle::GENERATOR_FILE), text + "\n")?;
     let mut rng = stream(cfg.seed, 4);
     let now = demo_now();
     let width = cfg.members.to_string().len().max(4);

@@ -15,6 +15,7 @@ pub mod large_items;
 pub mod layout_a;
 pub mod layout_b;
 pub mod membership;
+pub mod oracle;
 pub mod personas;
 pub mod places;
 pub mod reference;

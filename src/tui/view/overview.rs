@@ -31,6 +31,8 @@ pub fn render(app: &App, frame: &mut Frame, area: Rect, theme: Theme) {
         };
         // Facts beside the name: what feeds it, how it changed, your real value.
         // The verb agrees with the first number: "1 of 5 pieces of evidence supports it".
+        let label_w = 18.min(w / 4);
+        let facts_w = w.saturating_sub(2 + label_w + 1 + tag.chars().count() + 1);
         let mut facts = vec![if s.only_friend_list {
             format!(
                 "only your friend list {} it",
@@ -41,19 +43,23 @@ pub fn render(app: &App, frame: &mut Frame, area: Rect, theme: Theme) {
                 }
             )
         } else {
-            // Pieces of evidence, not items ("80 of 151 pieces support it"): one item
-            // can give several (the reference table and a place name), and the friend
-            // list gives some too. Short, so "before hiding" still fits at 80 columns.
-            format!(
-                "{} of {} {} it",
-                s.supporting,
-                count(s.feeding, "piece", "pieces"),
-                if s.supporting == 1 {
-                    "supports"
-                } else {
-                    "support"
-                }
-            )
+            // Pieces of evidence, not items ("80 of 151 pieces of evidence support
+            // it"): one item can give several (the reference table and a place name),
+            // and the friend list gives some too. Where the line is short, "of
+            // evidence" is left out so that "before hiding" still fits at 80 columns.
+            let verb = if s.supporting == 1 {
+                "supports"
+            } else {
+                "support"
+            };
+            let pieces = count(s.feeding, "piece", "pieces");
+            let long = format!("{} of {pieces} of evidence {verb} it", s.supporting);
+            let room = facts_w.saturating_sub(" · before hiding 100%".len());
+            if long.chars().count() <= room {
+                long
+            } else {
+                format!("{} of {pieces} {verb} it", s.supporting)
+            }
         }];
         if percent(s.baseline_probability) != percent(s.probability)
             || s.baseline_guess_label != s.guess_label
@@ -63,8 +69,6 @@ pub fn render(app: &App, frame: &mut Frame, area: Rect, theme: Theme) {
         if let Some((label, p)) = &s.real {
             facts.push(format!("yours, {label}: {}", percent(*p)));
         }
-        let label_w = 18.min(w / 4);
-        let facts_w = w.saturating_sub(2 + label_w + 1 + tag.chars().count() + 1);
         lines.push(Line::from(vec![
             Span::styled(pointer, title_style),
             cell(&s.label, label_w, title_style),
