@@ -13,6 +13,7 @@ pub mod calibration;
 pub mod cautions;
 pub mod cohort;
 pub mod decisions;
+pub mod effect;
 pub mod eval;
 pub mod evidence;
 pub mod footprint;

@@ -139,6 +139,52 @@ pub fn assess(attr: &Attribute, probs: &[f64], alert_level: f64, rarity: &Rarity
     }
 }
 
+/// How far a probability falls, in percentage points, never rounded to a misleading
+/// zero: "12 pts", "0.35 pts", "<0.01 pts" (a near-certain guess barely moves), and a
+/// rise as "−3.1 pts".
+pub fn fall_points(d: f64) -> String {
+    let x = d * 100.0;
+    let sign = if x < 0.0 { "−" } else { "" };
+    let a = x.abs();
+    if a == 0.0 {
+        "0 pts".into()
+    } else if a < 0.01 {
+        format!("{sign}<0.01 pts")
+    } else if a < 1.0 {
+        format!("{sign}{a:.2} pts")
+    } else if a < 10.0 {
+        format!("{sign}{a:.1} pts")
+    } else {
+        format!("{sign}{a:.0} pts")
+    }
+}
+
+/// What each per-item figure means, as (name, meaning): the one wording the text,
+/// Markdown and HTML reports' legends use, so they cannot drift apart. "Adds", "points
+/// to" and "if hidden" are the one leave-one-out figure of [`crate::effect`].
+pub const ITEM_FIGURES: [(&str, &str); 5] = [
+    (
+        "Bits",
+        "how far the item's members differ from everyone (Kullback–Leibler divergence)",
+    ),
+    (
+        "Homogeneity",
+        "0 when members are spread evenly over the values, 1 when all alike (measured against an even spread, not the population: members as mixed as everyone read above 0)",
+    ),
+    (
+        "Points to",
+        "the value the item pushes the observer's guess toward: the guess itself when it adds bits, else the value it raises most",
+    ),
+    (
+        "Adds",
+        "how much the observer's best guess about you rests on the item: its log-odds in bits with the item shown minus with it hidden (negative: it argues against the guess)",
+    ),
+    (
+        "If hidden",
+        "how much the best guess's probability would fall if you hid the item (same sign as Adds)",
+    ),
+];
+
 /// The rarity part of the alert rule in one sentence, for the reports and screens.
 pub fn rarity_note(r: &Rarity) -> String {
     if r.is_on() {
@@ -289,5 +335,8 @@ mod tests {
             x.reading
         );
         assert!(rarity_note(&r).contains("over 20% and over 5×"));
+        assert_eq!(fall_points(1e-7), "<0.01 pts");
+        assert_eq!(fall_points(-0.031), "−3.1 pts");
+        assert_eq!(fall_points(0.12), "12 pts");
     }
 }

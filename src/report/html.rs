@@ -306,16 +306,18 @@ fn write_items(r: &ScanReport, top: usize, out: &mut dyn Write) -> io::Result<()
             i.bits,
             i.homogeneity,
             i.contribution_bits,
-            percent(i.if_hidden_drop.max(0.0))
+            crate::reading::fall_points(i.if_hidden_drop)
         )?;
     }
     writeln!(out, "</tbody></table></div>")?;
     writeln!(
         out,
-        "<p class=\"key\"><b>Bits</b>: how far the item's members differ from the population (Kullback–Leibler divergence). \
-         <b>Alike</b>: homogeneity, 0 when members are as mixed as the population, 1 when all alike. \
-         <b>Adds</b>: bits the item adds to the observer's best guess about you. \
-         <b>If hidden</b>: how much the best guess's probability would fall.</p>"
+        "<p class=\"key\">{} (<b>Alike</b> is the homogeneity.)</p>",
+        crate::reading::ITEM_FIGURES
+            .iter()
+            .map(|(name, meaning)| format!("<b>{name}</b>: {}.", escape(meaning)))
+            .collect::<Vec<_>>()
+            .join(" ")
     )
 }
 

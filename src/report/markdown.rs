@@ -123,16 +123,18 @@ pub fn write_markdown(r: &ScanReport, top: usize, out: &mut dyn Write) -> io::Re
                 i.bits,
                 i.homogeneity,
                 i.contribution_bits,
-                percent(i.if_hidden_drop.max(0.0)),
+                crate::reading::fall_points(i.if_hidden_drop),
                 esc(&i.source_detail)
             )?;
         }
         writeln!(
             out,
-            "\n*Bits*: how far the item's members differ from the population (Kullback–Leibler divergence). \
-             *Homogeneity*: 0 when members are as mixed as the population, 1 when all alike. \
-             *Adds*: bits the item adds to the observer's best guess about you. \
-             *If hidden*: how much the best guess's probability would fall.\n"
+            "\n{}\n",
+            crate::reading::ITEM_FIGURES
+                .iter()
+                .map(|(name, meaning)| format!("*{name}*: {}.", esc(meaning)))
+                .collect::<Vec<_>>()
+                .join(" ")
         )?;
     }
 

@@ -8,6 +8,7 @@ use std::sync::Arc;
 
 use serde::ser::{Serialize, SerializeSeq, Serializer};
 
+use crate::effect::effect;
 use crate::evidence::{LexiconRule, Origin, Subject};
 use crate::footprint::Footprint;
 use crate::infer::Exposure;
@@ -33,30 +34,11 @@ struct AttrStrings {
     value_labels: Vec<Arc<str>>,
 }
 
-/// What a row needs of its attribute's current posterior.
-struct Guess {
-    /// Index of the best guess.
-    best: usize,
-    /// Its probability.
-    probability: f64,
-    /// The weight one unit of log-likelihood ratio gets (λ).
-    weight: f64,
-}
-
-impl Guess {
-    /// `λ·log₂ L(best guess)`: bits this piece of evidence adds toward the best guess
-    /// (the same figure as [`crate::infer::Contribution::toward_best_bits`]).
-    fn toward_best_bits(&self, log_lr: &[f64]) -> f64 {
-        self.weight * log_lr[self.best] / std::f64::consts::LN_2
-    }
-}
-
 /// The rows of a report, ready to be made in order.
 pub struct Rows<'a> {
     footprint: &'a Footprint,
     exposure: &'a Exposure,
     attrs: Vec<AttrStrings>,
-    guesses: Vec<Guess>,
     /// Report order: indices into the evidence list (visible subjects only). A row's
     /// figures are worked out when it is made, so a large archive's rows cost four
     /// bytes each until then.
@@ -74,40 +56,29 @@ impl<'a> Rows<'a> {
                 value_labels: a.values.iter().map(|v| v.label.as_str().into()).collect(),
             })
             .collect();
-        let guesses: Vec<Guess> = (0..priors.attributes.len())
-            .map(|ai| {
-                let post = exposure.posterior(ai);
-                Guess {
-                    best: post.best,
-                    probability: post.probability,
-                    weight: exposure.models()[ai].weight(),
-                }
+        let list = &exposure.evidence().list;
+        // Most bits toward the guess first (the leave-one-out figure of
+        // [`crate::effect`]), then the most informative; ties go by attribute, then by
+        // evidence order (so the sort is deterministic).
+        let mut keyed: Vec<(f64, f64, usize, u32)> = (0..list.len())
+            .filter(|&i| !exposure.is_hidden(list[i].subject()))
+            .map(|i| {
+                let e = &list[i];
+                let bits = effect(exposure, e.attribute(), e.subject()).bits;
+                (bits, e.info_bits(), e.attribute(), i as u32)
             })
             .collect();
-        let list = &exposure.evidence().list;
-        let mut order: Vec<u32> = (0..list.len())
-            .filter(|&i| !exposure.is_hidden(list[i].subject()))
-            .map(|i| i as u32)
-            .collect();
-        // Most bits toward the guess first, then the most informative; ties go by
-        // attribute, then by evidence order (so the sort is deterministic).
-        let key = |&i: &u32| {
-            let e = &list[i as usize];
-            let bits = guesses[e.attribute()].toward_best_bits(e.log_lr());
-            (bits, e.info_bits(), e.attribute())
-        };
-        order.sort_unstable_by(|a, b| {
-            let ((xc, xb, xa), (yc, yb, ya)) = (key(a), key(b));
-            yc.total_cmp(&xc)
-                .then(yb.total_cmp(&xb))
-                .then(xa.cmp(&ya))
+        keyed.sort_unstable_by(|(xc, xb, xa, a), (yc, yb, ya, b)| {
+            yc.total_cmp(xc)
+                .then(yb.total_cmp(xb))
+                .then(xa.cmp(ya))
                 .then(a.cmp(b))
         });
+        let order: Vec<u32> = keyed.into_iter().map(|k| k.3).collect();
         Rows {
             footprint,
             exposure,
             attrs,
-            guesses,
             order,
         }
     }
@@ -132,10 +103,9 @@ impl<'a> Rows<'a> {
         let e = &self.exposure.evidence().list[ei];
         let ai = e.attribute();
         let strings = &self.attrs[ai];
-        let guess = &self.guesses[ai];
-        // Leave-one-out: how far the best guess falls with all of this subject's
-        // evidence for the attribute removed.
-        let without = self.exposure.posterior_toggled(ai, e.subject());
+        // Leave-one-out: what all of this subject's evidence for the attribute does to
+        // the best guess.
+        let fx = effect(self.exposure, ai, e.subject());
         let (name, kind, date) = match e.subject() {
             Subject::Item(i) => {
                 let it = &self.footprint.items[i];
@@ -143,17 +113,16 @@ impl<'a> Rows<'a> {
             }
             Subject::FriendList => ("your friend list".to_string(), "friends", None),
         };
-        let leaning = e.leaning();
         ItemReport {
             name,
             kind,
             attribute: strings.id.clone(),
-            reveals: strings.value_ids[leaning].clone(),
-            reveals_label: strings.value_labels[leaning].clone(),
+            reveals: strings.value_ids[fx.points_to].clone(),
+            reveals_label: strings.value_labels[fx.points_to].clone(),
             bits: e.info_bits(),
             homogeneity: e.homogeneity(),
-            contribution_bits: guess.toward_best_bits(e.log_lr()),
-            if_hidden_drop: guess.probability - without.probs[guess.best],
+            contribution_bits: fx.bits,
+            if_hidden_drop: fx.drop_if_hidden(false),
             support: e.support(),
             source: e.origin.kind(),
             source_detail: described.get(&e.origin),

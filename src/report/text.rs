@@ -217,9 +217,14 @@ pub fn write_text(r: &ScanReport, opts: TextOptions, out: &mut dyn Write) -> io:
         writeln!(
             out,
             "{}",
-            p.dim(
-                "  Bits: how far the item's members differ from everyone (KL divergence).\n  Homog.: 0 = members as mixed as the population, 1 = all alike.\n  Adds: bits this item adds to the observer's best guess about you.\n  ↳ evidence from a word list or from friends rather than the reference table."
-            )
+            p.dim(&format!(
+                "{}\n  ↳ evidence from a word list or from friends rather than the reference table.",
+                crate::reading::ITEM_FIGURES
+                    .iter()
+                    .map(|(name, meaning)| wrap_words(&format!("{name}: {meaning}."), 76, "  "))
+                    .collect::<Vec<_>>()
+                    .join("\n")
+            ))
         )?;
     }
     if !r.unmatched.is_empty() {
