@@ -14,6 +14,7 @@ pub mod cautions;
 pub mod cohort;
 pub mod combine;
 pub mod decisions;
+pub mod effect;
 pub mod eval;
 pub mod evidence;
 pub mod footprint;

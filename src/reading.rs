@@ -153,6 +153,101 @@ pub fn assess(attr: &Attribute, probs: &[f64], alert_level: f64, rarity: &Rarity
     }
 }
 
+/// How the best guess's probability would change if an item were hidden, given how
+/// far it would fall (`drop`, [`crate::effect::Effect::drop_if_hidden`]), in
+/// percentage points and never rounded to a misleading zero: "−12 pts", "−0.35 pts",
+/// "−<0.01 pts" (a near-certain guess barely moves), and a rise as "+3.1 pts". The
+/// sign is the change's, so it is the opposite of the item's "adds".
+pub fn hidden_change_points(drop: f64) -> String {
+    let x = -drop * 100.0;
+    let sign = if x < 0.0 { "−" } else { "+" };
+    let a = x.abs();
+    if a == 0.0 {
+        "0 pts".into()
+    } else if a < 0.01 {
+        format!("{sign}<0.01 pts")
+    } else if a < 1.0 {
+        format!("{sign}{a:.2} pts")
+    } else if a < 10.0 {
+        format!("{sign}{a:.1} pts")
+    } else {
+        format!("{sign}{a:.0} pts")
+    }
+}
+
+/// Bits with their sign, never rounded to a signed zero: "+3.84", "-0.35", "+<0.01"
+/// and "-<0.01" for a figure that rounds to nothing, "0.00" for none at all.
+pub fn signed_bits(b: f64) -> String {
+    if b == 0.0 {
+        "0.00".into()
+    } else if b.abs() < 0.005 {
+        format!("{}<0.01", if b < 0.0 { "-" } else { "+" })
+    } else {
+        format!("{b:+.2}")
+    }
+}
+
+/// What each per-item figure means, as (name, meaning): the one wording the text,
+/// Markdown and HTML reports' legends use, so they cannot drift apart. "Adds", "points
+/// to" and "if hidden" are the one leave-one-out figure of [`crate::effect`].
+pub const ITEM_FIGURES: [(&str, &str); 5] = [
+    (
+        "Bits",
+        "how far the item's members differ from everyone (Kullback–Leibler divergence)",
+    ),
+    (
+        "Homogeneity",
+        "0 when members are spread evenly over the values, 1 when all alike (measured against an even spread, not the population: members as mixed as everyone read above 0)",
+    ),
+    (
+        "Points to",
+        "the value the item pushes the observer's guess toward: the guess itself when it adds bits, else the value it raises most",
+    ),
+    (
+        "Adds",
+        "how much the observer's best guess about you rests on the item: its log-odds in bits with the item shown minus with it hidden (negative: it argues against the guess)",
+    ),
+    (
+        "If hidden",
+        "how the best guess's probability would change if you hid the item, in percentage points: down (−) when Adds is positive, up (+) when it is negative",
+    ),
+];
+
+/// The meaning of one of [`ITEM_FIGURES`] by its name ("" for a name not there).
+pub fn item_figure(name: &str) -> &'static str {
+    ITEM_FIGURES
+        .iter()
+        .find(|(n, _)| *n == name)
+        .map_or("", |(_, meaning)| meaning)
+}
+
+/// What one item does to one attribute's guess, as the explorer's item page writes it
+/// beside the item's chart: "points to Oregon · adds +1.23 bits to the current guess"
+/// (the figures of [`crate::effect`], named as the reports' columns name them).
+pub fn effect_phrase(points_to: &str, bits: f64) -> String {
+    format!(
+        "points to {points_to} · adds {} bits to the current guess",
+        signed_bits(bits)
+    )
+}
+
+/// One reason an item is in a plan, as the plan's text, HTML and the explorer's plan
+/// screen write it: "Home: Oregon (+1.23 bits; shown again: 34%)". `shown_again` is
+/// the value's probability if just this item were shown again (`None`: not shown).
+pub fn plan_reason(attribute: &str, value: &str, bits: f64, shown_again: Option<f64>) -> String {
+    match shown_again {
+        Some(p) => format!(
+            "{attribute}: {value} ({} bits; shown again: {})",
+            signed_bits(bits),
+            percent(p)
+        ),
+        None => format!("{attribute}: {value} ({} bits)", signed_bits(bits)),
+    }
+}
+
+/// The legend under a plan's reasons.
+pub const PLAN_REASON_LEGEND: &str = "Bits: what showing the item again (the rest of the plan hidden) would add to the value's log-odds, in bits: the reports' \"adds\", for that value; \"shown again\": that value's probability if you showed just this item again.";
+
 /// The rarity part of the alert rule in one sentence, for the reports and screens.
 pub fn rarity_note(r: &Rarity) -> String {
     if r.is_on() {
@@ -349,5 +444,10 @@ mod tests {
             x.reading
         );
         assert!(rarity_note(&r).contains("over 20% and over 5×"));
+        assert_eq!(hidden_change_points(1e-7), "−<0.01 pts");
+        assert_eq!(hidden_change_points(-0.031), "+3.1 pts");
+        assert_eq!(hidden_change_points(0.12), "−12 pts");
+        assert_eq!(signed_bits(-1e-4), "-<0.01");
+        assert_eq!(signed_bits(3.844), "+3.84");
     }
 }

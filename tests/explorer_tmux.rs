@@ -179,7 +179,7 @@ fn explorer_in_a_real_terminal() {
 
     // Item list, filtered to the first attribute (Enter on the overview), then likes.
     t.keys(&["Enter"]);
-    t.wait_for("the item list", |s| s.contains("gives away"));
+    t.wait_for("the item list", |s| s.contains("points to"));
     t.keys(&["t"]);
     t.wait_for("the likes filter", |s| s.contains("likes"));
     t.keys(&["x"]);
@@ -369,7 +369,7 @@ fn closing_the_terminal_saves_and_quits() {
         s.contains("population rate") && !s.contains("Before you act on this")
     });
     t.keys(&["Enter"]);
-    t.wait_for("the item list", |s| s.contains("gives away"));
+    t.wait_for("the item list", |s| s.contains("points to"));
     t.keys(&["x"]);
     t.wait_for("the hidden mark", |s| s.contains("Hidden (what-if)"));
     // The explorer's process: the pane's shell's child.
@@ -435,7 +435,7 @@ fn workshop_mode_saves_nothing_and_forget_removes_what_was_saved() {
         t.keys(&["Space"]);
         t.wait_for("the overview", |s| s.contains("population rate"));
         t.keys(&["2"]);
-        t.wait_for("the item list", |s| s.contains("gives away"));
+        t.wait_for("the item list", |s| s.contains("points to"));
         t.keys(&["x"]);
         t.wait_for("the hidden mark", |s| s.contains("Hidden (what-if)"));
         t.keys(&["q"]);
@@ -451,7 +451,7 @@ fn workshop_mode_saves_nothing_and_forget_removes_what_was_saved() {
     t.keys(&["Space"]);
     t.wait_for("the overview", |s| s.contains("population rate"));
     t.keys(&["2"]);
-    t.wait_for("the item list", |s| s.contains("gives away"));
+    t.wait_for("the item list", |s| s.contains("points to"));
     t.keys(&["x"]);
     t.wait_for("the hidden mark", |s| s.contains("Hidden (what-if)"));
     t.keys(&["q"]);

@@ -64,16 +64,16 @@ pub(crate) fn explain(
                     .keep
                     .iter()
                     .filter(|s| !exposure.is_hidden(**s) && in_range(exposure, **s))
-                    .filter_map(|&s| {
-                        let bits: f64 = exposure
+                    .filter(|&&s| {
+                        exposure
                             .evidence_of(s)
                             .iter()
-                            .map(|&ei| (ei, &exposure.evidence().list[ei]))
-                            .filter(|(_, e)| e.attribute() == a.attribute)
-                            .map(|(ei, e)| {
-                                exposure.piece_weight(ei) * e.log_lr()[v] / std::f64::consts::LN_2
-                            })
-                            .sum();
+                            .any(|&ei| exposure.evidence().list[ei].attribute() == a.attribute)
+                    })
+                    .filter_map(|&s| {
+                        // The reports' figure ([`crate::effect`]): the change in the
+                        // value's log₂-odds with this item shown rather than hidden.
+                        let bits = crate::effect::bits_toward(exposure, a.attribute, s, v);
                         (bits > 0.0).then_some((s, bits))
                     })
                     .collect();

@@ -102,7 +102,9 @@ pub struct Reason {
     pub attribute: usize,
     /// The value it pushes toward.
     pub value: usize,
-    /// `λ·log₂ L(value)`: the bits it adds toward that value.
+    /// The bits it adds toward that value: the change in the value's log₂-odds with
+    /// it shown again rather than hidden, the rest of the plan hidden (the reports'
+    /// figure, [`crate::effect::change`]; positive whenever `needed`).
     pub bits: f64,
     /// That value's probability if this subject alone were shown again (with the rest
     /// of the plan hidden).
@@ -180,7 +182,9 @@ pub struct Blocked {
     /// Its probability with nothing visible at all (the population base rate under
     /// the calibrated model).
     pub prior_probability: f64,
-    /// Kept subjects pushing toward the value, with their bits, most first.
+    /// Kept subjects pushing toward the value, with their bits (the change in the
+    /// value's log₂-odds with each shown rather than hidden, [`crate::effect`]), most
+    /// first.
     pub kept: Vec<(Subject, f64)>,
     /// Proven on its own (this attribute alone cannot be met), not only together with
     /// the others.

@@ -60,16 +60,11 @@ pub(super) fn why(r: &PlanReport, i: usize) -> String {
         .iter()
         .take(2)
         .map(|x| {
-            format!(
-                "{}: {} ({:+.2} bits{})",
-                x.attribute_label,
-                x.value_label,
+            crate::reading::plan_reason(
+                &x.attribute_label,
+                &x.value_label,
                 x.bits,
-                if x.needed && x.value != YOUR_VALUE_ID {
-                    format!("; shown again: {}", percent(x.probability_if_shown))
-                } else {
-                    String::new()
-                }
+                (x.needed && x.value != YOUR_VALUE_ID).then_some(x.probability_if_shown),
             )
         })
         .collect::<Vec<_>>()
@@ -121,7 +116,8 @@ pub fn write_text(r: &PlanReport, out: &mut dyn Write) -> io::Result<()> {
         }
         writeln!(
             out,
-            "  Bits: how much the item adds toward the value; \"shown again\": that value's\n  probability if you showed just this item again."
+            "{}",
+            wrap_words(crate::reading::PLAN_REASON_LEGEND, 78, "  ")
         )?;
     }
     writeln!(out, "\nBEFORE AND AFTER")?;
@@ -201,7 +197,7 @@ pub fn write_text(r: &PlanReport, out: &mut dyn Write) -> io::Result<()> {
                     .kept_items
                     .iter()
                     .take(5)
-                    .map(|(n, bits)| format!("{n} ({bits:+.2} bits)"))
+                    .map(|(n, bits)| format!("{n} ({} bits)", crate::reading::signed_bits(*bits)))
                     .collect();
                 line.push_str(&format!(
                     " Items you keep that give it away: {}.",

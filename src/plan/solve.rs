@@ -155,7 +155,7 @@ fn explain_plan(p: &Problem, set: &[usize]) -> Plan {
                 .copied()
                 .max_by(|&x, &y| post.probs[x].total_cmp(&post.probs[y]))
                 .unwrap_or_else(|| a.true_value.unwrap_or(post.best));
-            let bits = a.lambda * a.w(i)[value] / std::f64::consts::LN_2;
+            let bits = crate::effect::change(&post, &p.posterior(ai, &state), value).0;
             if over.is_empty() && bits <= 0.0 {
                 continue;
             }

@@ -234,17 +234,23 @@ pub struct ItemReport {
     pub kind: &'static str,
     /// Attribute id. (Strings that many rows repeat are shared, not copied.)
     pub attribute: Arc<str>,
-    /// The value this item points to most (its highest likelihood ratio).
+    /// The value this item pushes this person's guess toward: the best guess when
+    /// `contribution_bits` is positive, else the value it raises most
+    /// ([`crate::effect`]).
     pub reveals: Arc<str>,
     pub reveals_label: Arc<str>,
     /// KL(p‖π) in bits: how far the item's members are from the population.
     pub bits: f64,
-    /// 1 − H(p)/log₂|V|.
+    /// 1 − H(p)/log₂|V|: measured against an even spread over the values, not against
+    /// the population (members as mixed as everyone read above 0 when the population
+    /// itself is uneven).
     pub homogeneity: f64,
-    /// λ·log₂ L(best guess): bits this item adds toward the observer's best guess
-    /// for this person (negative: it argues against it).
+    /// Leave-one-out, in bits: the observer's best guess's log₂-odds with this item
+    /// shown minus with it hidden (negative: it argues against the guess). Its sign is
+    /// always the sign of `if_hidden_drop`.
     pub contribution_bits: f64,
-    /// How much the best guess's probability would fall if this item were hidden.
+    /// How much the best guess's probability would fall if this item were hidden
+    /// (negative: it would rise).
     pub if_hidden_drop: f64,
     /// Members behind the estimate.
     pub support: f64,

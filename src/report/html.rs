@@ -296,7 +296,7 @@ fn write_items(r: &ScanReport, top: usize, out: &mut dyn Write) -> io::Result<()
         writeln!(
             out,
             "<tr><td class=\"n\">{}</td><td class=\"name\">{}</td><td>{}</td><td>{}: {}</td>\
-             <td class=\"n\">{:.2}</td><td class=\"n\">{:.2}</td><td class=\"n\">{:+.2}</td><td class=\"n\">−{}</td></tr>",
+             <td class=\"n\">{:.2}</td><td class=\"n\">{:.2}</td><td class=\"n\">{}</td><td class=\"n\">{}</td></tr>",
             n + 1,
             escape(&i.name),
             escape(i.kind),
@@ -304,17 +304,19 @@ fn write_items(r: &ScanReport, top: usize, out: &mut dyn Write) -> io::Result<()
             escape(&i.reveals_label),
             i.bits,
             i.homogeneity,
-            i.contribution_bits,
-            percent(i.if_hidden_drop.max(0.0))
+            crate::reading::signed_bits(i.contribution_bits),
+            crate::reading::hidden_change_points(i.if_hidden_drop)
         )?;
     }
     writeln!(out, "</tbody></table></div>")?;
     writeln!(
         out,
-        "<p class=\"key\"><b>Bits</b>: how far the item's members differ from the population (Kullback–Leibler divergence). \
-         <b>Alike</b>: homogeneity, 0 when members are as mixed as the population, 1 when all alike. \
-         <b>Adds</b>: bits the item adds to the observer's best guess about you. \
-         <b>If hidden</b>: how much the best guess's probability would fall.</p>"
+        "<p class=\"key\">{} (<b>Alike</b> is the homogeneity.)</p>",
+        crate::reading::ITEM_FIGURES
+            .iter()
+            .map(|(name, meaning)| format!("<b>{name}</b>: {}.", escape(meaning)))
+            .collect::<Vec<_>>()
+            .join(" ")
     )
 }
 

@@ -109,7 +109,7 @@ pub fn write_markdown(r: &ScanReport, top: usize, out: &mut dyn Write) -> io::Re
                 .unwrap_or(&i.attribute);
             writeln!(
                 out,
-                "| {} | {} | {} | {}: {} | {:.2} | {:.2} | {:+.2} | −{} | {} |",
+                "| {} | {} | {} | {}: {} | {:.2} | {:.2} | {} | {} | {} |",
                 n + 1,
                 esc(&i.name),
                 i.kind,
@@ -117,17 +117,19 @@ pub fn write_markdown(r: &ScanReport, top: usize, out: &mut dyn Write) -> io::Re
                 esc(&i.reveals_label),
                 i.bits,
                 i.homogeneity,
-                i.contribution_bits,
-                percent(i.if_hidden_drop.max(0.0)),
+                crate::reading::signed_bits(i.contribution_bits),
+                crate::reading::hidden_change_points(i.if_hidden_drop),
                 esc(&i.source_detail)
             )?;
         }
         writeln!(
             out,
-            "\n*Bits*: how far the item's members differ from the population (Kullback–Leibler divergence). \
-             *Homogeneity*: 0 when members are as mixed as the population, 1 when all alike. \
-             *Adds*: bits the item adds to the observer's best guess about you. \
-             *If hidden*: how much the best guess's probability would fall.\n"
+            "\n{}\n",
+            crate::reading::ITEM_FIGURES
+                .iter()
+                .map(|(name, meaning)| format!("*{name}*: {}.", esc(meaning)))
+                .collect::<Vec<_>>()
+                .join(" ")
         )?;
     }
 

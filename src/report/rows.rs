@@ -8,9 +8,10 @@ use std::sync::Arc;
 
 use serde::ser::{Serialize, SerializeSeq, Serializer};
 
+use crate::effect::effect_given;
 use crate::evidence::{LexiconRule, Origin, Subject};
 use crate::footprint::Footprint;
-use crate::infer::Exposure;
+use crate::infer::{Exposure, Posterior};
 use crate::priors::Priors;
 
 use super::build::ItemReport;
@@ -33,29 +34,13 @@ struct AttrStrings {
     value_labels: Vec<Arc<str>>,
 }
 
-/// What a row needs of its attribute's current posterior.
-struct Guess {
-    /// Index of the best guess.
-    best: usize,
-    /// Its probability.
-    probability: f64,
-}
-
-impl Guess {
-    /// `w·log₂ L(best guess)`: bits this piece of evidence adds toward the best guess at
-    /// its weight `w` ([`Exposure::piece_weight`]; the same figure as
-    /// [`crate::infer::Contribution::toward_best_bits`]).
-    fn toward_best_bits(&self, weight: f64, log_lr: &[f64]) -> f64 {
-        weight * log_lr[self.best] / std::f64::consts::LN_2
-    }
-}
-
 /// The rows of a report, ready to be made in order.
 pub struct Rows<'a> {
     footprint: &'a Footprint,
     exposure: &'a Exposure,
     attrs: Vec<AttrStrings>,
-    guesses: Vec<Guess>,
+    /// Each attribute's posterior now (every row's figure is measured against it).
+    posteriors: Vec<Posterior>,
     /// Report order: indices into the evidence list (visible subjects only). A row's
     /// figures are worked out when it is made, so a large archive's rows cost four
     /// bytes each until then.
@@ -73,40 +58,34 @@ impl<'a> Rows<'a> {
                 value_labels: a.values.iter().map(|v| v.label.as_str().into()).collect(),
             })
             .collect();
-        let guesses: Vec<Guess> = (0..priors.attributes.len())
-            .map(|ai| {
-                let post = exposure.posterior(ai);
-                Guess {
-                    best: post.best,
-                    probability: post.probability,
-                }
-            })
+        let posteriors: Vec<Posterior> = (0..priors.attributes.len())
+            .map(|a| exposure.posterior(a))
             .collect();
         let list = &exposure.evidence().list;
-        let mut order: Vec<u32> = (0..list.len())
+        // Most bits toward the guess first (the leave-one-out figure of
+        // [`crate::effect`]), then the most informative; ties go by attribute, then by
+        // evidence order (so the sort is deterministic).
+        let mut keyed: Vec<(f64, f64, usize, u32)> = (0..list.len())
             .filter(|&i| !exposure.is_hidden(list[i].subject()))
-            .map(|i| i as u32)
+            .map(|i| {
+                let e = &list[i];
+                let a = e.attribute();
+                let bits = effect_given(exposure, a, e.subject(), &posteriors[a]).bits;
+                (bits, e.info_bits(), e.attribute(), i as u32)
+            })
             .collect();
-        // Most bits toward the guess first, then the most informative; ties go by
-        // attribute, then by evidence order (so the sort is deterministic).
-        let key = |&i: &u32| {
-            let e = &list[i as usize];
-            let bits = guesses[e.attribute()]
-                .toward_best_bits(exposure.piece_weight(i as usize), e.log_lr());
-            (bits, e.info_bits(), e.attribute())
-        };
-        order.sort_unstable_by(|a, b| {
-            let ((xc, xb, xa), (yc, yb, ya)) = (key(a), key(b));
-            yc.total_cmp(&xc)
-                .then(yb.total_cmp(&xb))
-                .then(xa.cmp(&ya))
+        keyed.sort_unstable_by(|(xc, xb, xa, a), (yc, yb, ya, b)| {
+            yc.total_cmp(xc)
+                .then(yb.total_cmp(xb))
+                .then(xa.cmp(ya))
                 .then(a.cmp(b))
         });
+        let order: Vec<u32> = keyed.into_iter().map(|k| k.3).collect();
         Rows {
             footprint,
             exposure,
             attrs,
-            guesses,
+            posteriors,
             order,
         }
     }
@@ -131,10 +110,9 @@ impl<'a> Rows<'a> {
         let e = &self.exposure.evidence().list[ei];
         let ai = e.attribute();
         let strings = &self.attrs[ai];
-        let guess = &self.guesses[ai];
-        // Leave-one-out: how far the best guess falls with all of this subject's
-        // evidence for the attribute removed.
-        let without = self.exposure.posterior_toggled(ai, e.subject());
+        // Leave-one-out: what all of this subject's evidence for the attribute does to
+        // the best guess.
+        let fx = effect_given(self.exposure, ai, e.subject(), &self.posteriors[ai]);
         let (name, kind, date) = match e.subject() {
             Subject::Item(i) => {
                 let it = &self.footprint.items[i];
@@ -142,17 +120,16 @@ impl<'a> Rows<'a> {
             }
             Subject::FriendList => ("your friend list".to_string(), "friends", None),
         };
-        let leaning = e.leaning();
         ItemReport {
             name,
             kind,
             attribute: strings.id.clone(),
-            reveals: strings.value_ids[leaning].clone(),
-            reveals_label: strings.value_labels[leaning].clone(),
+            reveals: strings.value_ids[fx.points_to].clone(),
+            reveals_label: strings.value_labels[fx.points_to].clone(),
             bits: e.info_bits(),
             homogeneity: e.homogeneity(),
-            contribution_bits: guess.toward_best_bits(self.exposure.piece_weight(ei), e.log_lr()),
-            if_hidden_drop: guess.probability - without.probs[guess.best],
+            contribution_bits: fx.bits,
+            if_hidden_drop: fx.drop_if_hidden(),
             support: e.support(),
             source: e.origin.kind(),
             source_detail: described.get(&e.origin),

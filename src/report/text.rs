@@ -178,7 +178,7 @@ pub fn write_text(r: &ScanReport, opts: TextOptions, out: &mut dyn Write) -> io:
             };
             writeln!(
                 out,
-                "{lead} {} {} {:>5.2} {:>6.2} {:>+7.2}",
+                "{lead} {} {} {:>5.2} {:>6.2} {:>7}",
                 pad_to_width(i.kind, 7),
                 pad_to_width(
                     &truncate_to_width(&format!("{attr_label}: {}", i.reveals_label), 22),
@@ -186,7 +186,7 @@ pub fn write_text(r: &ScanReport, opts: TextOptions, out: &mut dyn Write) -> io:
                 ),
                 i.bits,
                 i.homogeneity,
-                i.contribution_bits
+                crate::reading::signed_bits(i.contribution_bits)
             )?;
             if i.source != "priors" {
                 writeln!(
@@ -202,9 +202,14 @@ pub fn write_text(r: &ScanReport, opts: TextOptions, out: &mut dyn Write) -> io:
         writeln!(
             out,
             "{}",
-            p.dim(
-                "  Bits: how far the item's members differ from everyone (KL divergence).\n  Homog.: 0 = members as mixed as the population, 1 = all alike.\n  Adds: bits this item adds to the observer's best guess about you.\n  ↳ evidence from a word list or from friends rather than the reference table."
-            )
+            p.dim(&format!(
+                "{}\n  ↳ evidence from a word list or from friends rather than the reference table.",
+                crate::reading::ITEM_FIGURES
+                    .iter()
+                    .map(|(name, meaning)| wrap_words(&format!("{name}: {meaning}."), 76, "  "))
+                    .collect::<Vec<_>>()
+                    .join("\n")
+            ))
         )?;
     }
     if !r.unmatched.is_empty() {

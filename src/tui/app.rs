@@ -3,6 +3,7 @@
 //! event loop to carry out, so every transition is tested by sending keys.
 
 use crossterm::event::{KeyCode, KeyEvent, KeyModifiers};
+use telltale::decisions::Mark;
 use telltale::evidence::Subject;
 use telltale::plan::Method;
 use telltale::whatif::{ItemRow, RowQuery, Session, item_rows};
@@ -23,9 +24,6 @@ pub struct App {
     pub rows: Vec<ItemRow>,
     /// Per subject slot (items, then the friend list): its position in `rows`.
     row_at: Vec<Option<u32>>,
-    /// The best guess per attribute when `rows` was built: the rows' order and
-    /// figures depend on nothing else that a mark can change.
-    rows_bests: Vec<usize>,
     pub item_cursor: usize,
     pub overview_cursor: usize,
     pub values_cursor: usize,
@@ -78,7 +76,6 @@ impl App {
             searching: false,
             rows: Vec::new(),
             row_at: Vec::new(),
-            rows_bests: Vec::new(),
             item_cursor: 0,
             overview_cursor: 0,
             values_cursor: 0,
@@ -106,7 +103,6 @@ impl App {
         let keep = self.rows.get(self.item_cursor).map(|r| r.subject);
         self.session.take_changed();
         self.rows = item_rows(&self.session, &self.query);
-        self.rows_bests = self.bests();
         let n_items = self.session.footprint().items.len();
         self.row_at.clear();
         self.row_at.resize(n_items + 1, None);
@@ -126,15 +122,25 @@ impl App {
         self.item_cursor = 0;
     }
 
-    /// Bring the item list up to date after marks changed. A mark changes only its
-    /// own row's mark column unless some best guess moved (the rows' figures and order
-    /// follow the best guesses), so usually only the changed rows are touched; the
-    /// list is then the same as a rebuild would give.
+    /// Bring the item list up to date after marks changed. Every row's figure is a
+    /// leave-one-out change of a best guess ([`telltale::effect`]), so hiding or
+    /// showing anything moves other rows' figures and order too: then the list is
+    /// rebuilt. A keep (or clearing one) changes nothing the observer sees, only its
+    /// own row's mark column, so that is updated in place; either way the list is the
+    /// same as a rebuild would give.
     fn update_rows(&mut self) {
         let changed = self.session.take_changed();
+        let n_items = self.session.footprint().items.len();
+        let is_hide = |m: Option<Mark>| m == Some(Mark::Hide);
+        let in_place = changed.as_ref().is_some_and(|list| {
+            list.iter().all(|&s| {
+                self.row_at[slot(s, n_items)].is_some_and(|i| {
+                    is_hide(self.rows[i as usize].mark) == is_hide(self.session.mark(s))
+                })
+            })
+        });
         match changed {
-            Some(list) if self.bests() == self.rows_bests => {
-                let n_items = self.session.footprint().items.len();
+            Some(list) if in_place => {
                 for s in list {
                     if let Some(i) = self.row_at[slot(s, n_items)] {
                         self.rows[i as usize].mark = self.session.mark(s);
@@ -143,12 +149,6 @@ impl App {
             }
             _ => self.refresh_rows(),
         }
-    }
-
-    fn bests(&self) -> Vec<usize> {
-        (0..self.session.n_attributes())
-            .map(|a| self.session.posterior(a).best)
-            .collect()
     }
 
     /// The subject under the cursor (items list or detail).

@@ -29,9 +29,9 @@ pub struct EvidenceView {
     /// priors, lexicon, friends or mark.
     pub source: &'static str,
     pub source_detail: String,
-    /// The value it points to most.
+    /// The value it pushes the guess toward ([`crate::effect`]).
     pub leaning_label: String,
-    /// Bits toward the observer's current best guess.
+    /// Leave-one-out bits on the observer's current best guess ([`crate::effect`]).
     pub contribution_bits: f64,
 }
 
@@ -94,8 +94,7 @@ pub fn item_detail(s: &Session, subject: Subject) -> ItemDetail {
     for &ei in x.evidence_of(subject) {
         let e = &x.evidence().list[ei];
         let attr = &s.priors.attributes[e.attribute()];
-        let post = x.posterior(e.attribute());
-        let w = x.piece_weight(ei);
+        let fx = crate::effect::effect(x, e.attribute(), subject);
         // The reference the ratios were taken against: μ(v) = p(v) / L(v).
         let mut bars: Vec<ValueBar> = e
             .distribution()
@@ -110,6 +109,13 @@ pub fn item_detail(s: &Session, subject: Subject) -> ItemDetail {
             })
             .collect();
         bars.sort_by(|a, b| b.members.total_cmp(&a.members));
+        // The value it points to is always among the first bars the page shows.
+        if let Some(pos) = bars.iter().position(|b| b.value == fx.points_to)
+            && pos > 2
+        {
+            let bar = bars.remove(pos);
+            bars.insert(2, bar);
+        }
         evidence.push(EvidenceView {
             attribute: e.attribute(),
             attribute_label: attr.label.clone(),
@@ -119,8 +125,8 @@ pub fn item_detail(s: &Session, subject: Subject) -> ItemDetail {
             support: e.support(),
             source: e.origin.kind(),
             source_detail: e.origin.describe(),
-            leaning_label: attr.values[e.leaning()].label.clone(),
-            contribution_bits: w * e.log_lr()[post.best] / std::f64::consts::LN_2,
+            leaning_label: attr.values[fx.points_to].label.clone(),
+            contribution_bits: fx.bits,
         });
         if !attrs.contains(&e.attribute()) {
             attrs.push(e.attribute());

@@ -107,12 +107,12 @@ pub struct ItemRow {
     /// The attribute shown (the filtered one, or the one it adds most to); `None`
     /// when nothing is known about the item.
     pub attribute: Option<usize>,
-    /// The value it points to most for that attribute.
+    /// The value it pushes the guess toward for that attribute ([`crate::effect`]).
     pub reveals: Option<usize>,
     pub bits: f64,
     pub homogeneity: f64,
-    /// Bits toward the observer's current best guess (what it adds, or would add if
-    /// shown again).
+    /// Leave-one-out bits on the observer's current best guess ([`crate::effect`]):
+    /// what it adds, or would add if shown again; the reports' figure.
     pub contribution_bits: f64,
     pub mark: Option<Mark>,
     pub date: Option<i64>,
@@ -121,7 +121,7 @@ pub struct ItemRow {
 /// The rows for a query.
 pub fn item_rows(s: &Session, q: &RowQuery) -> Vec<ItemRow> {
     let x = s.exposure();
-    let bests: Vec<usize> = (0..s.n_attributes()).map(|a| x.posterior(a).best).collect();
+    let posteriors: Vec<_> = (0..s.n_attributes()).map(|a| x.posterior(a)).collect();
     let needle = name_key(&q.search);
     let fp = s.footprint();
     let mut rows = Vec::with_capacity(fp.items.len() + 1);
@@ -142,28 +142,33 @@ pub fn item_rows(s: &Session, q: &RowQuery) -> Vec<ItemRow> {
             continue;
         }
         // The evidence to show: the filtered attribute's, or the largest contribution.
-        let mut chosen: Option<(usize, f64)> = None;
+        // The figure is the leave-one-out one of [`crate::effect`], the reports' own.
+        // A subject's figure for an attribute covers all its evidence about it, so it
+        // is worked out once per attribute (the first piece stands for the row).
+        let mut chosen: Option<(usize, f64, usize)> = None;
         for &ei in x.evidence_of(subject) {
-            let e = &x.evidence().list[ei];
-            if q.attribute.is_some_and(|a| a != e.attribute()) {
+            let a = x.evidence().list[ei].attribute();
+            if q.attribute.is_some_and(|q| q != a)
+                || chosen.is_some_and(|(c, _, _)| x.evidence().list[c].attribute() == a)
+            {
                 continue;
             }
-            let c = x.piece_weight(ei) * e.log_lr()[bests[e.attribute()]] / std::f64::consts::LN_2;
-            if chosen.is_none_or(|(_, best)| c > best) {
-                chosen = Some((ei, c));
+            let fx = crate::effect::effect_given(x, a, subject, &posteriors[a]);
+            if chosen.is_none_or(|(_, best, _)| fx.bits > best) {
+                chosen = Some((ei, fx.bits, fx.points_to));
             }
         }
         if q.attribute.is_some() && chosen.is_none() {
             continue;
         }
         let row = match chosen {
-            Some((ei, c)) => {
+            Some((ei, c, points_to)) => {
                 let e = &x.evidence().list[ei];
                 ItemRow {
                     subject,
                     kind,
                     attribute: Some(e.attribute()),
-                    reveals: Some(e.leaning()),
+                    reveals: Some(points_to),
                     bits: e.info_bits(),
                     homogeneity: e.homogeneity(),
                     contribution_bits: c,
@@ -226,7 +231,7 @@ mod tests {
     use crate::whatif::session::tests::demo_session;
 
     #[test]
-    fn most_revealing_first_matches_exposure_contributions() {
+    fn most_revealing_first_by_the_leave_one_out_figure() {
         let s = demo_session();
         let rows = item_rows(
             &s,
@@ -237,8 +242,14 @@ mod tests {
         );
         let contrib = s.exposure().contributions(0);
         assert_eq!(rows.len(), contrib.len());
-        assert_eq!(rows[0].subject, contrib[0].subject);
-        assert!((rows[0].contribution_bits - contrib[0].toward_best_bits).abs() < 1e-12);
+        // Each row's figure is the leave-one-out one, same sign as the exposure's own
+        // leave-one-out drop of the best guess.
+        for r in &rows {
+            let fx = crate::effect::effect(s.exposure(), 0, r.subject);
+            assert!((r.contribution_bits - fx.bits).abs() < 1e-12);
+            let c = contrib.iter().find(|c| c.subject == r.subject).unwrap();
+            assert_eq!(r.contribution_bits > 0.0, c.loo_drop > 0.0);
+        }
         for w in rows.windows(2) {
             assert!(w[0].contribution_bits >= w[1].contribution_bits);
         }

@@ -143,8 +143,8 @@ pub fn lines(app: &App, subject: Subject, width: u16, theme: Theme) -> Vec<Line<
             Line::from(vec![
                 Span::styled(format!("  {}", ev.attribute_label), theme.title()),
                 Span::raw(format!(
-                    " — points to {} · adds {:+.2} bits to the current guess",
-                    ev.leaning_label, ev.contribution_bits
+                    " — {}",
+                    telltale::reading::effect_phrase(&ev.leaning_label, ev.contribution_bits)
                 )),
             ]),
             w,
@@ -225,12 +225,15 @@ pub fn lines(app: &App, subject: Subject, width: u16, theme: Theme) -> Vec<Line<
         }
     }
     out.push(Line::raw(""));
-    for l in wrap(
-        "Homogeneity: 0 when the members are as mixed as everyone, 1 when they are all alike. \
-         Information: how far the members differ from everyone, in bits (Kullback–Leibler \
-         divergence). Bars share one scale per chart: the largest share fills it.",
-        w.saturating_sub(4),
-    ) {
+    // The reports' legend wording (one place: [`telltale::reading::ITEM_FIGURES`]).
+    let legend = format!(
+        "Homogeneity: {}. Information: {}. Adds: {}. Bars share one scale per chart: the \
+         largest share fills it.",
+        telltale::reading::item_figure("Homogeneity"),
+        telltale::reading::item_figure("Bits"),
+        telltale::reading::item_figure("Adds"),
+    );
+    for l in wrap(&legend, w.saturating_sub(4)) {
         out.push(Line::styled(format!("  {l}"), theme.dim()));
     }
     out

@@ -90,7 +90,8 @@ pub fn render(app: &App, frame: &mut Frame, area: Rect, theme: Theme) {
     }
     lines.push(fit(Line::from(filt), w));
 
-    // Columns: mark, kind, name, gives away, [alike, date,] bits, adds.
+    // Columns: mark, kind, name, points to, [alike, date,] bits, adds (the reports'
+    // names, [`telltale::reading::ITEM_FIGURES`]).
     let wide = w >= 110;
     let (mark_w, kind_w, away_w, bits_w, adds_w) = if wide {
         (5, 7, 34, 6, 7)
@@ -119,7 +120,7 @@ pub fn render(app: &App, frame: &mut Frame, area: Rect, theme: Theme) {
         Span::raw(" "),
         cell("item", name_w, theme.dim()),
         Span::raw(" "),
-        cell("gives away", away_w, theme.dim()),
+        cell("points to", away_w, theme.dim()),
         Span::raw(" "),
     ];
     head.extend(wide_cells("alike".into(), "date".into(), theme.dim()));
@@ -162,7 +163,7 @@ pub fn render(app: &App, frame: &mut Frame, area: Rect, theme: Theme) {
         let (bits, adds) = if r.attribute.is_some() {
             (
                 format!("{:.2}", r.bits),
-                format!("{:+.2}", r.contribution_bits),
+                telltale::reading::signed_bits(r.contribution_bits),
             )
         } else {
             (String::new(), String::new())

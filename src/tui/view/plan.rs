@@ -276,14 +276,12 @@ fn detail_lines(r: &PlanReport, w: usize, theme: Theme) -> Vec<Line<'static>> {
                 .iter()
                 .take(if why_w > 70 { 2 } else { 1 })
                 .map(|x| {
-                    let mut t = format!(
-                        "{}: {} {:+.2} bits",
-                        x.attribute_label, x.value_label, x.bits
-                    );
-                    if x.needed && why_w > 50 {
-                        t.push_str(&format!(" (shown: {})", percent(x.probability_if_shown)));
-                    }
-                    t
+                    telltale::reading::plan_reason(
+                        &x.attribute_label,
+                        &x.value_label,
+                        x.bits,
+                        (x.needed && why_w > 50).then_some(x.probability_if_shown),
+                    )
                 })
                 .collect();
             lines.push(fit(
