@@ -498,3 +498,77 @@ fn check_counts_what_each_source_of_a_mapping_finds() {
     assert_eq!(likes.files, vec!["activity/likes.json".to_string()]);
     assert_eq!((likes.records_seen, likes.dated), (p.likes, p.likes));
 }
+
+/// The values of a record's own kind field say what a set is when no name does
+/// (words in several languages; translations from memory, as the word lists' are):
+/// `"kind": "page"` in a file named "bits" is likes, `"tipo": "grupo"` groups; a
+/// kind value no list knows leaves the set for the person to decide.
+#[test]
+fn record_kind_values_say_what_a_set_is() {
+    let tmp = tempfile::tempdir().expect("tmp");
+    let records = |field: &str, value: &str, names: &[&str]| -> String {
+        let rows: Vec<String> = names
+            .iter()
+            .map(|n| format!(r#"{{"{field}": "{value}", "title": "{n}"}}"#))
+            .collect();
+        format!("[{}]", rows.join(","))
+    };
+    write(
+        tmp.path(),
+        "a/bits.json",
+        records(
+            "kind",
+            "page",
+            &["Harbour Kite Fliers", "Slow Bread Bakers"],
+        ),
+    );
+    write(
+        tmp.path(),
+        "b/lote.json",
+        records(
+            "tipo",
+            "grupo",
+            &["Corredores del Río", "Huerta Comunitaria"],
+        ),
+    );
+    write(
+        tmp.path(),
+        "c/eintraege.json",
+        records(
+            "art",
+            "Veranstaltung",
+            &["Sommerfest am See", "Lesung im Park"],
+        ),
+    );
+    write(
+        tmp.path(),
+        "d/misc.json",
+        records("kind", "widget", &["Blue Lantern", "Quiet Harbour"]),
+    );
+    let d = draft_of(tmp.path(), &Limits::default());
+    let kind_of = |file: &str| {
+        let s = d
+            .sources
+            .iter()
+            .find(|s| s.set.file == file)
+            .unwrap_or_else(|| panic!("{file} not drafted: {}", d.to_toml()));
+        (s.kind.kind, s.kind.sure, s.kind.reasons.join("; "))
+    };
+    let (k, sure, why) = kind_of("a/bits.json");
+    assert_eq!((k, sure), (SourceKind::Item(ItemKind::Like), true), "{why}");
+    assert!(why.contains("kind field"), "{why}");
+    let (k, sure, why) = kind_of("b/lote.json");
+    assert_eq!(
+        (k, sure),
+        (SourceKind::Item(ItemKind::Group), true),
+        "{why}"
+    );
+    let (k, sure, why) = kind_of("c/eintraege.json");
+    assert_eq!(
+        (k, sure),
+        (SourceKind::Item(ItemKind::Event), true),
+        "{why}"
+    );
+    let (_, sure, why) = kind_of("d/misc.json");
+    assert!(!sure, "{why}");
+}

@@ -536,3 +536,70 @@ fn people_around_the_world_are_read() {
 fn a_differently_worded_set_is_read_too() {
     check("holdout.toml", 16, 16);
 }
+
+/// The mapping drafter on every person's archive, in all four invented layouts: each
+/// set of records it drafts gets the kind the hand-written mapping gives it, or is
+/// left for the person to decide (commented out) when no word in its names or its
+/// records' own kind field says what it is; never a wrong kind. The satchel layout's
+/// likes sit in a file called "appreciations" whose records say `"kind": "page"`:
+/// read from the record values, they are likes.
+#[test]
+fn drafts_of_every_layout_give_each_set_its_kind_or_leave_it_open() {
+    use telltale::archive::Archive;
+    use telltale::footprint::ItemKind;
+    use telltale::limits::Limits;
+    use telltale::mapping::{SourceKind, draft};
+    // What each file (or, in the one-document layout, each list) holds; `None`: no
+    // word in its names says so (the draft must leave it open).
+    let truth = |file: &str, key: Option<&str>| -> Option<ItemKind> {
+        let name = file.rsplit('/').next().unwrap_or(file);
+        let stem = name.split('.').next().unwrap_or(name);
+        match (stem, key) {
+            ("everything", Some("pages")) => Some(ItemKind::Like),
+            ("everything", Some("memberships")) => Some(ItemKind::Group),
+            ("everything", Some("followed")) => Some(ItemKind::Follow),
+            ("everything", Some("attended")) => Some(ItemKind::Event),
+            ("appreciations" | "liked", _) => Some(ItemKind::Like),
+            ("circles" | "joined" | "clubs", _) => Some(ItemKind::Group),
+            ("followed" | "subscriptions", _) => Some(ItemKind::Follow),
+            ("gatherings" | "outings", _) => Some(ItemKind::Event),
+            ("watching" | "went" | "marks", _) => None,
+            other => panic!("no truth for {other:?}"),
+        }
+    };
+    let priors = load_priors(None).unwrap();
+    let dir = tempfile::tempdir().unwrap();
+    let (mut right, mut open) = (0, 0);
+    for file in ["world.toml", "holdout.toml"] {
+        for p in load(file) {
+            write_archive(&p, dir.path());
+            let limits = Limits::default();
+            let mut archive = Archive::open(&dir.path().join(&p.slug), &limits).unwrap();
+            let d = draft(&mut archive, &priors, &limits);
+            assert!(!d.sources.is_empty(), "{}: nothing drafted", p.slug);
+            for s in &d.sources {
+                let key = s.set.path_words().last().cloned();
+                let want = truth(&s.set.file, key.as_deref());
+                match (want, s.kind.sure) {
+                    (Some(kind), true) => {
+                        assert_eq!(
+                            s.kind.kind,
+                            SourceKind::Item(kind),
+                            "{}: {} {key:?}: {:?}",
+                            p.slug,
+                            s.set.file,
+                            s.kind.reasons
+                        );
+                        right += 1;
+                    }
+                    (None, false) => open += 1,
+                    (want, sure) => panic!(
+                        "{}: {} {key:?}: wanted {want:?}, drafted {:?} (sure: {sure}, {:?})",
+                        p.slug, s.set.file, s.kind.kind, s.kind.reasons
+                    ),
+                }
+            }
+        }
+    }
+    assert!(right > 100 && open > 10, "{right} right, {open} left open");
+}

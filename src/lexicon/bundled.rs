@@ -7,6 +7,7 @@ use std::sync::{Arc, Mutex, PoisonError};
 use super::gazetteer::Gazetteer;
 use super::life_stages::LifeStages;
 use super::place_cues::PlaceCues;
+use super::record_kinds::RecordKinds;
 use super::vocabulary::Vocabulary;
 
 pub const GAZETTEER_TSV: &str = include_str!("../../reference-priors/lexicons/gazetteer.tsv");
@@ -24,6 +25,8 @@ pub const COMMON_WORDS_TXT: &str = include_str!("../../reference-priors/lexicons
 pub const LIFE_STAGES_TOML: &str = include_str!("../../reference-priors/lexicons/life-stages.toml");
 pub const VOCABULARY_TOML: &str = include_str!("../../reference-priors/lexicons/vocabulary.toml");
 pub const PLACE_CUES_TOML: &str = include_str!("../../reference-priors/lexicons/place-cues.toml");
+pub const RECORD_KINDS_TOML: &str =
+    include_str!("../../reference-priors/lexicons/record-kinds.toml");
 
 /// One parsed lexicon, shared while anyone holds it or until [`release`].
 struct Shared<T>(Mutex<Option<Arc<T>>>);
@@ -48,6 +51,7 @@ static GAZETTEER: Shared<Gazetteer> = Shared::new();
 static LIFE_STAGES: Shared<LifeStages> = Shared::new();
 static VOCABULARY: Shared<Vocabulary> = Shared::new();
 static PLACE_CUES: Shared<PlaceCues> = Shared::new();
+static RECORD_KINDS: Shared<RecordKinds> = Shared::new();
 
 /// Let go of the shared parsed lexicons. Whoever still holds one keeps it; the next
 /// use parses again. For a command that reads one archive, once its evidence is
@@ -57,6 +61,7 @@ pub fn release() {
     LIFE_STAGES.release();
     VOCABULARY.release();
     PLACE_CUES.release();
+    RECORD_KINDS.release();
 }
 
 /// The bundled gazetteer (GeoNames, CC BY 4.0).
@@ -104,6 +109,14 @@ pub fn place_cues() -> Arc<PlaceCues> {
     })
 }
 
+/// The bundled words for record kinds (the mapping drafter's).
+pub fn record_kinds() -> Arc<RecordKinds> {
+    RECORD_KINDS.get_or(|| {
+        RecordKinds::parse(RECORD_KINDS_TOML, "record-kinds.toml (bundled)")
+            .expect("the bundled record-kind words parse")
+    })
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -129,6 +142,7 @@ mod tests {
         LifeStages::parse(LIFE_STAGES_TOML, "l").unwrap();
         Vocabulary::parse(VOCABULARY_TOML, "v").unwrap();
         PlaceCues::parse(PLACE_CUES_TOML, "p").unwrap();
+        RecordKinds::parse(RECORD_KINDS_TOML, "k").unwrap();
     }
 
     /// The keys build.rs worked out are the ones the library's own name key gives,

@@ -1,162 +1,54 @@
 //! Guessing what a record set is and which fields hold what. The kind comes from
 //! generic words for likes, groups, follows, events, friends and the person's own
-//! profile, in several languages, found in the file and folder names, the keys on the
-//! way to the records, a section's type and the field names (no file name of any real
-//! platform is known here), and from the values: fields whose values are the priors'
-//! attribute values make a list of people (friends) or, in a single object, the
-//! person's own statement. Within a set, the date is the field that reads as dates, the
+//! profile, in the languages of reference-priors/lexicons/record-kinds.toml, found in
+//! the file and folder names, the keys on the way to the records, a section's type,
+//! the field names and the values of a field that says what each record is (`"kind":
+//! "page"`; no file name of any real platform is known here), and from the values:
+//! fields whose values are the priors' attribute values make a list of people
+//! (friends) or, in a single object, the person's own statement. Within a set, the date is the field that reads as dates, the
 //! id the unique compact field, the name the text field that is present, varied and
 //! has spaces, the category a text field with few distinct values.
 
 use super::inspect::{FieldProfile, RecordSet};
 use crate::footprint::ItemKind;
-use crate::lexicon::tokens;
+use crate::lexicon::{RecordKind, bundled_record_kinds, tokens};
 use crate::mapping::SourceKind;
 use crate::priors::Priors;
 use crate::text::name_key;
 
-/// Word stems per kind, in several languages (folded as name keys are before
-/// matching; see [`stem_matches`]). Translations from memory.
-const KIND_WORDS: &[(SourceKind, &[&str])] = &[
-    (
-        SourceKind::Item(ItemKind::Like),
-        &[
-            "like",
-            "liked",
-            "favo",
-            "gusta",
-            "aime",
-            "gefall",
-            "curtid",
-            "piace",
-            "polubi",
-            "begen",
-            "нрав",
-            "лайк",
-            "いいね",
-            "赞",
-            "讚",
-            "좋아요",
-        ],
-    ),
-    (
-        SourceKind::Item(ItemKind::Group),
-        &[
-            "group",
-            "grupo",
-            "groupe",
-            "gruppe",
-            "gruppi",
-            "gruppo",
-            "grupa",
-            "grupy",
-            "grup",
-            "групп",
-            "сообществ",
-            "グループ",
-            "群组",
-            "群組",
-            "그룹",
-            "communit",
-            "comunidad",
-            "communaut",
-            "comunit",
-            "gemeinschaft",
-            "membership",
-            "club",
-            "forum",
-        ],
-    ),
-    (
-        SourceKind::Item(ItemKind::Follow),
-        &[
-            "follow",
-            "subscri",
-            "abonn",
-            "seguid",
-            "seguind",
-            "sigue",
-            "suivi",
-            "folg",
-            "obserwow",
-            "подписк",
-            "フォロー",
-            "关注",
-            "關注",
-            "팔로",
-            "takip",
-        ],
-    ),
-    (
-        SourceKind::Item(ItemKind::Event),
-        &[
-            "event",
-            "evento",
-            "evenement",
-            "veranstalt",
-            "wydarzen",
-            "etkinlik",
-            "мероприят",
-            "событи",
-            "イベント",
-            "活动",
-            "活動",
-            "이벤트",
-            "rsvp",
-            "attend",
-        ],
-    ),
-    (
-        SourceKind::Friend,
-        &[
-            "friend",
-            "connection",
-            "contact",
-            "people",
-            "person",
-            "amigo",
-            "amis",
-            "amie",
-            "freund",
-            "amici",
-            "znajom",
-            "przyjaci",
-            "arkadas",
-            "друз",
-            "友達",
-            "友人",
-            "好友",
-            "朋友",
-            "친구",
-        ],
-    ),
-    (
-        SourceKind::SelfDeclared,
-        &[
-            "about", "profile", "account", "declared", "self", "perfil", "profil", "sobre",
-            "propos", "себе",
-        ],
-    ),
-];
+/// The drafter's kind for a kind the word lists name.
+fn source_kind(k: RecordKind) -> SourceKind {
+    match k {
+        RecordKind::Like => SourceKind::Item(ItemKind::Like),
+        RecordKind::Group => SourceKind::Item(ItemKind::Group),
+        RecordKind::Follow => SourceKind::Item(ItemKind::Follow),
+        RecordKind::Event => SourceKind::Item(ItemKind::Event),
+        RecordKind::Friend => SourceKind::Friend,
+        RecordKind::Profile => SourceKind::SelfDeclared,
+    }
+}
 
-/// Words that look like a kind's but mean something else: people who follow the
-/// person are not the person's follows.
-const NOT_FOLLOWS: &[&str] = &["follower", "abonnent", "seguidor", "подписчик"];
+/// A field says what each record is when its name is a word for "kind" or "type" and
+/// it holds at most this many different values.
+const TYPE_FIELD_VALUES: usize = 4;
 
 /// Where the kind's words were seen, and how much each place counts.
-#[derive(Debug, Clone, Copy)]
+#[derive(Debug, Clone, Copy, PartialEq)]
 enum Place {
     FileName,
     Folder,
     RecordKey,
     Section,
     FieldName,
+    /// The values of a field that says what each record is (`"kind": "page"`).
+    FieldValue,
 }
 
 impl Place {
     fn weight(self) -> f64 {
         match self {
             Place::Section => 6.0,
+            Place::FieldValue => 4.0,
             Place::FileName | Place::RecordKey => 3.0,
             Place::Folder | Place::FieldName => 1.0,
         }
@@ -169,6 +61,7 @@ impl Place {
             Place::RecordKey => "the key holding the records",
             Place::Section => "the section type",
             Place::FieldName => "a field name",
+            Place::FieldValue => "the records' own kind field",
         }
     }
 }
@@ -243,13 +136,16 @@ pub fn attribute_fields(set: &RecordSet, priors: &Priors) -> Vec<(usize, String,
 
 /// Guess the kind of a record set.
 pub fn guess_kind(set: &RecordSet, attribute_fields: usize) -> KindGuess {
-    let mut seen: Vec<(String, Place)> = Vec::new();
+    let words = bundled_record_kinds();
+    // Each name is read whole (so phrases of several words are found), with its
+    // place and how much of the set it speaks for (1 but for field values).
+    let mut seen: Vec<(Vec<String>, Place, f64)> = Vec::new();
     let parts: Vec<&str> = set.file.split('/').collect();
     if let Some((name, folders)) = parts.split_last() {
         let stem = name.rsplit_once('.').map(|(s, _)| s).unwrap_or(name);
-        seen.extend(words_of(stem).into_iter().map(|w| (w, Place::FileName)));
+        seen.push((words_of(stem), Place::FileName, 1.0));
         for f in folders {
-            seen.extend(words_of(f).into_iter().map(|w| (w, Place::Folder)));
+            seen.push((words_of(f), Place::Folder, 1.0));
         }
     }
     let section = set.section().map(str::to_string);
@@ -259,29 +155,37 @@ pub fn guess_kind(set: &RecordSet, attribute_fields: usize) -> KindGuess {
         } else {
             Place::RecordKey
         };
-        seen.extend(words_of(&w).into_iter().map(|x| (x, place)));
+        seen.push((words_of(&w), place, 1.0));
     }
     for f in &set.fields {
         for k in &f.keys {
-            seen.extend(words_of(k).into_iter().map(|w| (w, Place::FieldName)));
+            seen.push((words_of(k), Place::FieldName, 1.0));
+        }
+        // The values of a "kind" or "type" field with few values: each speaks for
+        // the share of records that hold it.
+        let typed = f
+            .keys
+            .last()
+            .is_some_and(|k| words.is_type_field(&words_of(k)));
+        if typed && !f.overflow && f.distinct() <= TYPE_FIELD_VALUES && f.present > 0 {
+            for (value, n) in &f.values {
+                let share = *n as f64 / set.profiled.max(f.present) as f64;
+                seen.push((words_of(value), Place::FieldValue, share));
+            }
         }
     }
 
-    let mut scores: Vec<(SourceKind, f64, Vec<String>)> = KIND_WORDS
+    let mut scores: Vec<(SourceKind, f64, Vec<String>)> = RecordKind::ALL
         .iter()
-        .filter(|(k, _)| (*k == SourceKind::SelfDeclared) == set.single)
-        .map(|(k, _)| (*k, 0.0, Vec::new()))
+        .map(|&k| source_kind(k))
+        .filter(|k| (*k == SourceKind::SelfDeclared) == set.single)
+        .map(|k| (k, 0.0, Vec::new()))
         .collect();
-    for (word, place) in &seen {
-        if NOT_FOLLOWS.iter().any(|n| word.starts_with(n)) {
-            continue;
-        }
-        for (kind, stems) in KIND_WORDS {
-            if !stems.iter().any(|s| stem_matches(word, s)) {
-                continue;
-            }
-            if let Some(slot) = scores.iter_mut().find(|(k, _, _)| k == kind) {
-                slot.1 += place.weight();
+    for (name, place, share) in &seen {
+        for (kind, word) in words.kinds_in(name, *place == Place::FieldValue) {
+            let kind = source_kind(kind);
+            if let Some(slot) = scores.iter_mut().find(|(k, _, _)| *k == kind) {
+                slot.1 += place.weight() * share;
                 let why = format!("'{word}' in {}", place.describe());
                 if !slot.2.contains(&why) {
                     slot.2.push(why);
