@@ -367,5 +367,44 @@ fn eval_reports_the_best_possible_alike_in_text_and_html() {
         assert_eq!(row[3], format!("{ratio:.3}"));
         let ece = a.bayes_optimal_ece.expect("its ECE");
         assert_eq!(row[4], format!("{ece:.3}"));
+        // ECE per evidence mix: every held-out member with evidence about the
+        // attribute is guessed once, in one mix, and the text and HTML show the JSON's
+        // figures for each.
+        let guessed: usize = a.by_mix.iter().map(|m| m.members).sum();
+        assert!(
+            guessed <= a.members && guessed * 10 >= a.members * 9,
+            "{}: {guessed} of {} members in the mixes",
+            a.id,
+            a.members
+        );
+        assert!(a.by_mix.iter().any(|m| m.mix == "table only"), "{}", a.id);
+        for m in &a.by_mix {
+            assert!((0.0..=1.0).contains(&m.ece) && (0.0..=1.0).contains(&m.accuracy));
+            let (n, acc, ece) = (
+                m.members.to_string(),
+                format!("{:.1}%", 100.0 * m.accuracy),
+                format!("{:.3}", m.ece),
+            );
+            assert!(
+                text.lines().any(|l| {
+                    l.contains(&a.label)
+                        && l.contains(&m.mix)
+                        && l.split_whitespace().rev().take(3).collect::<Vec<_>>()
+                            == [ece.as_str(), acc.as_str(), n.as_str()]
+                }),
+                "{}: {} not in the text:\n{text}",
+                a.id,
+                m.mix
+            );
+            assert!(
+                html.contains(&format!(
+                    "<td>{}</td><td class=n>{n}</td><td class=n>{acc}</td><td class=n>{ece}</td>",
+                    m.mix
+                )),
+                "{}: {} not in the HTML",
+                a.id,
+                m.mix
+            );
+        }
     }
 }

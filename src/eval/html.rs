@@ -4,7 +4,7 @@ use std::io::{self, Write};
 
 use super::report::EvalReport;
 use super::svg::{self, escape};
-use super::text::{BEST_HEADS, best_possible, summary};
+use super::text::{BEST_HEADS, MIX_HEADS, best_possible, by_mix, summary};
 use crate::reading::percent;
 
 pub fn write_html(r: &EvalReport, out: &mut dyn Write) -> io::Result<()> {
@@ -50,6 +50,26 @@ pub fn write_html(r: &EvalReport, out: &mut dyn Write) -> io::Result<()> {
                 out,
                 "<tr><td>{}</td><td class=n>{acc}</td><td class=n>{best}</td><td class=n>{ratio}</td><td class=n>{ece}</td></tr>",
                 escape(&label)
+            )?;
+        }
+        writeln!(out, "</table>")?;
+    }
+    if let Some((sentence, rows)) = by_mix(r) {
+        writeln!(
+            out,
+            "<h2>By evidence mix</h2><p>{}</p><table><tr>",
+            escape(&sentence)
+        )?;
+        for h in MIX_HEADS {
+            write!(out, "<th>{h}</th>")?;
+        }
+        writeln!(out, "</tr>")?;
+        for [label, mix, n, acc, ece] in rows {
+            writeln!(
+                out,
+                "<tr><td>{}</td><td>{}</td><td class=n>{n}</td><td class=n>{acc}</td><td class=n>{ece}</td></tr>",
+                escape(&label),
+                escape(&mix)
             )?;
         }
         writeln!(out, "</table>")?;

@@ -5,7 +5,7 @@ use std::io::{self, Write};
 
 use super::report::EvalReport;
 use super::svg;
-use super::text::{BEST_HEADS, best_possible, summary};
+use super::text::{BEST_HEADS, MIX_HEADS, best_possible, by_mix, summary};
 use crate::reading::percent;
 
 pub fn write_markdown(r: &EvalReport, out: &mut dyn Write) -> io::Result<()> {
@@ -37,6 +37,14 @@ pub fn write_markdown(r: &EvalReport, out: &mut dyn Write) -> io::Result<()> {
         writeln!(out, "\n## Against the best possible\n\n{sentence}\n")?;
         writeln!(out, "| {} |", BEST_HEADS.join(" | "))?;
         writeln!(out, "|---|---:|---:|---:|---:|")?;
+        for row in rows {
+            writeln!(out, "| {} |", row.join(" | "))?;
+        }
+    }
+    if let Some((sentence, rows)) = by_mix(r) {
+        writeln!(out, "\n## By evidence mix\n\n{sentence}\n")?;
+        writeln!(out, "| {} |", MIX_HEADS.join(" | "))?;
+        writeln!(out, "|---|---|---:|---:|---:|")?;
         for row in rows {
             writeln!(out, "| {} |", row.join(" | "))?;
         }

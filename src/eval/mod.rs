@@ -15,6 +15,8 @@ mod text;
 
 pub use html::write_html;
 pub use markdown::write_markdown;
-pub use report::{AttrEval, BestGuess, Bin, EVAL_FORMAT, EvalReport, ShareRow, write_json};
-pub use run::{EvalParams, evaluate, evaluate_against, parse_shares, reliability};
+pub use report::{
+    AttrEval, BestGuess, Bin, EVAL_FORMAT, EvalReport, MixEval, ShareRow, write_json,
+};
+pub use run::{EvalParams, MIXES, evaluate, evaluate_against, parse_shares, reliability};
 pub use text::write_text;

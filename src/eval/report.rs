@@ -57,6 +57,23 @@ pub struct AttrEval {
     /// `accuracy / bayes_optimal`: 1 means the observer model is as good as possible.
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub ratio_to_best: Option<f64>,
+    /// The same held-out members guessed the way a scan guesses (every source but
+    /// friends on their matched items, combined as a scan combines them), split by
+    /// the evidence the guess rested on; mixes with no member are left out.
+    #[serde(default)]
+    pub by_mix: Vec<MixEval>,
+}
+
+/// Accuracy and calibration of the guesses that rested on one mix of evidence.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct MixEval {
+    /// "table only", "table and word lists" or "word lists only".
+    pub mix: String,
+    /// Held-out members whose guess rested on it.
+    pub members: usize,
+    pub accuracy: f64,
+    /// Expected calibration error of the best guess (10 bins).
+    pub ece: f64,
 }
 
 /// Accuracy at one public share.

@@ -10,7 +10,7 @@ use rand::seq::SliceRandom;
 use rand::seq::index::sample;
 use rand_chacha::ChaCha8Rng;
 
-use super::report::{AttrEval, BestGuess, Bin, EVAL_FORMAT, EvalReport, ShareRow};
+use super::report::{AttrEval, BestGuess, Bin, EVAL_FORMAT, EvalReport, MixEval, ShareRow};
 use crate::cohort::fit::{ECE_BINS, fit_all, pseudo_members};
 use crate::cohort::privacy::{Budget, DEFAULT_PEOPLE_SHARE};
 use crate::cohort::{
@@ -45,6 +45,8 @@ struct Trained {
     naive: Vec<AttrModel>,
     temperature: Vec<AttrModel>,
     majority: Vec<usize>,
+    /// The fold's priors file as read back (for the scan's own path, [`guess_mixes`]).
+    priors: Priors,
 }
 
 fn train(
@@ -127,6 +129,7 @@ fn train(
             .iter()
             .map(|a| argmax(&a.base_rates).0)
             .collect(),
+        priors,
     })
 }
 
@@ -146,11 +149,24 @@ fn with_lambda(priors: &Priors, lambda: impl Fn(&Calibration) -> f64) -> Vec<Att
 /// Log-likelihood ratios of every candidate item under `priors`, through the library's
 /// evidence path (the candidates as a footprint, matched like any archive's items).
 fn item_lrs(schema: &Schema, priors: &Priors) -> Vec<Vec<Option<Vec<f64>>>> {
-    let footprint = Footprint {
-        items: schema
-            .priors
-            .items()
-            .enumerate()
+    let footprint = candidates_footprint(schema, (0..schema.n_items() as u32).collect());
+    let set = evidence::gather(&footprint, priors, &evidence::Sources::table_only());
+    let mut out = vec![vec![None; priors.attributes.len()]; schema.n_items()];
+    for e in set.list {
+        if let Subject::Item(i) = e.subject() {
+            out[i][e.attribute()] = Some(e.log_lr().to_vec());
+        }
+    }
+    out
+}
+
+/// Some of the schema's candidate items as a footprint, matched like any archive's.
+fn candidates_footprint(schema: &Schema, which: Vec<u32>) -> Footprint {
+    let all: Vec<_> = schema.priors.items().collect();
+    Footprint {
+        items: which
+            .into_iter()
+            .filter_map(|i| all.get(i as usize).map(|it| (i as usize, it)))
             .map(|(i, it)| Item {
                 kind: it.kind().unwrap_or(ItemKind::Like),
                 name: it.name().into(),
@@ -164,15 +180,51 @@ fn item_lrs(schema: &Schema, priors: &Priors) -> Vec<Vec<Option<Vec<f64>>>> {
             })
             .collect(),
         ..Footprint::default()
-    };
-    let set = evidence::gather(&footprint, priors, &evidence::Sources::table_only());
-    let mut out = vec![vec![None; priors.attributes.len()]; schema.n_items()];
-    for e in set.list {
-        if let Subject::Item(i) = e.subject() {
-            out[i][e.attribute()] = Some(e.log_lr().to_vec());
+    }
+}
+
+/// What evidence a guess rested on: the reference table alone, the table and word
+/// lists, or word lists alone.
+pub const MIXES: [&str; 3] = ["table only", "table and word lists", "word lists only"];
+
+/// Per attribute and mix (in [`MIXES`] order): (confidence, correct) of the guesses
+/// made the way a scan makes them — every source but friends on the member's matched
+/// items, combined by [`crate::infer::Exposure`] (source weights, cause groups, the
+/// rules-of-thumb ceiling) — for the held-out members.
+type MixPreds = Vec<[Vec<(f64, bool)>; 3]>;
+
+fn guess_mixes(schema: &Schema, t: &Trained, members: &[Member], out: &mut MixPreds) {
+    let mut sources = evidence::Sources::all();
+    sources.friends = false;
+    // The cohort keeps no join dates; ages are read as of the demo network's "now".
+    sources.reference_time = Some(crate::synth::personas::demo_now());
+    for m in members {
+        let footprint = candidates_footprint(schema, m.items.clone());
+        let set = evidence::gather(&footprint, &t.priors, &sources);
+        let mut feeds = vec![(false, false); t.priors.attributes.len()];
+        for e in &set.list {
+            let f = &mut feeds[e.attribute()];
+            match e.origin {
+                evidence::Origin::Table { .. } => f.0 = true,
+                evidence::Origin::Lexicon(_) => f.1 = true,
+                _ => {}
+            }
+        }
+        let exposure = crate::infer::Exposure::new(&t.priors, set);
+        for (a, preds) in out.iter_mut().enumerate() {
+            let Some(truth) = m.values.get(a).copied().flatten() else {
+                continue;
+            };
+            let mix = match feeds[a] {
+                (true, false) => 0,
+                (true, true) => 1,
+                (false, true) => 2,
+                (false, false) => continue,
+            };
+            let post = exposure.posterior(a);
+            preds[mix].push((post.probability, post.best == truth));
         }
     }
-    out
 }
 
 /// Per attribute: (confidence, correct) for naive, temperature, calibrated, and
@@ -283,6 +335,7 @@ pub fn evaluate_against(
     order.shuffle(&mut rng);
     let n_attr = schema.n_attributes();
     let mut pooled = vec![Pooled::default(); n_attr];
+    let mut mixes: MixPreds = vec![Default::default(); n_attr];
     let mut share_hits = vec![vec![(0usize, 0usize); n_attr]; params.shares.len()];
     // Per attribute: the best possible guess's hits and the members it was asked about.
     let mut best_hits = vec![(0usize, 0usize); n_attr];
@@ -301,6 +354,7 @@ pub fn evaluate_against(
         }
         let trained = train(schema, &train_m, params, &mut rng)?;
         guess(&trained, &test_m, &mut pooled);
+        guess_mixes(schema, &trained, &test_m, &mut mixes);
         if let Some(b) = best.filter(|_| best_ok) {
             for m in &test_m {
                 let Some(post) = b.posteriors(&m.items).filter(|p| p.len() == n_attr) else {
@@ -341,7 +395,8 @@ pub fn evaluate_against(
         .iter()
         .zip(&pooled)
         .zip(best_hits.iter().zip(&best_preds))
-        .map(|((a, p), (&(hits, asked), best_p))| {
+        .zip(&mixes)
+        .map(|(((a, p), (&(hits, asked), best_p)), mix)| {
             let accuracy = accuracy(&p.calibrated);
             let bayes_optimal = (best_ok && asked > 0).then(|| hits as f64 / asked as f64);
             AttrEval {
@@ -362,6 +417,17 @@ pub fn evaluate_against(
                 bayes_optimal_ece: bayes_optimal
                     .map(|_| expected_calibration_error(best_p, ECE_BINS)),
                 ratio_to_best: bayes_optimal.filter(|&b| b > 0.0).map(|b| accuracy / b),
+                by_mix: MIXES
+                    .iter()
+                    .zip(mix)
+                    .filter(|(_, preds)| !preds.is_empty())
+                    .map(|(name, preds)| MixEval {
+                        mix: (*name).to_string(),
+                        members: preds.len(),
+                        accuracy: self::accuracy(preds),
+                        ece: expected_calibration_error(preds, ECE_BINS),
+                    })
+                    .collect(),
             }
         })
         .collect();
