@@ -327,6 +327,43 @@ fn scan(p: &Persona, root: &Path) -> (Scan, Guesses) {
         .collect();
     assert!(warnings.is_empty(), "{}: {warnings:?}", p.slug);
     assert_eq!(s.footprint.items.len(), p.items.len(), "{}", p.slug);
+    // The levels agree: the regions of a country add up to no more than the country,
+    // the towns of a region to no more than the region (the law of total
+    // probability: a town lies in its region and its country).
+    let nested = &s.exposure.evidence().nested;
+    assert_eq!(nested.len(), 3, "{}: country > region > town", p.slug);
+    for n in nested {
+        let (fine, coarse) = (
+            s.exposure.posterior(n.child),
+            s.exposure.posterior(n.parent),
+        );
+        let mut sums = vec![0.0; coarse.probs.len()];
+        for (q, u) in fine.probs.iter().zip(&n.parent_of) {
+            if let Some(u) = u {
+                sums[*u] += q;
+            }
+        }
+        for (u, (sum, cap)) in sums.iter().zip(&coarse.probs).enumerate() {
+            assert!(
+                sum <= &(cap + 1e-9),
+                "{}: {} values inside {} value {u} add up to {sum}, over its {cap}",
+                p.slug,
+                priors.attributes[n.child].id,
+                priors.attributes[n.parent].id
+            );
+        }
+    }
+    let ids: Vec<&str> = priors.attributes.iter().map(|a| a.id.as_str()).collect();
+    let at = ids
+        .iter()
+        .position(|&i| i == "home_country")
+        .expect("country level");
+    assert_eq!(
+        &ids[at..at + 3],
+        ["home_country", "home_region", "home_town"],
+        "{}: the levels sit together",
+        p.slug
+    );
     let mut by_attr = BTreeMap::new();
     for (a, attr) in priors.attributes.iter().enumerate() {
         let post = s.exposure.posterior(a);
