@@ -359,10 +359,26 @@ impl Exposure {
             .collect()
     }
 
-    /// The observer's current belief about attribute `a`.
+    /// The observer's current belief about attribute `a`. A value that lies inside a
+    /// value of a coarser attribute (a region inside its country) never reads likelier
+    /// than it ([`nest`]).
     pub fn posterior(&self, a: usize) -> Posterior {
         let t = &self.tallies[a];
-        self.models[a].posterior_combined(&t.weighted, t.rests_on_rules())
+        let p = self.models[a].posterior_combined(&t.weighted, t.rests_on_rules());
+        self.nest(a, p, &|b| self.posterior(b))
+    }
+
+    /// Hold attribute `a`'s values under the coarser values they lie in, given how to
+    /// get a coarser attribute's posterior in the same state.
+    fn nest(&self, a: usize, mut p: Posterior, coarser: &dyn Fn(usize) -> Posterior) -> Posterior {
+        let mut changed = false;
+        for n in self.evidence.nested.iter().filter(|n| n.child == a) {
+            changed |= nest(&mut p.probs, &coarser(n.parent).probs, n);
+        }
+        if changed {
+            (p.best, p.probability) = argmax(&p.probs);
+        }
+        p
     }
 
     /// Summed log-likelihood ratios of the visible evidence for attribute `a`, without
@@ -447,7 +463,8 @@ impl Exposure {
                 *x += new.term(w, v) - old.term(w, v);
             }
         }
-        self.models[a].posterior_combined(&weighted, data == 0 && rules > 0)
+        let p = self.models[a].posterior_combined(&weighted, data == 0 && rules > 0);
+        self.nest(a, p, &|b| self.posterior_toggled(b, subject))
     }
 
     /// Every visible subject's contribution to attribute `a`, largest push toward the
@@ -513,3 +530,39 @@ fn unslot(i: usize, n_items: usize) -> Subject {
 
 #[cfg(test)]
 mod tests;
+
+/// Hold a finer attribute's probabilities (`probs`) under the coarser values they lie
+/// in (`coarser`): where the values inside one coarser value add up to more than it,
+/// they are scaled down to it, and what is taken goes to the finer attribute's
+/// remainder ("somewhere else"). So "Oregon" never reads likelier than "United
+/// States": a region's posterior is at most its country's (the law of total
+/// probability; the levels are fitted separately and need not agree by themselves).
+/// Scaling only ever lowers a finer value, never raises it. Returns whether anything
+/// moved.
+pub fn nest(probs: &mut [f64], coarser: &[f64], n: &crate::evidence::Nesting) -> bool {
+    let mut sums = vec![0.0; coarser.len()];
+    for (p, u) in probs.iter().zip(&n.parent_of) {
+        if let Some(u) = u
+            && let Some(s) = sums.get_mut(*u)
+        {
+            *s += p;
+        }
+    }
+    let mut moved = 0.0;
+    for (p, u) in probs.iter_mut().zip(&n.parent_of) {
+        let Some(u) = *u else { continue };
+        let (s, cap) = (
+            sums.get(u).copied().unwrap_or(0.0),
+            coarser.get(u).copied().unwrap_or(1.0),
+        );
+        if s > cap && s > 0.0 {
+            let q = *p * cap / s;
+            moved += *p - q;
+            *p = q;
+        }
+    }
+    if let Some(r) = probs.get_mut(n.remainder) {
+        *r += moved;
+    }
+    moved > 0.0
+}

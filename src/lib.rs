@@ -38,4 +38,5 @@ pub mod scan;
 pub mod stats;
 pub mod synth;
 pub mod text;
+pub mod unknown_values;
 pub mod whatif;

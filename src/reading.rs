@@ -333,7 +333,8 @@ pub fn rules_of_thumb_note() -> String {
 }
 
 /// An attribute's sentence, with [`rules_of_thumb_note`] when only rules of thumb
-/// support the guess.
+/// support the guess (callers leave it off when the guess is "somewhere else", which
+/// names no place and is not held under the ceiling).
 pub fn with_footing(sentence: String, rests_on_rules: bool) -> String {
     if rests_on_rules {
         format!("{sentence} {}", rules_of_thumb_note())

@@ -140,15 +140,19 @@ impl Scan {
         sources: &evidence::Sources,
     ) -> Scan {
         priors.restore_file_attributes();
-        check_attribute_names(&mut footprint, priors, &mapping_origin);
+        let gazetteer = sources.places.as_ref().map(evidence::Lexicon::get);
+        crate::unknown_values::check_attribute_names(
+            &mut footprint,
+            priors,
+            &mapping_origin,
+            gazetteer.as_deref(),
+        );
+        if let Some(g) = &gazetteer {
+            crate::unknown_values::check_location_values(&mut footprint, priors, g);
+        }
         crate::resident::trim();
         let mut evidence = evidence::gather(&footprint, priors, sources);
-        if let Some(gazetteer) = sources
-            .places
-            .as_ref()
-            .filter(|_| sources.home_levels)
-            .map(evidence::Lexicon::get)
-        {
+        if let Some(gazetteer) = gazetteer.filter(|_| sources.home_levels) {
             let cues = crate::lexicon::bundled_place_cues();
             evidence = evidence::fit_home_levels(priors, evidence, &gazetteer, &cues);
         }
@@ -185,56 +189,5 @@ impl Scan {
         let head = self.report_with(priors, report::RowCount::Nothing);
         let rows = report::Rows::new(&self.footprint, priors, &self.exposure);
         report::write_json_streamed(&head, &rows, out)
-    }
-}
-
-/// Attribute ids and values the mapping produced (declared values, friends' public
-/// attributes) that the priors do not know are reported once each, not silently dropped.
-fn check_attribute_names(footprint: &mut Footprint, priors: &Priors, mapping_origin: &str) {
-    use std::collections::BTreeSet;
-    let mut unknown_attr = BTreeSet::new();
-    let mut unknown_value = BTreeSet::new();
-    let pairs = footprint
-        .declared
-        .iter()
-        .chain(footprint.friends.iter().flat_map(|f| f.attributes.iter()));
-    for (attr, value) in pairs {
-        match priors.attribute(attr) {
-            None => {
-                unknown_attr.insert(attr.clone());
-            }
-            Some((_, a)) if a.value_index(value).is_none() => {
-                unknown_value.insert((attr.clone(), value.clone()));
-            }
-            Some(_) => {}
-        }
-    }
-    let known: Vec<&str> = priors.attributes.iter().map(|a| a.id.as_str()).collect();
-    for attr in unknown_attr {
-        footprint.warnings.push(
-            crate::footprint::Warning::new(format!(
-                "the mapping names attribute '{attr}', which the priors do not have (they have {}); its values are ignored",
-                known.join(", ")
-            ))
-            .in_file(mapping_origin),
-        );
-    }
-    let shown = unknown_value.len().min(5);
-    for (attr, value) in unknown_value.iter().take(shown) {
-        footprint.warnings.push(crate::footprint::Warning::new(format!(
-            "'{value}' is not a value of {attr} in the priors (use a value id or label); ignored"
-        )));
-    }
-    if unknown_value.len() > shown {
-        footprint
-            .warnings
-            .push(crate::footprint::Warning::new(format!(
-                "{} more ignored",
-                crate::reading::count(
-                    unknown_value.len() - shown,
-                    "unknown attribute value",
-                    "unknown attribute values"
-                )
-            )));
     }
 }

@@ -220,3 +220,92 @@ fn not_an_archive_and_damaged_zip_are_named() {
         "{err}"
     );
 }
+
+/// A friends file naming a home in a country the priors' location values do not
+/// cover, and a priors file whose location values include codes no gazetteer knows:
+/// each gets one message naming its file (and the friends file's row) and the value,
+/// a real place named as a place in its country (GeoNames, through the bundled
+/// gazetteer: Lagos is in Nigeria), and nothing is lost: the scan goes on, the friends
+/// keep their values, the other location values still count.
+#[test]
+fn places_the_priors_do_not_cover_are_named_with_their_file() {
+    use telltale::scan::{Scan, ScanInput, load_priors};
+    let tmp = tempfile::tempdir().expect("tmp");
+    let root = std::path::PathBuf::from(env!("CARGO_MANIFEST_DIR"));
+    let friends = tmp.path().join("my-friends.csv");
+    std::fs::write(
+        &friends,
+        "name,location\nAda Quill,Lagos\nBo Reyes,Oregon\nCy New,Lemuria\nDee Fox,Lagos\n",
+    )
+    .expect("write");
+    // Priors whose first two location values are no place: one code of no country,
+    // one name of no place.
+    let text = std::fs::read_to_string(root.join("reference-priors/demo-priors.json"))
+        .expect("bundled priors");
+    let mut doc: serde_json::Value = serde_json::from_str(&text).expect("json");
+    let loc = doc["attributes"]
+        .as_array_mut()
+        .expect("attributes")
+        .iter_mut()
+        .find(|a| a["id"] == "location")
+        .expect("location");
+    loc["values"][0]["id"] = "ZZ-QQ".into();
+    loc["values"][0]["label"] = "Nowhere Province".into();
+    loc["values"][1]["id"] = "atlantis".into();
+    loc["values"][1]["label"] = "Atlantis".into();
+    let priors_path = tmp.path().join("odd-priors.json");
+    std::fs::write(&priors_path, doc.to_string()).expect("write");
+    let mut priors = load_priors(Some(&priors_path)).expect("the odd priors still load");
+    let input = ScanInput {
+        archive: root.join("demo-exports/reporter"),
+        friends_file: Some(friends.clone()),
+        ..ScanInput::default()
+    };
+    let scan = Scan::run(&input, &mut priors).expect("the scan goes on");
+    let said: Vec<String> = scan
+        .footprint
+        .warnings
+        .iter()
+        .map(|w| w.to_string())
+        .collect();
+    let lagos = said
+        .iter()
+        .find(|w| w.contains("'Lagos'"))
+        .unwrap_or_else(|| panic!("{said:#?}"));
+    assert!(lagos.contains("my-friends.csv"), "{lagos}");
+    assert!(lagos.contains("record 1"), "{lagos}");
+    assert!(
+        lagos.contains("Nigeria") && lagos.contains("United States"),
+        "{lagos}"
+    );
+    assert!(lagos.contains("2 times"), "{lagos}");
+    let nowhere = said
+        .iter()
+        .find(|w| w.contains("'Lemuria'"))
+        .unwrap_or_else(|| panic!("{said:#?}"));
+    assert!(
+        nowhere.contains("record 3") && !nowhere.contains("a place in"),
+        "{nowhere}"
+    );
+    let codes = said
+        .iter()
+        .find(|w| w.contains("'ZZ-QQ'"))
+        .unwrap_or_else(|| panic!("{said:#?}"));
+    assert!(codes.contains("odd-priors.json"), "{codes}");
+    assert!(
+        codes.contains("'atlantis'") && codes.contains("2 of location's values"),
+        "{codes}"
+    );
+    // Nothing lost: every friend keeps the value the file gave.
+    let lagos_friends = scan
+        .footprint
+        .friends
+        .iter()
+        .filter(|f| f.attributes.get("location").map(String::as_str) == Some("Lagos"))
+        .count();
+    assert_eq!(lagos_friends, 2);
+    assert!(
+        scan.exposure.posterior(1).probability > 0.5,
+        "Oregon still read"
+    );
+}

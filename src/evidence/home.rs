@@ -36,7 +36,7 @@
 use std::collections::HashMap;
 use std::sync::Arc;
 
-use super::model::{Evidence, EvidenceSet, Origin, Subject};
+use super::model::{Evidence, EvidenceSet, Nesting, Origin, Subject};
 use super::places::{LocationValues, NamedPlaces, PlaceCode, location_attributes, normalise};
 use super::sources::SourceKind;
 use crate::lexicon::{Gazetteer, PlaceCues, PlaceRef};
@@ -626,7 +626,133 @@ pub fn fit_home_levels(
         }
     }
     evidence.places = places;
+    evidence.nested = nestings(g, &levels, index_of);
+    let evidence = put_levels_together(&mut attributes, evidence, index_of);
     priors.set_fitted_attributes(attributes);
+    evidence
+}
+
+/// Which values of each level lie inside which of a coarser one: a region in its
+/// country, a town in its region and its country (attribute indices as `index_of`
+/// gives them).
+fn nestings(g: &Gazetteer, levels: &[LevelValues], index_of: [usize; 3]) -> Vec<Nesting> {
+    let keys = |l: &LevelValues| {
+        let mut k: Vec<Option<Key>> = vec![None; l.values.len()];
+        for (key, &v) in &l.by_key {
+            if let Some(slot) = k.get_mut(v) {
+                *slot = Some(*key);
+            }
+        }
+        k
+    };
+    let country = &levels[Level::Country.index()];
+    let region = &levels[Level::Region.index()];
+    let town = &levels[Level::Town.index()];
+    let in_country = |c: u32| country.by_key.get(&Key::Country(c)).copied();
+    let region_keys = keys(region);
+    let town_keys = keys(town);
+    let region_in_country: Vec<Option<usize>> = region_keys
+        .iter()
+        .map(|k| match k {
+            Some(Key::Region(r)) => region_country(g, *r).and_then(in_country),
+            _ => None,
+        })
+        .collect();
+    let town_in = |to_region: bool| -> Vec<Option<usize>> {
+        town_keys
+            .iter()
+            .map(|k| match k {
+                Some(Key::City(t)) => g.city(*t).and_then(|c| {
+                    if to_region {
+                        c.region
+                            .and_then(|r| region.by_key.get(&Key::Region(r)).copied())
+                    } else {
+                        in_country(c.country)
+                    }
+                }),
+                _ => None,
+            })
+            .collect()
+    };
+    let mut out = Vec::new();
+    let (c, r, t) = (
+        index_of[Level::Country.index()],
+        index_of[Level::Region.index()],
+        index_of[Level::Town.index()],
+    );
+    if let Some(rest) = region.elsewhere {
+        out.push(Nesting {
+            child: r,
+            parent: c,
+            parent_of: region_in_country,
+            remainder: rest,
+        });
+    }
+    if let Some(rest) = town.elsewhere {
+        out.push(Nesting {
+            child: t,
+            parent: r,
+            parent_of: town_in(true),
+            remainder: rest,
+        });
+        out.push(Nesting {
+            child: t,
+            parent: c,
+            parent_of: town_in(false),
+            remainder: rest,
+        });
+    }
+    out
+}
+
+/// Put the three levels side by side, country, region, town, where the priors'
+/// location attribute was (or after the file's attributes when there was none), so
+/// every report and screen lists them together; the evidence and the friends'
+/// counts follow their attributes.
+fn put_levels_together(
+    attributes: &mut Vec<Attribute>,
+    mut evidence: EvidenceSet,
+    index_of: [usize; 3],
+) -> EvidenceSet {
+    let first = index_of.iter().copied().min().unwrap_or(attributes.len());
+    let mut order: Vec<usize> = Vec::with_capacity(attributes.len());
+    for i in 0..attributes.len() {
+        if i == first {
+            order.extend(index_of);
+        } else if !index_of.contains(&i) {
+            order.push(i);
+        }
+    }
+    if order.len() != attributes.len() || order.iter().enumerate().all(|(n, &o)| n == o) {
+        return evidence;
+    }
+    let mut new_index = vec![0; attributes.len()];
+    for (n, &o) in order.iter().enumerate() {
+        new_index[o] = n;
+    }
+    let old = std::mem::take(attributes);
+    let mut slots: Vec<Option<Attribute>> = old.into_iter().map(Some).collect();
+    *attributes = order.iter().filter_map(|&o| slots[o].take()).collect();
+    for e in &mut evidence.list {
+        let a = e.attribute();
+        if let Some(&n) = new_index.get(a) {
+            e.move_to_attribute(n);
+        }
+    }
+    for n in &mut evidence.nested {
+        n.child = new_index[n.child];
+        n.parent = new_index[n.parent];
+    }
+    if let Some(stats) = &mut evidence.friends {
+        let permute = |v: &[usize]| -> Vec<usize> {
+            order
+                .iter()
+                .map(|&o| v.get(o).copied().unwrap_or(0))
+                .collect()
+        };
+        stats.known = permute(&stats.known);
+        stats.unreadable = permute(&stats.unreadable);
+    }
     evidence
 }
 

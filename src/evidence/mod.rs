@@ -25,7 +25,7 @@ pub use life_stage::{
     AgeBands, StageTime, age_bands, band_shares, newest_date, parse_age_range, year_of,
 };
 pub use model::{
-    Evidence, EvidenceSet, Figures, FriendStats, LexiconRule, Origin, SpecialFlag, Subject,
+    Evidence, EvidenceSet, Figures, FriendStats, LexiconRule, Nesting, Origin, SpecialFlag, Subject,
 };
 pub use places::{
     LOCALITY_SHARE, LocationValues, NamedPlace, NamedPlaces, PlaceCode, location_attributes,

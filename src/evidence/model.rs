@@ -213,6 +213,12 @@ impl Evidence {
         self.attribute as usize
     }
 
+    /// Point the evidence at another index of the same attribute (when attributes
+    /// are put in another order).
+    pub(crate) fn move_to_attribute(&mut self, attribute: usize) {
+        self.attribute = attribute as u32;
+    }
+
     /// Number of values of the attribute.
     fn n_values(&self) -> usize {
         (self.numbers.len() - 3) / 2
@@ -319,6 +325,24 @@ pub struct EvidenceSet {
     /// name the same places the same way), from the places source: what the home
     /// levels are fitted to ([`crate::evidence::fit_home_levels`]).
     pub places: Vec<(usize, Arc<super::places::NamedPlaces>)>,
+    /// Attributes whose values lie inside another's (a region inside its country, a
+    /// town inside its region and country): no finer value may read likelier than the
+    /// coarser value it lies in ([`crate::infer::Exposure::posterior`]). Set when the
+    /// home levels are fitted.
+    pub nested: Vec<Nesting>,
+}
+
+/// Values of one attribute (`child`) that lie inside values of another (`parent`).
+#[derive(Debug, Clone, Default, PartialEq)]
+pub struct Nesting {
+    pub child: usize,
+    pub parent: usize,
+    /// Per child value, the parent value it lies in (`None`: not known, such as
+    /// "somewhere else").
+    pub parent_of: Vec<Option<usize>>,
+    /// The child's remainder value, which takes the probability taken from values
+    /// read likelier than their parent.
+    pub remainder: usize,
 }
 
 impl EvidenceSet {

@@ -47,9 +47,26 @@ pub enum PlaceCode {
 
 impl PlaceCode {
     fn country(&self) -> &str {
+        self.country_code()
+    }
+
+    /// The ISO 3166-1 alpha-2 code of the country the place lies in.
+    pub fn country_code(&self) -> &str {
         match self {
             PlaceCode::Country(c) => c,
             PlaceCode::Region(r) => r.split('-').next().unwrap_or(r),
+        }
+    }
+
+    /// Does the gazetteer know this code (a region code well formed but unknown,
+    /// such as `US-XX`, is not known)?
+    pub fn known_to(&self, gazetteer: &Gazetteer) -> bool {
+        match self {
+            PlaceCode::Country(c) => gazetteer.country(c).is_some(),
+            PlaceCode::Region(r) => gazetteer
+                .region_codes
+                .iter()
+                .any(|k| k.eq_ignore_ascii_case(r)),
         }
     }
 }

@@ -219,3 +219,29 @@ fn evidence_of_lists_each_subjects_own_evidence_in_order() {
     assert_eq!(seen, x.evidence().list.len());
     assert!(x.evidence_of(Subject::Item(4)).is_empty());
 }
+
+/// A finer level is held under the coarser values it lies in (law of total
+/// probability), worked by hand: regions A and B lie in country X, C in Y, D is
+/// "somewhere else". A and B add up to 0.8 but X has 0.5, so both are scaled by
+/// 0.5/0.8 (A 0.375, B 0.125) and the 0.3 taken goes to D; C (0.1 under Y's 0.5) is
+/// left alone, and the probabilities still add up to 1.
+#[test]
+fn a_region_never_reads_likelier_than_its_country() {
+    let n = crate::evidence::Nesting {
+        child: 1,
+        parent: 0,
+        parent_of: vec![Some(0), Some(0), Some(1), None],
+        remainder: 3,
+    };
+    let mut probs = vec![0.6, 0.2, 0.1, 0.1];
+    assert!(super::nest(&mut probs, &[0.5, 0.5], &n));
+    let want = [0.375, 0.125, 0.1, 0.4];
+    for (p, w) in probs.iter().zip(want) {
+        assert!((p - w).abs() < 1e-15, "{probs:?}");
+    }
+    assert!((probs.iter().sum::<f64>() - 1.0).abs() < 1e-15);
+    // Nothing to do when every country holds its regions.
+    let mut fine = vec![0.3, 0.1, 0.1, 0.5];
+    assert!(!super::nest(&mut fine, &[0.5, 0.5], &n));
+    assert_eq!(fine, vec![0.3, 0.1, 0.1, 0.5]);
+}

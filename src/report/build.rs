@@ -334,7 +334,10 @@ pub fn build_with(
             exposed_value: verdict.flag.map(|f| attr.values[f.value].id.clone()),
             exposed_by_rarity: verdict.flag.is_some_and(|f| f.by_rarity),
             feeding: exposure.feeding(ai),
-            reading: with_footing(verdict.reading, post.rests_on_rules),
+            reading: with_footing(
+                verdict.reading,
+                post.rests_on_rules && attr.remainder() != Some(post.best),
+            ),
             rests_on_rules_of_thumb: post.rests_on_rules,
             special_category: attr.special_category.clone(),
             distribution: attr

@@ -1,6 +1,7 @@
 //! The bundled demo, made in one reproducible run: the catalogue, a counted population,
 //! held-out members for calibration, the priors file, and the persona archives with
-//! their mappings and a manifest of what was written.
+//! their mappings and a manifest of what was written (manifest.json for the network's
+//! members, world-manifest.json for the personas outside the USA).
 
 use std::fs;
 use std::io;
@@ -10,6 +11,7 @@ use rand::SeedableRng;
 use rand_chacha::ChaCha8Rng;
 use serde::Serialize;
 
+use super::abroad::ABROAD;
 use super::calibrate::{Fit, fit};
 use super::catalogue;
 use super::layout_a;
@@ -190,6 +192,17 @@ pub fn generate_demo(
     let mut manifest = serde_json::to_vec_pretty(&manifests).map_err(io::Error::other)?;
     manifest.push(b'\n');
     fs::write(exports_dir.join("manifest.json"), manifest)?;
+    // The personas outside the USA (hand-written, layout C, their mapping inside).
+    let mut abroad = Vec::new();
+    for spec in &ABROAD {
+        let mut sink: Box<dyn ArchiveSink> =
+            Box::new(FolderSink::create(&exports_dir.join(spec.slug))?);
+        abroad.push(super::abroad::write(spec, sink.as_mut())?);
+        sink.finish()?;
+    }
+    let mut manifest = serde_json::to_vec_pretty(&abroad).map_err(io::Error::other)?;
+    manifest.push(b'\n');
+    fs::write(exports_dir.join("world-manifest.json"), manifest)?;
     Ok(DemoOutput {
         fits,
         personas: manifests,

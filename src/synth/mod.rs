@@ -5,6 +5,7 @@
 //! (for benchmarks and workshops) larger archives and cohorts of labelled archives. Nothing here describes
 //! real people or a real platform.
 
+pub mod abroad;
 pub mod calibrate;
 pub mod catalogue;
 pub mod cohort;

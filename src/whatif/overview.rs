@@ -55,7 +55,10 @@ pub fn overview(s: &Session) -> Vec<AttributeSummary> {
             AttributeSummary {
                 attribute: a,
                 label: attr.label.clone(),
-                reading: with_footing(verdict.reading, post.rests_on_rules),
+                reading: with_footing(
+                    verdict.reading,
+                    post.rests_on_rules && attr.remainder() != Some(post.best),
+                ),
                 guess_label: guess,
                 probability: post.probability,
                 base_rate: base,

@@ -90,9 +90,12 @@ fn every_country_is_a_value_with_population_base_rates() {
     assert_eq!(ids, ["US", "NG", "CA", "NO"]);
     // 200 of 545 million.
     assert!((c.base_rates[1] - 200.0 / 545.0).abs() < 1e-12);
-    // The location attribute became the region level, in place, its values first.
+    // The location attribute became the region level, its values first; the three
+    // levels sit together where it was: country, region, town.
     let (ri, r) = level(&priors, HOME_REGION);
-    assert_eq!(ri, 1);
+    assert_eq!(ri, 2);
+    assert_eq!(level(&priors, HOME_COUNTRY).0, 1);
+    assert_eq!(level(&priors, HOME_TOWN).0, 3);
     assert_eq!(r.values[0].id, "US-OR");
     assert_eq!(r.values.last().unwrap().id, ELSEWHERE);
     // Oregon: 0.4 of the priors' mass times the US share of the world.
