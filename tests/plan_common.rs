@@ -18,6 +18,13 @@ pub struct Attr {
     pub levels: Option<Vec<f64>>,
     /// Per item, its log-likelihood ratios.
     pub log_lr: Vec<Vec<f64>>,
+    /// Per item, what its evidence rests on and the cause it shares (empty: every item
+    /// is reference-table evidence from its own reference item): 0 its own reference
+    /// item; 1 or 2 a reference item shared by every item of that kind (a cause
+    /// group); 3 a word-list rule shared by every item of that kind (grouped by the
+    /// value it points to; a rule of thumb); 4 its own reference item, worth less than
+    /// one member (counts as a rule of thumb).
+    pub kinds: Vec<u8>,
 }
 
 pub fn exposure(n: usize, attrs: &[Attr]) -> Exposure {
@@ -31,6 +38,18 @@ pub fn exposure(n: usize, attrs: &[Attr]) -> Exposure {
     let mut set = EvidenceSet::new(n);
     for (ai, a) in attrs.iter().enumerate() {
         for (i, l) in a.log_lr.iter().enumerate() {
+            let kind = a.kinds.get(i).copied().unwrap_or(0);
+            let table = |reference: String| Origin::Table {
+                matched_by: telltale::priors::MatchedBy::Name,
+                reference: reference.into(),
+            };
+            // Reference-table evidence (the temperature λ applies to it), by default
+            // one reference item per archive item, so no two share a cause.
+            let origin = match kind {
+                1 | 2 => table(format!("shared reference {kind}")),
+                3 => Origin::lexicon("a word rule", format!("item {i}")),
+                _ => table(format!("reference {i}")),
+            };
             set.push(Evidence::new(
                 Subject::Item(i),
                 ai,
@@ -39,14 +58,9 @@ pub fn exposure(n: usize, attrs: &[Attr]) -> Exposure {
                     distribution: &a.base,
                     homogeneity: 0.0,
                     info_bits: 0.0,
-                    support: 1.0,
+                    support: if kind == 4 { 0.5 } else { 1.0 },
                 },
-                // Reference-table evidence (the temperature λ applies to it), one
-                // reference item per archive item, so no two share a cause.
-                Origin::Table {
-                    matched_by: telltale::priors::MatchedBy::Name,
-                    reference: format!("reference {i}").into(),
-                },
+                origin,
             ));
         }
     }

@@ -111,9 +111,6 @@ fn cli_plan_writes_versioned_json_and_names_near_matches() {
     // With each rare value at its own, lower level (the rarity rule) the teacher's
     // plan is not always proven smallest within 5 s on a loaded machine: a plan that
     // meets every level is what this test needs.
-    // Also: place names group by shared cause and rules of thumb alone have a ceiling
-    // (docs/model-card.md, "Combining evidence"): the linear bounds are then not a
-    // proof, so a plan that meets every level is "feasible" rather than "optimal".
     assert!(
         v["status"] == "optimal" || v["status"] == "feasible",
         "{}",
@@ -258,8 +255,6 @@ fn a_search_stopped_before_any_plan_names_the_other_method() {
         );
         // A lower bound the search proved (the exact search's root gives one here)
         // is said, not kept back.
-        // (Only where the bounds are proven: place names grouped by shared cause
-        // and the rules-of-thumb ceiling make them heuristics; docs/model-card.md.)
         if method == Method::Exact
             && let Some(lb) = out.lower_bound
         {

@@ -57,6 +57,7 @@ fn optima_equal_highs() {
                 true_value: a.true_value,
                 levels: None,
                 log_lr: a.log_lr.clone(),
+                kinds: Vec::new(),
             })
             .collect();
         let x = exposure(inst.n, &attrs);

@@ -32,10 +32,50 @@
 //!    constraints' own bounds (fact 1 with the split costs) add up. The split follows
 //!    how much each candidate can do for each constraint.
 //!
+//! 6. **Cause groups.** A group of `n` visible pieces with gap contributions `c_p`
+//!    (`c_p = λ·w_g·(l_pu − l_pv)`, summed `C`) adds `s(n)·C` to gap `u`, where
+//!    `s(n) = f(n)/n` is the share ([`crate::combine::share`]). Hiding a set `R` of its
+//!    pieces (`m = n − |R|` left, their sum `T = C − Σ_R c_p`) changes the gap by
+//!
+//!    `Δ = s(m)·T − s(n)·C = −s(n)·Σ_R c_p + (s(m) − s(n))·T`.
+//!
+//!    The first term is linear: each piece at the share it has now. In the second,
+//!    `s` falls with `n` (`d/dn (1 + ln n)/n = −ln n / n² ≤ 0`), so `s(m) − s(n) ≥ 0`
+//!    for `1 ≤ m ≤ n` (with `m = 0`, `T = 0`); and `T` lies between the sums of the `m`
+//!    smallest and the `m` largest `c_p` (`bot_m ≤ T ≤ top_m`). So with
+//!
+//!    `e↑ = max_{1≤r<n} (s(n−r) − s(n))·max(top_{n−r}, 0)/r` and
+//!    `e↓ = max_{1≤r<n} (s(n−r) − s(n))·max(−bot_{n−r}, 0)/r`,
+//!
+//!    `−s(n)·Σ_R c_p − |R|·e↓ ≤ Δ ≤ −s(n)·Σ_R c_p + |R|·e↑` for every `R` (`|R| = r`
+//!    pieces, and the second term is at most `(s(n−r) − s(n))·max(top_{n−r}, 0)`, which is
+//!    at most `r·e↑`). Each grouped piece therefore widens the gap by at most
+//!    `−s(n)·c_p + e↑` and at least `−s(n)·c_p − e↓`; a candidate's bounds are those of
+//!    its pieces added to the exact effect of its pieces that stand alone, and every
+//!    fact above uses them in place of `δ_iu` (upper bounds where the gain is bounded
+//!    from above, lower bounds for the softmax caps of fact 2). Groups are independent
+//!    of each other, so the bounds add. They are worked out at each node from the
+//!    pieces still visible there; the gaps `D_u` are the node's true (combined) gaps.
+//!
+//! 7. **The rules-of-thumb ceiling.** When only rules of thumb stay visible, the best
+//!    guess's odds `o` become `o' = 1/(1/o + 1/O)` (`O` the ceiling's odds; it may then
+//!    be raised to the runner-up's level, and the other values rise in proportion,
+//!    [`crate::combine::cap_top`]). So a value that is not the best guess only gets
+//!    more likely, and the best guess `v` meets `P(v) ≤ τ` only if
+//!    `1/o ≥ (1−τ)/τ − 1/O`, i.e. `F ≥ κ' = ln((1−τ)/τ − 1/O)` (no condition when that
+//!    is not positive). Where a completion of the node can end with only rules of thumb
+//!    visible (no data piece stays visible outside the free candidates, and hiding all
+//!    free data-carrying candidates costs less than the room), the bounds aim for
+//!    `min(κ, κ')` instead of `κ`: necessary in every case. A node violated only
+//!    through the ceiling (its uncapped gap already at that level) cannot say which
+//!    candidates help, so it branches on every free candidate with evidence for the
+//!    attribute, and its bound is the cheapest of them.
+//!
 //! All comparisons leave a small slack in the conservative direction, so rounding can
 //! only weaken a bound, never cut off a plan.
 
-use super::problem::{PAttr, Problem};
+use super::problem::{KEPT, PAttr, Problem};
+use crate::combine::{RULES_OF_THUMB_CEILING, share};
 
 /// Slack on deficits: bounds aim for `κ − SLACK`.
 const SLACK: f64 = 1e-9;
@@ -53,6 +93,8 @@ const MAX_COMBINATIONS: usize = 1024;
 /// The bound's view of a node.
 pub(crate) struct NodeView<'a> {
     pub state: &'a [f64],
+    /// Candidates hidden at the node.
+    pub hidden: &'a [usize],
     /// Candidates not yet decided.
     pub free: &'a [usize],
     /// Only completions costing less than this are of interest (the incumbent's cost
@@ -74,6 +116,11 @@ pub(crate) struct ConstraintBound {
     pub helpers: Vec<(usize, f64)>,
     /// The logit gaps `D_u` (with `D_v` unused).
     pub gaps: Vec<f64>,
+    /// The level the bounds aim for: `κ_v`, or lower where the ceiling may apply
+    /// (fact 7).
+    pub kappa: f64,
+    /// Bounds on what each free candidate can do to the gaps (fact 6).
+    pub widen: Widen,
     /// Fact 4's options: a required widening and its row `(candidate, δ_iu)`; one
     /// option per likely alternative `u`, and one for the rest merged by taking the
     /// largest widening per candidate.
@@ -110,16 +157,171 @@ pub(crate) fn lse_except(x: &[f64], skip: usize) -> f64 {
     m + s.ln()
 }
 
-/// The logit gaps `D_u = z_u − z_v` of a state.
-pub(crate) fn gaps(a: &PAttr, sums: &[f64], v: usize) -> Vec<f64> {
-    let z = a.logits(sums);
+/// The logit gaps `D_u = z_u − z_v` of a state (its combined sums, group shares at
+/// their visible counts).
+pub(crate) fn gaps(a: &PAttr, state: &[f64], v: usize) -> Vec<f64> {
+    let z = a.logits(&a.combined_sums(state));
     z.iter().map(|&zu| zu - z[v]).collect()
 }
 
-/// `δ_iu = λ·(w_iv − w_iu)`: how much hiding candidate `i` widens gap `u`.
-fn delta(a: &PAttr, i: usize, v: usize, u: usize) -> f64 {
-    let w = a.w(i);
-    a.lambda * (w[v] - w[u])
+/// Per free candidate with evidence for one attribute, bounds on how much hiding it
+/// widens each gap `u` of a constraint on `v`, whatever else is hidden (fact 6; exact,
+/// `hi = lo = δ_iu = λ·(w_iv − w_iu)`, where no piece of it shares a cause).
+#[derive(Debug, Clone)]
+pub(crate) struct Widen {
+    /// The candidates.
+    pub rows: Vec<usize>,
+    k: usize,
+    /// `rows × k`: upper bounds.
+    hi: Vec<f64>,
+    /// `rows × k`: lower bounds.
+    lo: Vec<f64>,
+}
+
+impl Widen {
+    /// Upper bound for row `r`, gap `u`.
+    pub fn hi(&self, r: usize, u: usize) -> f64 {
+        self.hi[r * self.k + u]
+    }
+
+    fn lo(&self, r: usize, u: usize) -> f64 {
+        self.lo[r * self.k + u]
+    }
+
+    fn hi_row(&self, r: usize) -> &[f64] {
+        &self.hi[r * self.k..(r + 1) * self.k]
+    }
+}
+
+/// Fact 6: the widenings of the free candidates touching `a`, for value `v`.
+pub(crate) fn widenings(a: &PAttr, view: &NodeView, v: usize) -> Widen {
+    let k = a.k;
+    let rows: Vec<usize> = view
+        .free
+        .iter()
+        .copied()
+        .filter(|&i| a.touches[i])
+        .collect();
+    let alone = !a.groups.is_empty();
+    let mut hi = vec![0.0; rows.len() * k];
+    for (r, &i) in rows.iter().enumerate() {
+        let w = if alone {
+            &a.w_alone[i * k..(i + 1) * k]
+        } else {
+            a.w(i)
+        };
+        for u in (0..k).filter(|&u| u != v) {
+            hi[r * k + u] = a.lambda * (w[v] - w[u]);
+        }
+    }
+    let mut lo = hi.clone();
+    if alone {
+        let n = a.touches.len();
+        let mut row_of = vec![usize::MAX; n];
+        for (r, &i) in rows.iter().enumerate() {
+            row_of[i] = r;
+        }
+        let mut hidden = vec![false; n];
+        for &i in view.hidden {
+            hidden[i] = true;
+        }
+        let mut c = Vec::new();
+        for g in &a.groups {
+            let visible: Vec<(u32, u32)> = g
+                .members
+                .iter()
+                .copied()
+                .filter(|&(ci, _)| ci == KEPT || !hidden[ci as usize])
+                .collect();
+            if !visible
+                .iter()
+                .any(|&(ci, _)| ci != KEPT && row_of[ci as usize] != usize::MAX)
+            {
+                continue;
+            }
+            let m = visible.len();
+            let s_n = share(m);
+            let scale = a.lambda * g.weight;
+            for u in (0..k).filter(|&u| u != v) {
+                c.clear();
+                c.extend(visible.iter().map(|&(_, e)| {
+                    let l = a.pieces[e as usize].log_lr();
+                    scale * (l[u] - l[v])
+                }));
+                let (up, down) = share_changes(&mut c);
+                for &(ci, e) in &visible {
+                    if ci == KEPT || row_of[ci as usize] == usize::MAX {
+                        continue;
+                    }
+                    let r = row_of[ci as usize];
+                    let l = a.pieces[e as usize].log_lr();
+                    let cp = scale * (l[u] - l[v]);
+                    hi[r * k + u] += -s_n * cp + up;
+                    lo[r * k + u] += -s_n * cp - down;
+                }
+            }
+        }
+    }
+    Widen { rows, k, hi, lo }
+}
+
+/// Fact 6's `(e↑, e↓)` for the gap contributions `c` of a group's visible pieces
+/// (reordered).
+pub(crate) fn share_changes(c: &mut [f64]) -> (f64, f64) {
+    let n = c.len();
+    if n < 2 {
+        return (0.0, 0.0);
+    }
+    c.sort_by(|x, y| y.total_cmp(x));
+    let total: f64 = c.iter().sum();
+    // top[m]: the m largest summed.
+    let mut top = vec![0.0; n + 1];
+    for (j, &x) in c.iter().enumerate() {
+        top[j + 1] = top[j] + x;
+    }
+    let s_n = share(n);
+    let (mut up, mut down) = (0.0f64, 0.0f64);
+    for r in 1..n {
+        let m = n - r;
+        let gain = (share(m) - s_n).max(0.0);
+        let bot = total - top[n - m];
+        up = up.max(gain * top[m].max(0.0) / r as f64);
+        down = down.max(gain * (-bot).max(0.0) / r as f64);
+    }
+    // Rounding in the sums only ever loosens these, by a hair.
+    (up * (1.0 + 1e-12) + 1e-12, down * (1.0 + 1e-12) + 1e-12)
+}
+
+/// Fact 7: the level the bounds for `(a, v)` aim for at a node.
+fn aimed_level(p: &Problem, a: &PAttr, view: &NodeView, v: usize) -> f64 {
+    let kappa = a.kappa[v];
+    let (data, rules) = a.footing_counts(view.state);
+    if rules < 0.5 {
+        return kappa;
+    }
+    let free_data: f64 = view.free.iter().map(|&i| a.footing[i].0 as f64).sum();
+    if data - free_data > 0.5 {
+        return kappa;
+    }
+    if data > 0.5 {
+        let cost: f64 = view
+            .free
+            .iter()
+            .filter(|&&i| a.footing[i].0 > 0)
+            .map(|&i| p.cost[i])
+            .sum();
+        if cost >= view.room - SLACK {
+            return kappa;
+        }
+    }
+    let tau = a.tau[v];
+    let ceiling = RULES_OF_THUMB_CEILING;
+    let x = (1.0 - tau) / tau - (1.0 - ceiling) / ceiling;
+    if x <= 0.0 {
+        f64::NEG_INFINITY
+    } else {
+        kappa.min(x.ln())
+    }
 }
 
 /// How many of the free candidates fit, cheapest first, at a cost below `room`.
@@ -193,30 +395,50 @@ fn constraint_bound(
     k_max: usize,
 ) -> Option<ConstraintBound> {
     let a = &p.attrs[ai];
-    let d = gaps(a, p.sums(a, view.state), v);
+    let d = gaps(a, view.state, v);
     let f = lse_except(&d, v);
-    // The state is violated (the calibrated posterior says so); rounding may put the
-    // gap a hair on the other side, in which case some helper is still needed.
-    let deficit = (a.kappa[v] - f).max(1e-12);
-    let target = a.kappa[v] - SLACK;
-    let free_touching: Vec<usize> = view
-        .free
-        .iter()
-        .copied()
-        .filter(|&i| a.w(i).iter().any(|&x| x != 0.0))
-        .collect();
-    if free_touching.is_empty() {
+    let kappa = aimed_level(p, a, view, v);
+    let target = kappa - SLACK;
+    let wd = widenings(a, view, v);
+    if wd.rows.is_empty() {
         return None;
     }
+    let rows = wd.rows.len();
+    // Fact 7: violated only through the ceiling (or by a rounding hair): some free
+    // candidate with evidence for the attribute must be hidden; which one is not known.
+    if f >= target {
+        let single = wd
+            .rows
+            .iter()
+            .map(|&i| p.cost[i])
+            .fold(f64::INFINITY, f64::min);
+        if single >= view.room - SLACK {
+            return None;
+        }
+        return Some(ConstraintBound {
+            attr: ai,
+            value: v,
+            deficit: 1e-12,
+            single,
+            helpers: wd.rows.iter().map(|&i| (i, 1e-12)).collect(),
+            gaps: d,
+            kappa,
+            options: Vec::new(),
+            widen: wd,
+        });
+    }
+    let deficit = (kappa - f).max(1e-12);
     // Per gap u: the widenings sorted largest first.
     let mut top = vec![0.0; a.k];
     let mut bottom = vec![0.0; a.k];
     let mut sorted: Vec<Vec<f64>> = vec![Vec::new(); a.k];
     for u in (0..a.k).filter(|&u| u != v) {
-        let mut ds: Vec<f64> = free_touching.iter().map(|&i| delta(a, i, v, u)).collect();
+        let mut ds: Vec<f64> = (0..rows).map(|r| wd.hi(r, u)).collect();
         ds.sort_by(|x, y| y.total_cmp(x));
         top[u] = ds.iter().take(k_max).filter(|&&x| x > 0.0).sum();
-        bottom[u] = ds.iter().rev().take(k_max).filter(|&&x| x < 0.0).sum();
+        let mut lows: Vec<f64> = (0..rows).map(|r| wd.lo(r, u)).collect();
+        lows.sort_by(f64::total_cmp);
+        bottom[u] = lows.iter().take(k_max).filter(|&&x| x < 0.0).sum();
         sorted[u] = ds;
     }
     let reach: Vec<f64> = (0..a.k).map(|u| d[u] + top[u]).collect();
@@ -228,26 +450,24 @@ fn constraint_bound(
     let low: Vec<f64> = (0..a.k).map(|u| d[u] + bottom[u]).collect();
     let cap = softmax_caps(&reach, &low, v);
     let mut helpers = Vec::new();
-    for &i in &free_touching {
+    let mut idx: Vec<usize> = Vec::with_capacity(a.k);
+    for (r, &i) in wd.rows.iter().enumerate() {
+        let row = wd.hi_row(r);
+        idx.clear();
+        idx.extend((0..a.k).filter(|&u| u != v));
+        idx.sort_by(|&x, &y| row[y].total_cmp(&row[x]));
         let mut left = 1.0;
         let mut g = 0.0;
-        let mut first = None;
-        for &u in a.order(i) {
-            let u = u as usize;
-            if u == v {
-                continue;
-            }
-            let du = delta(a, i, v, u);
-            first.get_or_insert(du);
+        for &u in &idx {
             let take = cap[u].min(left);
-            g += take * du;
+            g += take * row[u];
             left -= take;
             if left <= 0.0 {
                 break;
             }
         }
         if left > 0.0 {
-            g += left * first.unwrap_or(0.0);
+            g += left * idx.first().map_or(0.0, |&u| row[u]);
         }
         if g > 1e-15 {
             helpers.push((i, g));
@@ -280,7 +500,8 @@ fn constraint_bound(
         }
         found?
     } else {
-        let c = single_by_cost(a, v, &d, &free_touching, &p.cost, target)?;
+        let costs: Vec<f64> = wd.rows.iter().map(|&i| p.cost[i]).collect();
+        let c = single_by_cost(&wd, v, &d, &costs, target)?;
         if c >= view.room - SLACK {
             return None;
         }
@@ -291,7 +512,7 @@ fn constraint_bound(
     // rest L (one merged option); for θ in (0, 1) either Σ_A ≥ (1−θ)e^r, so some u in
     // A has Δ_u ≥ r + ln((1−θ)/S_A), or Σ_L ≥ θe^r, so some u in L has
     // Δ_u ≥ r + ln(θ/S_L).
-    let r = a.kappa[v] - f;
+    let r = kappa - f;
     let mut alts: Vec<usize> = (0..a.k).filter(|&u| u != v).collect();
     alts.sort_by(|&x, &y| d[y].total_cmp(&d[x]));
     let share = |u: usize| (d[u] - f).exp();
@@ -315,12 +536,14 @@ fn constraint_bound(
         if !members.iter().any(|&u| top[u] >= need) {
             continue;
         }
-        let row = free_touching
+        let row = wd
+            .rows
             .iter()
-            .map(|&i| {
+            .enumerate()
+            .map(|(ri, &i)| {
                 let m = members
                     .iter()
-                    .map(|&u| delta(a, i, v, u))
+                    .map(|&u| wd.hi(ri, u))
                     .fold(f64::NEG_INFINITY, f64::max);
                 (i, m)
             })
@@ -337,7 +560,9 @@ fn constraint_bound(
         single: single.max(min_helper_cost),
         helpers,
         gaps: d,
+        kappa,
         options,
+        widen: wd,
     })
 }
 
@@ -383,23 +608,16 @@ fn softmax_caps(hi: &[f64], lo: &[f64], v: usize) -> Vec<f64> {
 /// Fact 1 with costs: bisection on the cost `C` at which the fractional-knapsack
 /// widening of every gap first reaches κ (`costs` per candidate, zero allowed). Returns
 /// the lower end of the bracket, or `None` when even all of `free` cannot reach κ.
-fn single_by_cost(
-    a: &PAttr,
-    v: usize,
-    d: &[f64],
-    free: &[usize],
-    costs: &[f64],
-    target: f64,
-) -> Option<f64> {
+fn single_by_cost(wd: &Widen, v: usize, d: &[f64], costs: &[f64], target: f64) -> Option<f64> {
+    let k = wd.k;
     // Per gap: (prefix cost, prefix widening) in order of widening per unit cost.
-    let mut tables: Vec<(Vec<f64>, Vec<f64>)> = vec![(vec![0.0], vec![0.0]); a.k];
+    let mut tables: Vec<(Vec<f64>, Vec<f64>)> = vec![(vec![0.0], vec![0.0]); k];
     for (u, table) in tables.iter_mut().enumerate() {
         if u == v {
             continue;
         }
-        let mut items: Vec<(f64, f64)> = free
-            .iter()
-            .map(|&i| (delta(a, i, v, u), costs[i]))
+        let mut items: Vec<(f64, f64)> = (0..wd.rows.len())
+            .map(|r| (wd.hi(r, u), costs[r]))
             .filter(|(x, _)| *x > 0.0)
             .collect();
         items.sort_by(|x, y| (y.0 / y.1).total_cmp(&(x.0 / x.1)));
@@ -413,7 +631,7 @@ fn single_by_cost(
         }
     }
     let widen = |c: f64| -> f64 {
-        let reach: Vec<f64> = (0..a.k)
+        let reach: Vec<f64> = (0..k)
             .map(|u| {
                 if u == v {
                     return d[u];
@@ -431,7 +649,7 @@ fn single_by_cost(
             .collect();
         lse_except(&reach, v)
     };
-    let mut hi: f64 = free.iter().map(|&i| costs[i]).sum();
+    let mut hi: f64 = costs.iter().sum();
     if widen(hi) < target {
         return None;
     }
@@ -485,21 +703,8 @@ fn split_bound(
     }
     let mut sum = 0.0;
     for (j, c) in cons.iter().enumerate() {
-        let a = &p.attrs[c.attr];
-        let free: Vec<usize> = view
-            .free
-            .iter()
-            .copied()
-            .filter(|&i| a.touches[i])
-            .collect();
-        sum += single_by_cost(
-            a,
-            c.value,
-            &c.gaps,
-            &free,
-            &costs[j],
-            a.kappa[c.value] - SLACK,
-        )?;
+        let row_costs: Vec<f64> = c.widen.rows.iter().map(|&i| costs[j][i]).collect();
+        sum += single_by_cost(&c.widen, c.value, &c.gaps, &row_costs, c.kappa - SLACK)?;
     }
     Some(sum)
 }

@@ -258,6 +258,7 @@ pub(crate) fn search(
         let free: Vec<usize> = (0..n).filter(|&i| !node.fixed.get(i)).collect();
         let view = NodeView {
             state: &node.state,
+            hidden: &node.hidden,
             free: &free,
             room: incumbent_cost - node.cost,
         };

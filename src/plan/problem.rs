@@ -8,8 +8,11 @@
 //! the bounds and greedy's scores use logits `ln π(v) + sum(v)` (λ = 1 here). Where
 //! pieces share a cause, hiding some of them changes the others' share: the state then
 //! also carries each such group's visible count and plain sums, and the counts of
-//! visible data and rule-of-thumb pieces, and the posterior is worked out from those;
-//! the linear bounds are then not proven ([`Problem::bounds_proven`]).
+//! visible data and rule-of-thumb pieces, and the posterior is worked out from those.
+//! The bounds ([`super::bound`]) widen each grouped piece's effect so that they hold
+//! whatever the group's share becomes, and relax a level where the rules-of-thumb
+//! ceiling can come into play; they are proven except under logistic calibration
+//! ([`Problem::bounds_proven`]).
 
 use std::collections::HashMap;
 
@@ -29,7 +32,14 @@ pub(crate) struct PGroup {
     /// Where its `k` plain sums and then its visible count sit in a state (relative to
     /// the attribute's `extra_at`).
     pub at: usize,
+    /// Its pieces visible with every candidate shown: (candidate, or [`KEPT`] for a
+    /// subject that is not a candidate; index into `PAttr::pieces`).
+    pub members: Vec<(u32, u32)>,
 }
+
+/// A group member whose subject is not a candidate (kept, or carrying no spread): it
+/// stays visible in every plan.
+pub(crate) const KEPT: u32 = u32::MAX;
 
 /// One protected attribute, ready for the solvers.
 #[derive(Debug, Clone)]
@@ -53,18 +63,20 @@ pub(crate) struct PAttr {
     /// exactly when `LSE_{u≠v}(z_u − z_v) ≥ κ_v`.
     pub kappa: Vec<f64>,
     pub true_value: Option<usize>,
-    /// Per candidate, its summed log-likelihood ratios for this attribute (`n × k`).
+    /// Per candidate, its summed log-likelihood ratios for this attribute (`n × k`),
+    /// each piece at its source weight and grouped pieces at their group's share with
+    /// every candidate shown.
     pub w: Vec<f64>,
-    /// Per candidate, the values ordered by `w` ascending (`n × k`): the order in which
-    /// hiding the candidate helps the constraint on any value most.
-    pub order: Vec<u16>,
+    /// The same from the candidate's pieces that stand alone (not in `groups`): what
+    /// hiding it does to the sums whatever else is hidden (`n × k`).
+    pub w_alone: Vec<f64>,
     /// Per candidate: whether it has evidence for this attribute.
     pub touches: Vec<bool>,
     /// Cause groups some candidate belongs to (empty: the sums are exact).
     pub groups: Vec<PGroup>,
     /// Per candidate, its pieces in those groups: (group, index into `pieces`).
     pub in_groups: Vec<Vec<(u32, u32)>>,
-    /// The evidence pieces `in_groups` refers to.
+    /// The evidence pieces `in_groups` and the groups' `members` refer to.
     pub pieces: Vec<Evidence>,
     /// Per candidate, its visible pieces resting on data and on rules of thumb.
     pub footing: Vec<(u32, u32)>,
@@ -76,10 +88,6 @@ pub(crate) struct PAttr {
 impl PAttr {
     pub fn w(&self, i: usize) -> &[f64] {
         &self.w[i * self.k..(i + 1) * self.k]
-    }
-
-    pub fn order(&self, i: usize) -> &[u16] {
-        &self.order[i * self.k..(i + 1) * self.k]
     }
 
     /// The logits for this attribute's part of a state.
@@ -116,23 +124,43 @@ impl PAttr {
     /// The combined posterior in a state: the linear sums, corrected for each group's
     /// share at its visible count, and the rules-of-thumb ceiling.
     pub fn posterior_in(&self, state: &[f64]) -> Posterior {
-        let sums = &state[self.offset..self.offset + self.k];
+        let weighted = self.combined_sums(state);
+        self.model
+            .posterior_combined(&weighted, self.rests_on_rules(state))
+    }
+
+    /// The combined weighted sums in a state: the linear sums, corrected for each
+    /// group's share at its visible count (what the logits are built from).
+    pub fn combined_sums(&self, state: &[f64]) -> Vec<f64> {
+        let mut weighted = state[self.offset..self.offset + self.k].to_vec();
         let base = self.extra_at;
-        let counts = base + self.groups.len() * (self.k + 1);
-        let rests_on_rules = state[counts] < 0.5 && state[counts + 1] > 0.5;
-        if self.groups.is_empty() {
-            return self.model.posterior_combined(sums, rests_on_rules);
-        }
-        let mut weighted = sums.to_vec();
         for g in &self.groups {
             let at = base + g.at;
-            let n = state[at + self.k].round().max(0.0) as usize;
+            let n = self.group_count(state, g);
             let d = g.weight * (share(n) - g.start_share);
             for (x, s) in weighted.iter_mut().zip(&state[at..at + self.k]) {
                 *x += d * s;
             }
         }
-        self.model.posterior_combined(&weighted, rests_on_rules)
+        weighted
+    }
+
+    /// A group's visible count in a state.
+    pub fn group_count(&self, state: &[f64], g: &PGroup) -> usize {
+        state[self.extra_at + g.at + self.k].round().max(0.0) as usize
+    }
+
+    /// Visible pieces resting on data and on rules of thumb in a state.
+    pub fn footing_counts(&self, state: &[f64]) -> (f64, f64) {
+        let counts = self.extra_at + self.groups.len() * (self.k + 1);
+        (state[counts], state[counts + 1])
+    }
+
+    /// Whether only rules of thumb support the attribute in a state (the ceiling
+    /// applies).
+    pub fn rests_on_rules(&self, state: &[f64]) -> bool {
+        let (data, rules) = self.footing_counts(state);
+        data < 0.5 && rules > 0.5
     }
 
     /// Constrained values whose probability is over their level.
@@ -179,7 +207,8 @@ pub(crate) struct Problem {
     /// Visible, not kept, but carrying no evidence: hiding them changes nothing.
     pub pruned: Vec<Subject>,
     /// Every watched attribute uses temperature calibration, for which the search's
-    /// bounds are proven. Under logistic calibration the search still only returns
+    /// bounds are proven (cause groups and the rules-of-thumb ceiling included; see
+    /// [`super::bound`]). Under logistic calibration the search still only returns
     /// plans that meet every threshold under the calibrated model, but a proof of
     /// smallest or of impossibility does not follow.
     pub bounds_proven: bool,
@@ -295,6 +324,9 @@ impl Problem {
             let mut in_groups: Vec<Vec<(u32, u32)>> = vec![Vec::new(); n];
             let mut pieces: Vec<Evidence> = Vec::new();
             let mut footing = vec![(0u32, 0u32); n];
+            let mut w_alone = vec![0.0; n * k];
+            // Evidence index -> (candidate, piece) for the candidates' grouped pieces.
+            let mut piece_of: HashMap<usize, (u32, u32)> = HashMap::new();
             for (ci, &s) in subjects.iter().enumerate() {
                 let mut any = false;
                 for &ei in exposure.evidence_of(s) {
@@ -320,10 +352,19 @@ impl Problem {
                                 weight: grouping.weight[ei],
                                 start_share: share(exposure.cause_size(ei)),
                                 at: 0,
+                                members: Vec::new(),
                             });
                         }
+                        piece_of.insert(ei, (ci as u32, pieces.len() as u32));
                         in_groups[ci].push((at, pieces.len() as u32));
                         pieces.push(e.clone());
+                    } else {
+                        for (x, l) in w_alone[ci * k..(ci + 1) * k]
+                            .iter_mut()
+                            .zip(e.log_lr().iter())
+                        {
+                            *x += pw * l;
+                        }
                     }
                 }
                 if any {
@@ -341,31 +382,26 @@ impl Problem {
                     if e.attribute() != t.attribute || exposure.is_hidden(e.subject()) {
                         continue;
                     }
-                    if let Some(&at) = group_at.get(&grouping.group_of[ei]) {
-                        let at = groups[at as usize].at;
+                    if let Some(&gi) = group_at.get(&grouping.group_of[ei]) {
+                        let g = &mut groups[gi as usize];
+                        let at = g.at;
                         for (x, l) in group_start[at..at + k].iter_mut().zip(e.log_lr()) {
                             *x += l;
                         }
                         group_start[at + k] += 1.0;
+                        match piece_of.get(&ei) {
+                            Some(&member) => g.members.push(member),
+                            None => {
+                                g.members.push((KEPT, pieces.len() as u32));
+                                pieces.push(e.clone());
+                            }
+                        }
                     }
                 }
             }
             let (data, rules) = exposure.footings(t.attribute);
-            let kept_data = data as u32 - footing.iter().map(|f| f.0).sum::<u32>();
-            // Hiding can change a group's share, or leave only rules of thumb (and
-            // the ceiling): the linear bounds then do not hold.
-            if !groups.is_empty() || (rules > 0 && kept_data == 0) {
-                bounds_proven = false;
-            }
             group_start.extend([data as f64, rules as f64]);
             extras.push(group_start);
-            let mut order = Vec::with_capacity(n * k);
-            for ci in 0..n {
-                let row = &w[ci * k..(ci + 1) * k];
-                let mut idx: Vec<u16> = (0..k as u16).collect();
-                idx.sort_by(|&a, &b| row[a as usize].total_cmp(&row[b as usize]));
-                order.extend(idx);
-            }
             let mut touches = vec![false; n];
             for &ci in &touching {
                 touches[ci] = true;
@@ -384,7 +420,7 @@ impl Problem {
                 true_value: t.true_value,
                 model,
                 w,
-                order,
+                w_alone,
                 touches,
                 groups,
                 in_groups,

@@ -439,7 +439,7 @@ pub fn summary(o: &PlanOutcome, priors: &Priors, show_real: bool) -> String {
                             if lb.ceil() == 1.0 { "is" } else { "are" }
                         ));
                     } else if o.stopped.is_none() && o.method == Method::Exact {
-                        s.push_str(" It may not be the smallest such set: items that share a cause count together, which the proof of smallest does not cover.");
+                        s.push_str(" It may not be the smallest such set: the proof of smallest does not cover this priors file's fitted (logistic) calibration.");
                     } else {
                         s.push_str(" It may not be the smallest such set.");
                     }

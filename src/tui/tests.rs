@@ -264,7 +264,7 @@ fn real_value_and_plan_accept_all_is_one_undo_step() {
     assert!(matches!(app.plan, PlanState::Running { .. }));
     finish_plan(&mut app, &fx);
     let result = app.current_plan().expect("plan ready").clone();
-    // Feasible, not proven smallest: items sharing a cause make the bounds unproven.
+    // Optimal, or feasible when the search's node budget runs out first.
     assert!(
         matches!(result.outcome.status, Status::Optimal | Status::Feasible),
         "{:?}",
@@ -447,9 +447,8 @@ fn snapshot_plan() {
 
 #[test]
 fn snapshot_plan_exact() {
-    // The exact search runs to its end. Items sharing a cause count together
-    // (crate::combine), which the proof of smallest does not cover: the screen must say
-    // "proven" only when the status is Optimal.
+    // The exact search runs to its end: the screen must say "proven" only when the
+    // status is Optimal.
     let mut app = App::new(persona_one_level("teacher"));
     let fx = press(&mut app, "3");
     finish_plan(&mut app, &fx);

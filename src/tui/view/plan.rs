@@ -92,7 +92,7 @@ fn ready_words(r: &PlanResult, theme: Theme) -> (String, ratatui::style::Style) 
                     };
                     format!("◆ Best found when stopped ({why}): a smaller set may exist")
                 }
-                None => "◆ Best found, not proven smallest: items that share a cause count together, which the proof does not cover, so a smaller set may exist".into(),
+                None => "◆ Best found, not proven smallest: the proof does not cover this priors file's fitted (logistic) calibration, so a smaller set may exist".into(),
             };
             if let Some(lb) = o.lower_bound {
                 t.push_str(&format!("; at least {} needed", count(lb)));
