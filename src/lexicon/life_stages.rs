@@ -6,7 +6,7 @@
 
 use serde::Deserialize;
 
-use super::error::{Error, Result};
+use super::error::{Result, checked, format_problems, parse_toml};
 use super::phrase::{Pattern, PhraseIndex, YearToken};
 
 /// The file format version this build reads.
@@ -200,17 +200,8 @@ fn parse_level(s: &str) -> Option<Level> {
 
 impl LifeStages {
     pub fn parse(text: &str, origin: &str) -> Result<LifeStages> {
-        let raw: RawFile = toml::from_str(text).map_err(|e| Error::Syntax {
-            file: origin.to_string(),
-            message: e.to_string(),
-        })?;
-        let mut problems = Vec::new();
-        if raw.format != FORMAT {
-            problems.push(format!(
-                "format {} is not the format this telltale reads ({FORMAT})",
-                raw.format
-            ));
-        }
+        let raw: RawFile = parse_toml(text, origin)?;
+        let mut problems = format_problems(raw.format, FORMAT);
         let mut out = LifeStages::default();
         for (words, level) in [(&raw.levels.school, 1u8), (&raw.levels.university, 2u8)] {
             for w in words {
@@ -291,13 +282,7 @@ impl LifeStages {
                 confidence: r.confidence,
             });
         }
-        if !problems.is_empty() {
-            return Err(Error::Invalid {
-                file: origin.to_string(),
-                problems,
-            });
-        }
-        Ok(out)
+        checked(out, problems, origin)
     }
 
     /// The rule that best fits a name: the most confident match, then the longest.

@@ -9,7 +9,7 @@
 use foldhash::{HashSet, HashSetExt};
 use serde::Deserialize;
 
-use super::error::{Error, Result};
+use super::error::{Result, checked, format_problems, parse_toml};
 use super::phrase::{Pattern, PhraseIndex};
 
 /// The file format version this build reads.
@@ -97,17 +97,8 @@ struct RawLanguage {
 
 impl PlaceCues {
     pub fn parse(text: &str, origin: &str) -> Result<PlaceCues> {
-        let raw: RawFile = toml::from_str(text).map_err(|e| Error::Syntax {
-            file: origin.to_string(),
-            message: e.to_string(),
-        })?;
-        let mut problems = Vec::new();
-        if raw.format != FORMAT {
-            problems.push(format!(
-                "format {} is not the format this telltale reads ({FORMAT})",
-                raw.format
-            ));
-        }
+        let raw: RawFile = parse_toml(text, origin)?;
+        let mut problems = format_problems(raw.format, FORMAT);
         let s = raw.strength;
         for (name, v) in [
             ("plain", s.plain),
@@ -157,13 +148,7 @@ impl PlaceCues {
             }
             out.languages.push(lang.code);
         }
-        if !problems.is_empty() {
-            return Err(Error::Invalid {
-                file: origin.to_string(),
-                problems,
-            });
-        }
-        Ok(out)
+        checked(out, problems, origin)
     }
 
     /// The kinds of cue found in a name's tokens (each at most once).

@@ -6,7 +6,7 @@
 
 use serde::Deserialize;
 
-use super::error::{Error, Result};
+use super::error::{Result, checked, format_problems, parse_toml};
 use crate::text::name_key;
 
 /// The file format version this build reads.
@@ -145,17 +145,8 @@ struct RawLanguage {
 
 impl RecordKinds {
     pub fn parse(text: &str, origin: &str) -> Result<RecordKinds> {
-        let raw: RawFile = toml::from_str(text).map_err(|e| Error::Syntax {
-            file: origin.to_string(),
-            message: e.to_string(),
-        })?;
-        let mut problems = Vec::new();
-        if raw.format != FORMAT {
-            problems.push(format!(
-                "format {} is not the format this telltale reads ({FORMAT})",
-                raw.format
-            ));
-        }
+        let raw: RawFile = parse_toml(text, origin)?;
+        let mut problems = format_problems(raw.format, FORMAT);
         let mut out = RecordKinds {
             languages: Vec::new(),
             kinds: RecordKind::ALL.iter().map(|&k| (k, Vec::new())).collect(),
@@ -198,13 +189,7 @@ impl RecordKinds {
             }
             out.languages.push(lang.code);
         }
-        if !problems.is_empty() {
-            return Err(Error::Invalid {
-                file: origin.to_string(),
-                problems,
-            });
-        }
-        Ok(out)
+        checked(out, problems, origin)
     }
 
     /// The kinds whose words appear in `words` (the folded words of one name, in

@@ -9,7 +9,7 @@ use std::collections::BTreeMap;
 
 use serde::Deserialize;
 
-use super::error::{Error, Result};
+use super::error::{Result, checked, format_problems, parse_toml};
 use super::phrase::{Pattern, PhraseIndex};
 use super::special::SpecialCategory;
 
@@ -69,17 +69,8 @@ struct RawTerm {
 
 impl Vocabulary {
     pub fn parse(text: &str, origin: &str) -> Result<Vocabulary> {
-        let raw: RawFile = toml::from_str(text).map_err(|e| Error::Syntax {
-            file: origin.to_string(),
-            message: e.to_string(),
-        })?;
-        let mut problems = Vec::new();
-        if raw.format != FORMAT {
-            problems.push(format!(
-                "format {} is not the format this telltale reads ({FORMAT})",
-                raw.format
-            ));
-        }
+        let raw: RawFile = parse_toml(text, origin)?;
+        let mut problems = format_problems(raw.format, FORMAT);
         let mut out = Vocabulary::default();
         for (i, t) in raw.term.into_iter().enumerate() {
             let name = t.words.first().cloned().unwrap_or_default();
@@ -137,13 +128,7 @@ impl Vocabulary {
                 members: t.members.into_iter().collect(),
             });
         }
-        if !problems.is_empty() {
-            return Err(Error::Invalid {
-                file: origin.to_string(),
-                problems,
-            });
-        }
-        Ok(out)
+        checked(out, problems, origin)
     }
 
     /// Every term found in a name, in reading order.
