@@ -57,21 +57,44 @@ pub fn smooth_against(
     (p, q)
 }
 
-/// Member counts released with noise of variance `σ²` on every count, scaled to the
-/// sample size they are worth: `n_eff = n² / (n + K·σ²)` for `n` members over `K`
-/// values. The share `c(v)/n` of a sample of `n` has variance about `p(1−p)/n`, and
-/// the noise adds `σ²/n²`; taking `p(1−p) ≈ 1/K` (an average cell; common practice, no
-/// source), the sum is the variance of a clean sample of `n_eff`. Counts well inside
-/// the noise (`n ≲ K·σ²`) shrink to a fraction of one member, so the item then adds
-/// about nothing; with no noise the counts are returned unchanged.
+/// Member counts released with noise of variance `σ²` on every count and then clamped
+/// at 0 (as `priors build` releases them), scaled to the clean sample they are worth:
+/// `n_eff = n̂² / (n̂ + K·σ²)` for `K` values, where `n̂` is the item's size with the
+/// clamping's bias taken off. The share `c(v)/n` of a sample of `n` has variance about
+/// `p(1−p)/n`, and the noise adds `σ²/n²`; taking `p(1−p) ≈ 1/K` (an average cell;
+/// common practice, no source), the sum is the variance of a clean sample of `n_eff`.
+/// Clamping at 0 lifts a cell whose true count is 0 to `E[max(0, X)]` on average
+/// ([`clamped_noise_mean`]): about 28 at the discrete Laplace scale 55.6 that ε = 4
+/// gives, so `K` such cells look like a sizeable item with no member in it. So
+/// `n̂ = max(0, n − K·E[max(0, X)])`, where `n` is the released total (conservative:
+/// a cell with many true members is lifted less). Counts well inside the noise shrink
+/// to a small fraction of one member, so the item then adds about nothing; with no
+/// noise the counts are returned unchanged.
 pub fn noise_equivalent(counts: &[f64], noise_variance: f64) -> Vec<f64> {
     let n: f64 = counts.iter().map(|c| c.max(0.0)).sum();
     if noise_variance.is_nan() || noise_variance <= 0.0 || n <= 0.0 {
         return counts.to_vec();
     }
     let k = counts.len().max(1) as f64;
-    let ratio = n / (n + k * noise_variance);
+    let size = (n - k * clamped_noise_mean(noise_variance)).max(0.0);
+    let worth = size * size / (size + k * noise_variance);
+    let ratio = worth / n;
     counts.iter().map(|c| c.max(0.0) * ratio).collect()
+}
+
+/// `E[max(0, X)]` for discrete Laplace noise `X` of variance `σ²` (Canonne, Kamath &
+/// Steinke 2020: `P(X = x) ∝ t^|x|`, variance `2t/(1−t)²`): solving the variance for
+/// `t` gives `E[max(0, X)] = t / ((1 + t)(1 − t))`, about half the scale (`σ/√8`) for
+/// large scales (arithmetic from the distribution's definition).
+pub fn clamped_noise_mean(noise_variance: f64) -> f64 {
+    if noise_variance.is_nan() || noise_variance <= 0.0 {
+        return 0.0;
+    }
+    let v = noise_variance;
+    // σ²(1−t)² = 2t  ⇔  σ²t² − (2σ² + 2)t + σ² = 0, the root in (0, 1).
+    let b = 2.0 * v + 2.0;
+    let t = (b - (b * b - 4.0 * v * v).sqrt()) / (2.0 * v);
+    t / ((1.0 + t) * (1.0 - t))
 }
 
 /// Shannon entropy in bits, with `0·log 0 = 0`.
@@ -244,11 +267,31 @@ mod tests {
         let p = softmax(&[-1e6, 0.0]);
         assert!(close(p[1], 1.0));
         assert!(close(log_sum_exp(&[0.0, 0.0]), 2f64.ln()));
-        // Noise: 400 members over 4 values with noise variance 100 per count are
-        // worth 400²/(400 + 4·100) = 200 clean members (arithmetic).
+        // Noise: 400 members over 4 values with noise variance 100 per count: the
+        // clamping lifts each cell by E[max(0, X)] = m, so the item is worth
+        // n̂²/(n̂ + 4·100) clean members with n̂ = 400 − 4m (arithmetic).
+        let m = clamped_noise_mean(100.0);
+        let n = 400.0 - 4.0 * m;
         let c = noise_equivalent(&[100.0, 100.0, 150.0, 50.0], 100.0);
-        assert!(close(c.iter().sum::<f64>(), 200.0));
+        assert!(close(c.iter().sum::<f64>(), n * n / (n + 400.0)));
         assert!(close(c[2] / c[3], 3.0));
+        // E[max(0, X)] from the discrete Laplace distribution summed directly
+        // (P(x) = (1−t)/(1+t)·t^|x|, Canonne, Kamath & Steinke 2020), at the scale
+        // ε = 4 gives (b = 55.56, t = e^(−1/b)) and at a small one.
+        for b in [55.5555_f64, 0.7] {
+            let t = (-1.0 / b).exp();
+            let p0 = (1.0 - t) / (1.0 + t);
+            let variance: f64 = (1..20_000)
+                .map(|x| 2.0 * p0 * t.powi(x) * (x * x) as f64)
+                .sum();
+            let mean: f64 = (1..20_000).map(|x| p0 * t.powi(x) * x as f64).sum();
+            assert!((clamped_noise_mean(variance) - mean).abs() < 1e-6 * mean.max(1.0));
+        }
+        assert!((clamped_noise_mean(6172.84) - 55.5555 / 2.0).abs() < 0.05);
+        // Pure noise over K = 5 cells (a typical clamped release of an empty item)
+        // is worth almost nothing.
+        let empty = noise_equivalent(&[0.0, 0.0, 30.0, 60.0, 45.0], 6172.84);
+        assert!(empty.iter().sum::<f64>() < 0.01, "{empty:?}");
         assert_eq!(noise_equivalent(&[3.0, 1.0], 0.0), vec![3.0, 1.0]);
         assert_eq!(argmax(&[0.1, 0.7, 0.7]), (1, 0.7));
     }

@@ -354,8 +354,12 @@ mod tests {
         let var = laplace_variance(b);
         let small = noise_check(&table(&[20.0, 40.0, 60.0, 80.0, 100.0]), var)
             .expect("a 500-member cohort at ε = 4 is too noisy");
-        // Median item 60 members over 4 values: 60²/(60 + 4·6172.8) ≈ 0.145.
-        assert!((small.median_worth - 3600.0 / (60.0 + 4.0 * var)).abs() < 1e-9);
+        // Median item 60 members over 4 values: the clamping alone lifts 4 empty
+        // cells by 4·E[max(0, X)] ≈ 111 > 60, so it is worth nothing
+        // (max(0, 60 − 111)² / (… + 4·6172.8) = 0).
+        let n_hat = (60.0 - 4.0 * crate::stats::clamped_noise_mean(var)).max(0.0);
+        assert_eq!(n_hat, 0.0);
+        assert!((small.median_worth - n_hat * n_hat / (n_hat + 4.0 * var)).abs() < 1e-9);
         assert_eq!(small.worth_one, 0.0);
         assert!(small.warning(4.0).contains("too small for ε = 4"));
         // Items of 20,000 members are worth thousands: no warning.
