@@ -8,6 +8,10 @@ code, and follows the model in docs/model-card.md: smoothed likelihood ratios
 (c + a) / (n·mu + a) with a = alpha·mu + k, summed in log space, tempered by lambda,
 added to the log base rates and normalised (softmax).
 
+This is the reference table alone, for the benchmark (scripts/bench-large) and
+tests/python/check_python_pipeline.py; scripts/python_sources.py recomputes every other
+evidence source and their combination (tests/python/check_every_source.py).
+
 Usage: python_pipeline.py ARCHIVE.zip PRIORS.json [OUT.json]
 Prints (or writes) {"attributes": {id: {value id: probability}}, "matched": n}.
 """

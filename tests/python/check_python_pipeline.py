@@ -9,6 +9,9 @@
 4. Every posterior probability agrees to 1e-9, and both matched the same number of
    items. The benchmark figures for the full-size run are in docs/performance.md
    (scripts/bench-large).
+
+The other evidence sources (place names, life stages, belief vocabulary, friends) and
+their combination are checked by check_every_source.py.
 """
 import importlib.util
 import json

@@ -1,0 +1,567 @@
+"""Every evidence source of a scan, recomputed in Python from the docs and the data files
+alone (docs/evidence.md and docs/model-card.md are the spec; numpy does the arithmetic).
+None of telltale's code is used: the script reads the same data files telltale compiles
+in (reference-priors/lexicons/*.toml, gazetteer.tsv, common-words.txt), the priors JSON,
+the archive zip (layout L, as `telltale synth large` writes it) and a friends CSV.
+
+What it recomputes, each from the section of docs/evidence.md named:
+- `table`: smoothed likelihood ratios (c + a)/(n·μ + a), a = α·μ + k ("`table`");
+- `places`: place names found on name keys in the gazetteer, candidates weighted by
+  population, L(v) = c·(s·q(v)/π(v) + 1 − s + s·q_out) + (1 − c) ("`places`");
+- `life-stages`: the rule's ages plus the years since the join date, spread uniformly and
+  cut into the bands, D = c·P + (1 − c)·π ("`life-stages`"); only rules without a
+  `{year}` slot or level words are handled (the check's archives use no others);
+- `vocabulary`: stated ratios (`lean`) or members' shares (`members`), the strongest
+  term per attribute ("`vocabulary`");
+- `friends`: the weighted vote smoothed with one pseudo-friend per value ("`friends`");
+- the combination: λ for table evidence only, weight 1 for the rest, pieces of one cause
+  sharing f(n)/n = (1 + ln n)/n, the 85% rules-of-thumb ceiling (model card,
+  "Combining evidence"; docs/evidence.md, "How sources are combined").
+
+Not handled (the check's archives avoid them, and the script refuses them rather than
+guess): names in scripts written without spaces, `{year}` slots, education levels,
+aliases in the priors, noisy priors files, logistic calibration, `--home-levels`.
+"""
+
+import json
+import math
+import os
+import re
+import tomllib
+import unicodedata
+
+import numpy as np
+
+from python_archive import merge_friends_file, read_archive
+
+ROOT = os.path.dirname(os.path.dirname(os.path.abspath(__file__)))
+LEXICONS = os.path.join(ROOT, "reference-priors", "lexicons")
+
+# Constants as docs/evidence.md and docs/model-card.md state them.
+LOCALITY_SHARE = 0.25  # s, "`places`" (common practice, no source)
+CONF_PHRASE, CONF_WORD, CONF_COMMON = 0.9, 0.7, 0.1  # c of a place match
+MIN_ASCII_CHARS, MIN_OTHER_CHARS = 3, 2  # shortest place name matched
+YEAR_SECONDS = 365.2425 * 86400.0  # the Gregorian year
+OLDEST_AGE = 120.0  # end of an open band
+CEILING = 0.85  # rules-of-thumb ceiling
+MIN_DATA_SUPPORT = 1.0  # table evidence worth fewer members counts as a rule of thumb
+LEXICON_WEIGHT = FRIENDS_WEIGHT = 1.0
+FRIEND_PSEUDO = 1.0  # pseudo-friends per value (add-one)
+
+
+def saturation(n):
+    """f(n) = 1 + ln n (model card, "Combining evidence")."""
+    return 0.0 if n == 0 else 1.0 + math.log(n)
+
+
+_SEP = re.compile(r"[^\w]+|_+")
+
+
+def name_key(s):
+    """docs/evidence.md, "Name keys": compatibility forms, diacritics dropped, lower
+    case, apostrophes dropped, every other run of punctuation, symbols and spaces one
+    space."""
+    s = unicodedata.normalize("NFKD", s)
+    s = "".join(c for c in s if not unicodedata.combining(c))
+    s = s.lower().replace("'", "").replace("\u2019", "").replace("\u02bc", "")
+    s = _SEP.sub(" ", s).strip()
+    return unicodedata.normalize("NFC", s)
+
+
+def tokens(s):
+    return [t for t in name_key(s).split(" ") if t]
+
+
+def unspaced(text):
+    """Scripts written without spaces (Thai, Lao, Myanmar, Khmer, kana, CJK)."""
+    for c in text:
+        u = ord(c)
+        if (0x0E00 <= u <= 0x0EFF or 0x1000 <= u <= 0x109F or 0x1780 <= u <= 0x17FF
+                or 0x3040 <= u <= 0x30FF or 0x3400 <= u <= 0x4DBF or 0x4E00 <= u <= 0x9FFF
+                or 0xF900 <= u <= 0xFAFF or 0x20000 <= u <= 0x2FFFF):
+            return True
+    return False
+
+
+# ── Patterns ("Name keys and patterns") ──────────────────────────────────────────────
+
+def parse_pattern(text):
+    """A run of words; a trailing * makes the last one a prefix; {year} is a slot."""
+    parts = []
+    for raw in text.split():
+        if raw == "{year}":
+            parts.append(("year", None))
+            continue
+        toks = tokens(raw.rstrip("*"))
+        for i, t in enumerate(toks):
+            prefix = raw.endswith("*") and i == len(toks) - 1
+            parts.append(("prefix" if prefix else "word", t))
+    return parts
+
+
+def match_at(parts, toks, start):
+    if start + len(parts) > len(toks):
+        return False
+    for (kind, w), tok in zip(parts, toks[start:]):
+        if kind == "word" and tok != w:
+            return False
+        if kind == "prefix" and not tok.startswith(w):
+            return False
+        if kind == "year" and not (tok.isdigit() and len(tok) in (2, 4)):
+            return False
+    if any(kind == "year" for kind, _ in parts):
+        raise ValueError("{year} slots are not handled here: " + " ".join(toks))
+    return True
+
+
+def longest(hits):
+    """Among overlapping matches the longest (in words, then characters) wins, the
+    earlier on a tie; the kept matches in reading order. A hit is (start, end, text, x)."""
+    order = sorted(hits, key=lambda h: (-(h[1] - h[0]), -len(h[2]), h[0]))
+    kept = []
+    for h in order:
+        if not any(h[0] < k[1] and k[0] < h[1] for k in kept):
+            kept.append(h)
+    return sorted(kept, key=lambda h: h[0])
+
+
+def find_patterns(patterns, toks):
+    """patterns: list of (parts, value). Every match, the longest among overlaps."""
+    if any(unspaced(t) for t in toks):
+        raise ValueError("names in scripts written without spaces are not handled here")
+    hits = []
+    for start in range(len(toks)):
+        for parts, value in patterns:
+            if match_at(parts, toks, start):
+                end = start + len(parts)
+                hits.append((start, end, " ".join(toks[start:end]), value))
+    return longest(hits)
+
+
+# ── The data files ───────────────────────────────────────────────────────────────────
+
+def load_vocabulary():
+    with open(os.path.join(LEXICONS, "vocabulary.toml"), "rb") as f:
+        doc = tomllib.load(f)
+    patterns = []
+    for term in doc["term"]:
+        for w in term["words"]:
+            patterns.append((parse_pattern(w), term))
+    return patterns
+
+
+def load_life_stages():
+    with open(os.path.join(LEXICONS, "life-stages.toml"), "rb") as f:
+        doc = tomllib.load(f)
+    patterns = []
+    for rule in doc["rule"]:
+        pats = rule["patterns"]
+        lists = pats.values() if isinstance(pats, dict) else [pats]
+        for lst in lists:
+            for p in lst:
+                patterns.append((parse_pattern(p), rule))
+    levels = []
+    for words in doc.get("levels", {}).values():
+        levels.extend(parse_pattern(w) for w in words)
+    return patterns, levels
+
+
+class Gazetteer:
+    """gazetteer.tsv (docs/evidence.md, "`gazetteer.tsv` and `common-words.txt`"):
+    C code population names; R code population names; P country region population
+    names. Every name is indexed by its name key (ASCII keys of 3+ characters, others
+    of 2+)."""
+
+    def __init__(self):
+        self.index = {}
+        self.max_tokens = 1
+        path = os.path.join(LEXICONS, "gazetteer.tsv")
+        with open(path, encoding="utf-8") as f:
+            for n, line in enumerate(f):
+                if line.startswith("#") or not line.strip():
+                    continue
+                cols = line.rstrip("\n").split("\t")
+                if cols[0] == "C":
+                    place = (cols[1], None, int(cols[2]))
+                    names = cols[3]
+                elif cols[0] == "R":
+                    place = (cols[1][:2], cols[1], int(cols[2]))
+                    names = cols[3]
+                elif cols[0] == "P":
+                    place = (cols[1], cols[2] or None, int(cols[3]))
+                    names = cols[4]
+                else:
+                    continue
+                ref = (cols[0], n) + place
+                for name in names.split("|"):
+                    key = name_key(name)
+                    short = MIN_ASCII_CHARS if key.isascii() else MIN_OTHER_CHARS
+                    if len(key) < short:
+                        continue
+                    refs = self.index.setdefault(key, [])
+                    if ref not in refs:
+                        refs.append(ref)
+                    self.max_tokens = max(self.max_tokens, key.count(" ") + 1)
+        self.common = set()
+        with open(os.path.join(LEXICONS, "common-words.txt"), encoding="utf-8") as f:
+            for line in f:
+                for w in line.split("#", 1)[0].split():
+                    self.common.add(name_key(w))
+
+    def mentions(self, toks):
+        """(text, candidates, confidence) for every place name in the tokens."""
+        if any(unspaced(t) for t in toks):
+            raise ValueError("names in scripts written without spaces are not handled here")
+        hits = []
+        for start in range(len(toks)):
+            for n in range(1, min(self.max_tokens, len(toks) - start) + 1):
+                key = " ".join(toks[start:start + n])
+                if key in self.index:
+                    hits.append((start, start + n, key, self.index[key]))
+        out = []
+        for start, end, text, refs in longest(hits):
+            if end - start == 1 and text in self.common:
+                c = CONF_COMMON
+            elif " " in text:
+                c = CONF_PHRASE
+            else:
+                c = CONF_WORD
+            out.append((text, refs, c))
+        return out
+
+
+_LEXICONS = {}
+
+
+def lexicons():
+    if not _LEXICONS:
+        _LEXICONS["vocabulary"] = load_vocabulary()
+        _LEXICONS["life-stages"] = load_life_stages()
+        _LEXICONS["gazetteer"] = Gazetteer()
+    return _LEXICONS
+
+
+# ── Priors ───────────────────────────────────────────────────────────────────────────
+
+def load_priors(path):
+    with open(path, encoding="utf-8") as f:
+        doc = json.load(f)
+    attrs = []
+    for a in doc["attributes"]:
+        base = np.array([v["base_rate"] for v in a["values"]], dtype=float)
+        member = np.array([v.get("member_rate", v["base_rate"]) for v in a["values"]], float)
+        cal = a.get("calibration") or {"method": "temperature", "lambda": 1.0}
+        if cal["method"] != "temperature":
+            raise ValueError("temperature calibration only")
+        attrs.append({
+            "id": a["id"], "label": a.get("label", a["id"]),
+            "values": [v["id"] for v in a["values"]],
+            "labels": [v.get("label", v["id"]) for v in a["values"]],
+            "pi": base / base.sum(), "mu": member / member.sum(),
+            "alpha": a.get("smoothing", 4.0), "k": a.get("pseudocount", 0.0),
+            "lambda": cal["lambda"],
+        })
+    items = doc["items"]
+    if any(it.get("aliases") for it in items) or doc.get("provenance", {}).get("privacy"):
+        raise ValueError("aliases and noisy priors are not handled here")
+    return attrs, items
+
+
+def value_index(attr, text):
+    """A value by id or label, letter case ignored."""
+    t = text.strip().lower()
+    for i, (v, l) in enumerate(zip(attr["values"], attr["labels"])):
+        if v.lower() == t or l.lower() == t:
+            return i
+    return None
+
+
+def table_lr(attr, counts):
+    """docs/evidence.md, "`table`": L = (c + a)/(n·μ + a), a = α·μ + k."""
+    c = np.clip(np.array(counts, dtype=float), 0.0, None)
+    a = attr["alpha"] * attr["mu"] + attr["k"]
+    n = c.sum()
+    return np.log((c + a) / (n * attr["mu"] + a)), n
+
+
+# ── Word-list sources ────────────────────────────────────────────────────────────────
+
+def location_attribute(attrs, gaz):
+    """The first attribute at least half of whose values are ISO codes (XX-YYY region
+    codes of a known country, or alpha-2 country codes); per value, its code."""
+    countries = {r[2] for refs in gaz.index.values() for r in refs if r[0] == "C"}
+    for ai, a in enumerate(attrs):
+        codes = []
+        for v in a["values"]:
+            u = v.strip().upper()
+            if re.fullmatch(r"[A-Z]{2}-[A-Z0-9]{1,3}", u) and u[:2] in countries:
+                codes.append(("region", u))
+            elif re.fullmatch(r"[A-Z]{2}", u) and u in countries:
+                codes.append(("country", u))
+            else:
+                codes.append(None)
+        known = sum(c is not None for c in codes)
+        if known and 2 * known >= len(codes):
+            return ai, codes
+    return None, None
+
+
+def land(codes, pi, country, region):
+    """docs/evidence.md, "Where a place lands": the region's value, else the country's,
+    else spread over the values inside the country by base rate; [] when outside."""
+    for v, c in enumerate(codes):
+        if c == ("region", region) and region is not None:
+            return [(v, 1.0)]
+    for v, c in enumerate(codes):
+        if c == ("country", country):
+            return [(v, 1.0)]
+    inside = [v for v, c in enumerate(codes) if c is not None and c[1][:2] == country]
+    total = sum(pi[v] for v in inside)
+    return [(v, pi[v] / total) for v in inside] if total > 0 else []
+
+
+def place_lr(mentions, codes, pi):
+    q = np.zeros(len(codes))
+    out, weight, conf = 0.0, 0.0, 0.0
+    for _text, refs, c in mentions:
+        qm = np.zeros(len(codes))
+        pops = [max(r[4], 1) for r in refs]
+        total = float(sum(pops))
+        om = 0.0
+        for r, p in zip(refs, pops):
+            spread = land(codes, pi, r[2], r[3])
+            if not spread:
+                om += p / total
+            for v, share in spread:
+                qm[v] += p / total * share
+        q += c * qm
+        out += c * om
+        weight += c
+        conf = max(conf, c)
+    q /= weight
+    out /= weight
+    if q.sum() <= 1e-12:
+        return None
+    s = LOCALITY_SHARE
+    return np.log(conf * (s * q / pi + 1 - s + s * out) + (1 - conf))
+
+
+def age_range(s):
+    s = s.strip().lower().replace("\u2013", "-")
+    m = re.fullmatch(r"(\d+)\s*-\s*(\d+)", s)
+    if m:
+        return float(m[1]), float(m[2]) + 1
+    m = re.fullmatch(r"(\d+)\s*\+|(\d+) and over", s)
+    if m:
+        return float(m[1] or m[2]), OLDEST_AGE
+    m = re.fullmatch(r"(?:under\s*|<\s*)(\d+)", s)
+    if m:
+        return 0.0, float(m[1])
+    return None
+
+
+def age_attribute(attrs):
+    for ai, a in enumerate(attrs):
+        ranges = [age_range(v) or age_range(l) for v, l in zip(a["values"], a["labels"])]
+        if all(ranges):
+            return ai, ranges
+    return None, None
+
+
+def life_stage_lr(rule, since, ranges, pi):
+    """Ages + years since, uniform over each stage's span [from, to + 1), cut into the
+    bands (what falls outside every band is dropped, the rest renormalised); then
+    D = c·P + (1 − c)·π, L = D/π."""
+    stages = rule["stages"]
+    wsum = sum(st.get("weight", 1.0) for st in stages)
+    shares = np.zeros(len(ranges))
+    for st in stages:
+        lo, hi = st["ages"][0] + since, st["ages"][1] + 1 + since
+        for b, (blo, bhi) in enumerate(ranges):
+            shares[b] += st.get("weight", 1.0) / wsum * max(min(hi, bhi) - max(lo, blo), 0) / (hi - lo)
+    if shares.sum() <= 1e-9:
+        return None
+    p = shares / shares.sum()
+    c = rule["confidence"]
+    d = c * p + (1 - c) * pi
+    d = d / d.sum()
+    return np.log(d / pi)
+
+
+def vocabulary_lr(term, attr):
+    """(ratios as the strength is read from them, log L)."""
+    pi = attr["pi"]
+    if "members" in term:
+        named = [(value_index(attr, v), s) for v, s in term["members"].items()]
+        named = [(v, s) for v, s in named if v is not None]
+        if not named:
+            return None
+        d = pi.copy()
+        held = 0.0
+        for v, s in named:
+            d[v] = max(s, pi[v])
+            held += d[v]
+        rest = [u for u in range(len(pi)) if u not in dict(named)]
+        d[rest] = (1 - held) * pi[rest] / pi[rest].sum()
+        ratios = d / pi
+    else:
+        ratios = np.ones(len(pi))
+        found = False
+        for v, r in term.get("lean", {}).items():
+            i = value_index(attr, v)
+            if i is not None:
+                ratios[i] = r
+                found = True
+        if not found:
+            return None
+    d = ratios * pi
+    return ratios, np.log((d / d.sum()) / pi)
+
+
+# ── Gathering and combining ──────────────────────────────────────────────────────────
+
+ALL_SOURCES = ("table", "places", "life-stages", "vocabulary", "friends")
+
+
+def gather(archive, priors_path, friends_csv=None, sources=ALL_SOURCES):
+    """Every piece of evidence from the chosen sources (`--sources`): dicts with
+    attribute, log_lr, source, cause (or None), weight and footing ('data' or 'rule')."""
+    attrs, ref_items = load_priors(priors_path)
+    lex = lexicons()
+    gaz = lex["gazetteer"]
+    items, friends = read_archive(archive)
+    if friends_csv:
+        friends = merge_friends_file(friends_csv, friends, attrs)
+    dates = [it["date"] for it in items] + [f["date"] for f in friends if f["date"]]
+    now = max(dates)
+    by_id, by_name = {}, {}
+    for i, it in enumerate(ref_items):
+        if it.get("id") is not None:
+            by_id.setdefault(it["id"], i)
+        by_name.setdefault(name_key(it["name"]), []).append(i)
+
+    def supported(i):
+        return max((sum(c) for c in ref_items[i]["members"].values()), default=0.0)
+
+    loc_ai, loc_codes = location_attribute(attrs, gaz)
+    age_ai, age_ranges = age_attribute(attrs)
+    attr_by = {a["id"].lower(): ai for ai, a in enumerate(attrs)}
+    attr_by.update({a["label"].lower(): ai for ai, a in enumerate(attrs)})
+    pieces = []
+
+    def lexicon_piece(ai, log_lr, source, rule):
+        pieces.append({"attribute": ai, "log_lr": log_lr, "source": source,
+                       "cause": ("lexicon", rule, int(np.argmax(log_lr))),
+                       "weight": LEXICON_WEIGHT, "footing": "rule"})
+
+    for it in items:
+        ref = by_id.get(it["id"]) if it["id"] is not None else None
+        if ref is None:
+            cands = by_name.get(name_key(it["name"]))
+            if cands:
+                ref = max(cands, key=lambda i: (ref_items[i].get("kind") == it["kind"],
+                                                supported(i), -i))
+        covered = set()
+        if ref is not None and "table" in sources:
+            for aid, counts in ref_items[ref]["members"].items():
+                ai = attr_by[aid.lower()]
+                covered.add(ai)
+                log_lr, n = table_lr(attrs[ai], counts)
+                pieces.append({"attribute": ai, "log_lr": log_lr, "source": "table",
+                               "cause": ("table", ref, 0), "weight": attrs[ai]["lambda"],
+                               "footing": "data" if n >= MIN_DATA_SUPPORT else "rule"})
+        toks = tokens(it["name"])
+        if "places" in sources and loc_ai is not None and loc_ai not in covered:
+            mentions = gaz.mentions(toks)
+            if mentions:
+                log_lr = place_lr(mentions, loc_codes, attrs[loc_ai]["pi"])
+                if log_lr is not None:
+                    lexicon_piece(loc_ai, log_lr, "places", "places")
+        if "life-stages" in sources and age_ai is not None and age_ai not in covered:
+            patterns, levels = lex["life-stages"]
+            best = None
+            for _s, _e, text, rule in find_patterns(patterns, toks):
+                rank = (rule["confidence"], len(text.encode()))
+                if best is None or rank >= best[0]:
+                    best = (rank, rule)
+            if best is not None:
+                rule = best[1]
+                if any(st.get("level") for st in rule["stages"]) and find_patterns(
+                        [(p, None) for p in levels], toks):
+                    raise ValueError(f"education levels are not handled here: {it['name']}")
+                since = (now - it["date"]) / YEAR_SECONDS
+                log_lr = life_stage_lr(rule, since, age_ranges, attrs[age_ai]["pi"])
+                if log_lr is not None:
+                    lexicon_piece(age_ai, log_lr, "life-stages", "life-stages: " + rule["id"])
+        strongest = {}
+        vocabulary = lex["vocabulary"] if "vocabulary" in sources else []
+        for _s, _e, _text, term in find_patterns(vocabulary, toks):
+            ai = attr_by.get(term.get("attribute", "").lower())
+            if ai is None or ai in covered:
+                continue
+            found = vocabulary_lr(term, attrs[ai])
+            if found is None:
+                continue
+            strength = float(np.max(np.abs(np.log(found[0]))))
+            if ai not in strongest or strength > strongest[ai][0]:
+                strongest[ai] = (strength, found[1], term)
+        for ai, (_st, log_lr, term) in strongest.items():
+            lexicon_piece(ai, log_lr, "vocabulary", term.get("cause", "vocabulary"))
+
+    for ai, a in enumerate(attrs):
+        if "friends" not in sources:
+            break
+        known = [value_index(a, f["values"][a["id"]]) for f in friends
+                 if f["values"].get(a["id"])]
+        known = [v for v in known if v is not None]
+        if not known:
+            continue
+        n = len(known)
+        vote = np.bincount(known, minlength=len(a["values"])) / n
+        m = FRIEND_PSEUDO * len(a["values"])
+        d = (n * vote + m * a["pi"]) / (n + m)
+        pieces.append({"attribute": ai, "log_lr": np.log(d / a["pi"]), "source": "friends",
+                       "cause": None, "weight": FRIENDS_WEIGHT, "footing": "data"})
+    return attrs, pieces
+
+
+def combine(attr, pieces):
+    """log P(v) = log π(v) + Σ_groups w·f(n)/n·Σ log L − log Z; then the ceiling when
+    every visible piece is a rule of thumb."""
+    logits = np.log(attr["pi"]).copy()
+    groups = {}
+    for p in pieces:
+        key = p["cause"] if p["cause"] is not None else ("alone", id(p))
+        groups.setdefault(key, []).append(p)
+    for members in groups.values():
+        n = len(members)
+        total = np.sum([p["weight"] * p["log_lr"] for p in members], axis=0)
+        logits = logits + saturation(n) / n * total
+    probs = np.exp(logits - np.logaddexp.reduce(logits))
+    rules_only = bool(pieces) and all(p["footing"] == "rule" for p in pieces)
+    if rules_only and len(probs) > 1:
+        best = int(np.argmax(logits))
+        others = np.delete(logits, best)
+        rest = np.logaddexp.reduce(others)
+        log_odds = logits[best] - rest
+        log_new = -np.logaddexp(-log_odds, -math.log(CEILING / (1 - CEILING)))
+        top = 1 / (1 + math.exp(-log_new))
+        runner = math.exp(others.max() - rest)
+        top = max(top, runner / (1 + runner))
+        probs = np.exp(logits - rest) * (1 - top)
+        probs[best] = top
+    return probs, rules_only
+
+
+def posteriors(archive, priors_path, friends_csv=None, sources=ALL_SOURCES):
+    """{"attributes": {id: {value: P}}, "rules_only": {id: bool}, "pieces": {source: n},
+    "evidence": [piece, …]}."""
+    attrs, pieces = gather(archive, priors_path, friends_csv, sources)
+    out, rules, count = {}, {}, {}
+    for p in pieces:
+        count[p["source"]] = count.get(p["source"], 0) + 1
+    for ai, a in enumerate(attrs):
+        probs, rules_only = combine(a, [p for p in pieces if p["attribute"] == ai])
+        out[a["id"]] = dict(zip(a["values"], probs.tolist()))
+        rules[a["id"]] = rules_only
+    return {"attributes": out, "rules_only": rules, "pieces": count, "evidence": pieces}
