@@ -28,10 +28,10 @@ SEPARATORS = re.compile(r"[^\w]+|_+")
 
 
 def name_key(s):
-    """Compatibility decomposition, combining marks dropped, lower case, apostrophes
+    """Compatibility decomposition, combining marks (category M) dropped, lower case, apostrophes
     joined, every run of other non-alphanumerics one space."""
     s = unicodedata.normalize("NFKD", s)
-    s = "".join(c for c in s if not unicodedata.combining(c))
+    s = "".join(c for c in s if not unicodedata.category(c).startswith("M"))
     s = s.lower().replace("'", "").replace("\u2019", "").replace("\u02bc", "")
     s = SEPARATORS.sub(" ", s).strip()
     return unicodedata.normalize("NFC", s)

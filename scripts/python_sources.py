@@ -58,11 +58,11 @@ _SEP = re.compile(r"[^\w]+|_+")
 
 
 def name_key(s):
-    """docs/evidence.md, "Name keys": compatibility forms, diacritics dropped, lower
-    case, apostrophes dropped, every other run of punctuation, symbols and spaces one
-    space."""
+    """docs/evidence.md, "Name keys": compatibility forms, combining marks (Unicode
+    category M: accents, vowel signs) dropped, lower case, apostrophes dropped, every
+    other run of punctuation, symbols and spaces one space."""
     s = unicodedata.normalize("NFKD", s)
-    s = "".join(c for c in s if not unicodedata.combining(c))
+    s = "".join(c for c in s if not unicodedata.category(c).startswith("M"))
     s = s.lower().replace("'", "").replace("\u2019", "").replace("\u02bc", "")
     s = _SEP.sub(" ", s).strip()
     return unicodedata.normalize("NFC", s)
@@ -81,6 +81,15 @@ def unspaced(text):
                 or 0xF900 <= u <= 0xFAFF or 0x20000 <= u <= 0x2FFFF):
             return True
     return False
+
+
+def split_digits(toks):
+    """For life stages: a year written against letters ("2014级", "21학번") is a word of
+    its own, so every run of digits is cut from the letters around it."""
+    out = []
+    for t in toks:
+        out.extend(m for m in re.findall(r"\d+|\D+", t) if m)
+    return out
 
 
 # ── Patterns ("Name keys and patterns") ──────────────────────────────────────────────
@@ -239,6 +248,21 @@ def lexicons():
         _LEXICONS["life-stages"] = load_life_stages()
         _LEXICONS["gazetteer"] = Gazetteer()
     return _LEXICONS
+
+
+def handled(name):
+    """Whether this script can read a name: no script written without spaces, no
+    `{year}` slot matched, no education-level words beside a life-stage match."""
+    lex = lexicons()
+    toks = tokens(name)
+    try:
+        lex["gazetteer"].mentions(toks)
+        find_patterns(lex["vocabulary"], toks)
+        stages = find_patterns(lex["life-stages"][0], split_digits(toks))
+    except ValueError:
+        return False
+    levels = [(p, None) for p in lex["life-stages"][1]]
+    return not (stages and find_patterns(levels, toks))
 
 
 # ── Priors ───────────────────────────────────────────────────────────────────────────
@@ -480,7 +504,7 @@ def gather(archive, priors_path, friends_csv=None, sources=ALL_SOURCES):
         if "life-stages" in sources and age_ai is not None and age_ai not in covered:
             patterns, levels = lex["life-stages"]
             best = None
-            for _s, _e, text, rule in find_patterns(patterns, toks):
+            for _s, _e, text, rule in find_patterns(patterns, split_digits(toks)):
                 rank = (rule["confidence"], len(text.encode()))
                 if best is None or rank >= best[0]:
                     best = (rank, rule)

@@ -11,10 +11,15 @@ uses none of telltale's code.
 For four invented people (Oregon in English, Izmir in Turkish, Guadalajara in Spanish
 with a friends file, Porto Alegre in Portuguese; real places, invented names), this
 writes a priors file with invented reference items and an archive in layout L, runs
-`telltale scan --format json` with each source alone and with all of them, and asserts:
+`telltale scan --format json` with each source alone and with all of them; and for the
+invented people of tests/personas/world.toml (26 countries, their own languages and
+scripts) it does the same with the word-list sources, on the items the script can read
+(names in scripts written without spaces, with a `{year}` slot or with education-level
+words are left out). It asserts:
 
 1. every posterior probability, per attribute and value, agrees to 1e-9;
-2. each source gave the same number of pieces of evidence in both;
+2. each source gave the same number of pieces of evidence in both, and both say alike
+   which attributes rest on rules of thumb alone;
 3. the cases the issue names are exercised: word-list items the table does not know,
    a friends file, several items of one cause (a group of 2+ pieces), a footprint
    resting only on rules of thumb whose best guess the 85% ceiling actually lowers,
@@ -221,6 +226,32 @@ def personas(tmp):
     return out
 
 
+def world_personas(tmp):
+    """The invented people of tests/personas/world.toml (28 people in 26 countries, in
+    their own languages and scripts), each written as a layout-L archive of the items
+    this script can read (names in scripts written without spaces, with a `{year}` slot
+    or with education-level words are left out), scanned against invented priors whose
+    location values are those countries (ISO 3166-1 alpha-2)."""
+    with open(os.path.join(ROOT, "tests", "personas", "world.toml"), "rb") as f:
+        people = ps.tomllib.load(f)["person"]
+    pri = os.path.join(tmp, "world.json")
+    countries = sorted({p["country"] for p in people} | set(COUNTRIES))
+    make_priors(pri, countries, 21, {"age_band": 1.2, "location": 1.1, "politics": 1.0,
+                                     "religion": 1.3}, [("like", "Lanternwick Tea Lovers")])
+    out, kept, left = [], 0, 0
+    for p in people:
+        groups = [(name, date + "T12:00:00Z") for _kind, name, date in p["items"]
+                  if ps.handled(name)]
+        kept += len(groups)
+        left += len(p["items"]) - len(groups)
+        if not groups:
+            continue
+        arc = os.path.join(tmp, p["slug"] + ".zip")
+        make_archive(arc, [], groups, [])
+        out.append((f"{p['slug']} ({', '.join(p['languages'])})", arc, pri))
+    return out, kept, left
+
+
 def scan(archive, priors, friends, sources, out):
     cmd = [os.environ["TELLTALE_BIN"], "scan", archive, "--priors", priors, "--sources",
            ",".join(sources), "--format", "json", "-o", out]
@@ -244,6 +275,24 @@ def largest_difference(rust, py):
     return worst
 
 
+def compare(where, run, sources, rust, py, worst, failures):
+    """Every probability to the tolerance, the pieces per source, the footing."""
+    d = largest_difference(rust, py)
+    worst[run] = max(worst.get(run, 0.0), d)
+    if d > TOLERANCE:
+        failures.append(f"{where}: largest difference {d:.3g}")
+    counts = {s["id"]: s["pieces"] for s in rust["sources"]}
+    for s in sources:
+        if counts.get(s, 0) != py["pieces"].get(s, 0):
+            failures.append(f"{where}: {s} gave {counts.get(s, 0)} pieces, python "
+                            f"{py['pieces'].get(s, 0)}")
+    for a in rust["attributes"]:
+        said = bool(a.get("rests_on_rules_of_thumb"))
+        if said != py["rules_only"][a["id"]]:
+            failures.append(f"{where}, {a['id']}: rests on rules of thumb {said}, python "
+                            f"{py['rules_only'][a['id']]}")
+
+
 def main():
     failures = []
     worst = {}
@@ -256,28 +305,25 @@ def main():
                 name = "all" if len(sources) > 1 else sources[0]
                 rust = scan(arc, pri, fcsv, sources, os.path.join(tmp, "r.json"))
                 py = ps.posteriors(arc, pri, fcsv, sources)
-                d = largest_difference(rust, py)
-                worst[name] = max(worst.get(name, 0.0), d)
-                if d > TOLERANCE:
-                    failures.append(f"{label}, --sources {name}: largest difference {d:.3g}")
-                counts = {s["id"]: s["pieces"] for s in rust["sources"]}
-                for s in sources:
-                    if counts.get(s, 0) != py["pieces"].get(s, 0):
-                        failures.append(f"{label}, --sources {name}: {s} gave "
-                                        f"{counts.get(s, 0)} pieces, python "
-                                        f"{py['pieces'].get(s, 0)}")
-                for a in rust["attributes"]:
-                    said = bool(a.get("rests_on_rules_of_thumb"))
-                    if said != py["rules_only"][a["id"]]:
-                        failures.append(f"{label}, --sources {name}, {a['id']}: rests on "
-                                        f"rules of thumb {said}, python "
-                                        f"{py['rules_only'][a['id']]}")
+                compare(f"{label}, --sources {name}", name, sources, rust, py, worst, failures)
                 if name == "all":
                     exercised |= what_it_exercises(py, arc, pri, fcsv)
                     print(f"  {label}: pieces {py['pieces']}, resting on rules of thumb: "
                           f"{sorted(a for a, r in py['rules_only'].items() if r)}")
                     if "rules_only" in needs and not ceiling_binds(arc, pri):
                         failures.append(f"{label}: the ceiling does not lower any guess")
+        world, kept, left = world_personas(tmp)
+        for label, arc, pri in world:
+            for sources in [("places",), ("life-stages",), ("vocabulary",), ps.ALL_SOURCES]:
+                name = "all" if len(sources) > 1 else sources[0]
+                rust = scan(arc, pri, None, sources, os.path.join(tmp, "r.json"))
+                py = ps.posteriors(arc, pri, None, sources)
+                compare(f"{label}, --sources {name}", "world " + name, sources, rust, py,
+                        worst, failures)
+        print(f"  world personas: {len(world)} people, {kept} items compared, {left} left "
+              "out (scripts without spaces, year slots, education levels)")
+        if len(world) < 20 or kept < 100:
+            failures.append(f"too few world personas compared ({len(world)}, {kept} items)")
         for need in ["places", "life-stages", "vocabulary", "table", "friends", "group",
                      "table_group", "rules_only", "friends_file", "lambda"]:
             if need not in exercised:
