@@ -8,6 +8,8 @@ import json
 import zipfile
 from datetime import datetime
 
+from python_lexicons import name_key
+
 
 def unix(value):
     if isinstance(value, (int, float)):
@@ -18,12 +20,6 @@ def unix(value):
 # Layout L's friend fields per attribute id (its mapping, telltale-mapping.toml).
 FRIEND_FIELDS = {"age_band": "age_range", "location": "lives_in", "politics": "leaning",
                  "religion": "faith"}
-
-
-def name_key(s):
-    from python_sources import name_key as key  # one definition, in python_sources
-
-    return key(s)
 
 
 def read_archive(path):

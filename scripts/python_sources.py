@@ -1,11 +1,13 @@
 """Every evidence source of a scan, recomputed in Python from the docs and the data files
 alone (docs/evidence.md and docs/model-card.md are the spec; numpy does the arithmetic).
-None of telltale's code is used: the script reads the same data files telltale compiles
-in (reference-priors/lexicons/*.toml, gazetteer.tsv, common-words.txt), the priors JSON,
+None of telltale's code is used (python_lexicons.py reads the word lists, and
+python_archive.py the archive and friends file): the script reads the same data files
+telltale compiles in (reference-priors/lexicons/*.toml, gazetteer.tsv, common-words.txt), the priors JSON,
 the archive zip (layout L, as `telltale synth large` writes it) and a friends CSV.
 
 What it recomputes, each from the section of docs/evidence.md named:
-- `table`: smoothed likelihood ratios (c + a)/(n·μ + a), a = α·μ + k ("`table`");
+- `table`: smoothed likelihood ratios (c + a)/(n·μ + a), a = α·μ + k ("`table`"), the
+  counts of a noisy file first discounted (docs/priors.md, "Noisy counts");
 - `places`: place names found on name keys in the gazetteer, candidates weighted by
   population, L(v) = c·(s·q(v)/π(v) + 1 − s + s·q_out) + (1 − c) ("`places`");
 - `life-stages`: the rule's ages plus the years since the join date, spread uniformly and
@@ -19,28 +21,23 @@ What it recomputes, each from the section of docs/evidence.md named:
   "Combining evidence"; docs/evidence.md, "How sources are combined").
 
 Not handled (the check's archives avoid them, and the script refuses them rather than
-guess): names in scripts written without spaces, `{year}` slots, education levels,
-aliases in the priors, noisy priors files, logistic calibration, `--home-levels`.
+guess): `{year}` slots, education levels, aliases in the priors, logistic calibration,
+`--home-levels`.
 """
 
 import json
 import math
-import os
 import re
-import tomllib
-import unicodedata
 
 import numpy as np
 
 from python_archive import merge_friends_file, read_archive
-
-ROOT = os.path.dirname(os.path.dirname(os.path.abspath(__file__)))
-LEXICONS = os.path.join(ROOT, "reference-priors", "lexicons")
+from python_lexicons import (Gazetteer, Phrases, find_patterns, load_life_stages,
+                             load_vocabulary, name_key, split_digits, tokens)
 
 # Constants as docs/evidence.md and docs/model-card.md state them.
 LOCALITY_SHARE = 0.25  # s, "`places`" (common practice, no source)
 CONF_PHRASE, CONF_WORD, CONF_COMMON = 0.9, 0.7, 0.1  # c of a place match
-MIN_ASCII_CHARS, MIN_OTHER_CHARS = 3, 2  # shortest place name matched
 YEAR_SECONDS = 365.2425 * 86400.0  # the Gregorian year
 OLDEST_AGE = 120.0  # end of an open band
 CEILING = 0.85  # rules-of-thumb ceiling
@@ -52,191 +49,6 @@ FRIEND_PSEUDO = 1.0  # pseudo-friends per value (add-one)
 def saturation(n):
     """f(n) = 1 + ln n (model card, "Combining evidence")."""
     return 0.0 if n == 0 else 1.0 + math.log(n)
-
-
-_SEP = re.compile(r"[^\w]+|_+")
-
-
-def name_key(s):
-    """docs/evidence.md, "Name keys": compatibility forms, combining marks (Unicode
-    category M: accents, vowel signs) dropped, lower case, apostrophes dropped, every
-    other run of punctuation, symbols and spaces one space."""
-    s = unicodedata.normalize("NFKD", s)
-    s = "".join(c for c in s if not unicodedata.category(c).startswith("M"))
-    s = s.lower().replace("'", "").replace("\u2019", "").replace("\u02bc", "")
-    s = _SEP.sub(" ", s).strip()
-    return unicodedata.normalize("NFC", s)
-
-
-def tokens(s):
-    return [t for t in name_key(s).split(" ") if t]
-
-
-def unspaced(text):
-    """Scripts written without spaces (Thai, Lao, Myanmar, Khmer, kana, CJK)."""
-    for c in text:
-        u = ord(c)
-        if (0x0E00 <= u <= 0x0EFF or 0x1000 <= u <= 0x109F or 0x1780 <= u <= 0x17FF
-                or 0x3040 <= u <= 0x30FF or 0x3400 <= u <= 0x4DBF or 0x4E00 <= u <= 0x9FFF
-                or 0xF900 <= u <= 0xFAFF or 0x20000 <= u <= 0x2FFFF):
-            return True
-    return False
-
-
-def split_digits(toks):
-    """For life stages: a year written against letters ("2014级", "21학번") is a word of
-    its own, so every run of digits is cut from the letters around it."""
-    out = []
-    for t in toks:
-        out.extend(m for m in re.findall(r"\d+|\D+", t) if m)
-    return out
-
-
-# ── Patterns ("Name keys and patterns") ──────────────────────────────────────────────
-
-def parse_pattern(text):
-    """A run of words; a trailing * makes the last one a prefix; {year} is a slot."""
-    parts = []
-    for raw in text.split():
-        if raw == "{year}":
-            parts.append(("year", None))
-            continue
-        toks = tokens(raw.rstrip("*"))
-        for i, t in enumerate(toks):
-            prefix = raw.endswith("*") and i == len(toks) - 1
-            parts.append(("prefix" if prefix else "word", t))
-    return parts
-
-
-def match_at(parts, toks, start):
-    if start + len(parts) > len(toks):
-        return False
-    for (kind, w), tok in zip(parts, toks[start:]):
-        if kind == "word" and tok != w:
-            return False
-        if kind == "prefix" and not tok.startswith(w):
-            return False
-        if kind == "year" and not (tok.isdigit() and len(tok) in (2, 4)):
-            return False
-    if any(kind == "year" for kind, _ in parts):
-        raise ValueError("{year} slots are not handled here: " + " ".join(toks))
-    return True
-
-
-def longest(hits):
-    """Among overlapping matches the longest (in words, then characters) wins, the
-    earlier on a tie; the kept matches in reading order. A hit is (start, end, text, x)."""
-    order = sorted(hits, key=lambda h: (-(h[1] - h[0]), -len(h[2]), h[0]))
-    kept = []
-    for h in order:
-        if not any(h[0] < k[1] and k[0] < h[1] for k in kept):
-            kept.append(h)
-    return sorted(kept, key=lambda h: h[0])
-
-
-def find_patterns(patterns, toks):
-    """patterns: list of (parts, value). Every match, the longest among overlaps."""
-    if any(unspaced(t) for t in toks):
-        raise ValueError("names in scripts written without spaces are not handled here")
-    hits = []
-    for start in range(len(toks)):
-        for parts, value in patterns:
-            if match_at(parts, toks, start):
-                end = start + len(parts)
-                hits.append((start, end, " ".join(toks[start:end]), value))
-    return longest(hits)
-
-
-# ── The data files ───────────────────────────────────────────────────────────────────
-
-def load_vocabulary():
-    with open(os.path.join(LEXICONS, "vocabulary.toml"), "rb") as f:
-        doc = tomllib.load(f)
-    patterns = []
-    for term in doc["term"]:
-        for w in term["words"]:
-            patterns.append((parse_pattern(w), term))
-    return patterns
-
-
-def load_life_stages():
-    with open(os.path.join(LEXICONS, "life-stages.toml"), "rb") as f:
-        doc = tomllib.load(f)
-    patterns = []
-    for rule in doc["rule"]:
-        pats = rule["patterns"]
-        lists = pats.values() if isinstance(pats, dict) else [pats]
-        for lst in lists:
-            for p in lst:
-                patterns.append((parse_pattern(p), rule))
-    levels = []
-    for words in doc.get("levels", {}).values():
-        levels.extend(parse_pattern(w) for w in words)
-    return patterns, levels
-
-
-class Gazetteer:
-    """gazetteer.tsv (docs/evidence.md, "`gazetteer.tsv` and `common-words.txt`"):
-    C code population names; R code population names; P country region population
-    names. Every name is indexed by its name key (ASCII keys of 3+ characters, others
-    of 2+)."""
-
-    def __init__(self):
-        self.index = {}
-        self.max_tokens = 1
-        path = os.path.join(LEXICONS, "gazetteer.tsv")
-        with open(path, encoding="utf-8") as f:
-            for n, line in enumerate(f):
-                if line.startswith("#") or not line.strip():
-                    continue
-                cols = line.rstrip("\n").split("\t")
-                if cols[0] == "C":
-                    place = (cols[1], None, int(cols[2]))
-                    names = cols[3]
-                elif cols[0] == "R":
-                    place = (cols[1][:2], cols[1], int(cols[2]))
-                    names = cols[3]
-                elif cols[0] == "P":
-                    place = (cols[1], cols[2] or None, int(cols[3]))
-                    names = cols[4]
-                else:
-                    continue
-                ref = (cols[0], n) + place
-                for name in names.split("|"):
-                    key = name_key(name)
-                    short = MIN_ASCII_CHARS if key.isascii() else MIN_OTHER_CHARS
-                    if len(key) < short:
-                        continue
-                    refs = self.index.setdefault(key, [])
-                    if ref not in refs:
-                        refs.append(ref)
-                    self.max_tokens = max(self.max_tokens, key.count(" ") + 1)
-        self.common = set()
-        with open(os.path.join(LEXICONS, "common-words.txt"), encoding="utf-8") as f:
-            for line in f:
-                for w in line.split("#", 1)[0].split():
-                    self.common.add(name_key(w))
-
-    def mentions(self, toks):
-        """(text, candidates, confidence) for every place name in the tokens."""
-        if any(unspaced(t) for t in toks):
-            raise ValueError("names in scripts written without spaces are not handled here")
-        hits = []
-        for start in range(len(toks)):
-            for n in range(1, min(self.max_tokens, len(toks) - start) + 1):
-                key = " ".join(toks[start:start + n])
-                if key in self.index:
-                    hits.append((start, start + n, key, self.index[key]))
-        out = []
-        for start, end, text, refs in longest(hits):
-            if end - start == 1 and text in self.common:
-                c = CONF_COMMON
-            elif " " in text:
-                c = CONF_PHRASE
-            else:
-                c = CONF_WORD
-            out.append((text, refs, c))
-        return out
 
 
 _LEXICONS = {}
@@ -251,8 +63,8 @@ def lexicons():
 
 
 def handled(name):
-    """Whether this script can read a name: no script written without spaces, no
-    `{year}` slot matched, no education-level words beside a life-stage match."""
+    """Whether this script can read a name: no `{year}` slot matched, no
+    education-level words beside a life-stage match."""
     lex = lexicons()
     toks = tokens(name)
     try:
@@ -261,8 +73,7 @@ def handled(name):
         stages = find_patterns(lex["life-stages"][0], split_digits(toks))
     except ValueError:
         return False
-    levels = [(p, None) for p in lex["life-stages"][1]]
-    return not (stages and find_patterns(levels, toks))
+    return not (stages and lex["life-stages"][1].find(toks))
 
 
 # ── Priors ───────────────────────────────────────────────────────────────────────────
@@ -286,9 +97,39 @@ def load_priors(path):
             "lambda": cal["lambda"],
         })
     items = doc["items"]
-    if any(it.get("aliases") for it in items) or doc.get("provenance", {}).get("privacy"):
-        raise ValueError("aliases and noisy priors are not handled here")
+    if any(it.get("aliases") for it in items):
+        raise ValueError("aliases are not handled here")
+    variance = noise_variance(doc.get("provenance", {}).get("privacy"))
+    for a in attrs:
+        a["noise_variance"] = variance
     return attrs, items
+
+
+def noise_variance(privacy):
+    """docs/priors.md, `provenance.privacy`: `item_noise_variance`, else 2b² from
+    `item_noise_scale`, else 2(m/ε)² with m the sensitivity; 0 without privacy."""
+    if not privacy:
+        return 0.0
+    if privacy.get("item_noise_variance") is not None:
+        return float(privacy["item_noise_variance"])
+    if privacy.get("item_noise_scale") is not None:
+        return 2.0 * float(privacy["item_noise_scale"]) ** 2
+    return 2.0 * (float(privacy["sensitivity"]) / float(privacy["epsilon"])) ** 2
+
+
+def noise_discount(counts, variance):
+    """docs/priors.md, "Noisy counts": c' = c·n'/n, n' = n̂²/(n̂ + |V|·σ²),
+    n̂ = max(0, n − |V|·m), m = t/((1+t)(1−t)) where σ² = 2t/(1−t)² (discrete Laplace)."""
+    n = counts.sum()
+    if variance <= 0 or n <= 0:
+        return counts
+    k = len(counts)
+    # σ²(1−t)² = 2t: the root of σ²t² − (2σ² + 2)t + σ² = 0 in (0, 1).
+    b = 2 * variance + 2
+    t = (b - math.sqrt(b * b - 4 * variance * variance)) / (2 * variance)
+    m = t / ((1 + t) * (1 - t))
+    size = max(0.0, n - k * m)
+    return counts * (size * size / (size + k * variance)) / n
 
 
 def value_index(attr, text):
@@ -301,8 +142,10 @@ def value_index(attr, text):
 
 
 def table_lr(attr, counts):
-    """docs/evidence.md, "`table`": L = (c + a)/(n·μ + a), a = α·μ + k."""
-    c = np.clip(np.array(counts, dtype=float), 0.0, None)
+    """docs/evidence.md, "`table`": L = (c + a)/(n·μ + a), a = α·μ + k, after the noise
+    discount of a noisy file; also the support n (members the counts are worth)."""
+    c = noise_discount(np.clip(np.array(counts, dtype=float), 0.0, None),
+                       attr["noise_variance"])
     a = attr["alpha"] * attr["mu"] + attr["k"]
     n = c.sum()
     return np.log((c + a) / (n * attr["mu"] + a)), n
@@ -347,7 +190,8 @@ def land(codes, pi, country, region):
 def place_lr(mentions, codes, pi):
     q = np.zeros(len(codes))
     out, weight, conf = 0.0, 0.0, 0.0
-    for _text, refs, c in mentions:
+    for text, refs, common in mentions:
+        c = CONF_COMMON if common else CONF_PHRASE if " " in text else CONF_WORD
         qm = np.zeros(len(codes))
         pops = [max(r[4], 1) for r in refs]
         total = float(sum(pops))
@@ -492,7 +336,8 @@ def gather(archive, priors_path, friends_csv=None, sources=ALL_SOURCES):
                 covered.add(ai)
                 log_lr, n = table_lr(attrs[ai], counts)
                 pieces.append({"attribute": ai, "log_lr": log_lr, "source": "table",
-                               "cause": ("table", ref, 0), "weight": attrs[ai]["lambda"],
+                               "cause": ("table", ref_items[ref]["name"], 0),
+                               "weight": attrs[ai]["lambda"],
                                "footing": "data" if n >= MIN_DATA_SUPPORT else "rule"})
         toks = tokens(it["name"])
         if "places" in sources and loc_ai is not None and loc_ai not in covered:
@@ -510,15 +355,14 @@ def gather(archive, priors_path, friends_csv=None, sources=ALL_SOURCES):
                     best = (rank, rule)
             if best is not None:
                 rule = best[1]
-                if any(st.get("level") for st in rule["stages"]) and find_patterns(
-                        [(p, None) for p in levels], toks):
+                if any(st.get("level") for st in rule["stages"]) and levels.find(toks):
                     raise ValueError(f"education levels are not handled here: {it['name']}")
                 since = (now - it["date"]) / YEAR_SECONDS
                 log_lr = life_stage_lr(rule, since, age_ranges, attrs[age_ai]["pi"])
                 if log_lr is not None:
                     lexicon_piece(age_ai, log_lr, "life-stages", "life-stages: " + rule["id"])
         strongest = {}
-        vocabulary = lex["vocabulary"] if "vocabulary" in sources else []
+        vocabulary = lex["vocabulary"] if "vocabulary" in sources else Phrases([])
         for _s, _e, _text, term in find_patterns(vocabulary, toks):
             ai = attr_by.get(term.get("attribute", "").lower())
             if ai is None or ai in covered:

@@ -10,8 +10,9 @@
 //!   table evidence (an inverse temperature: λ < 1 softens, λ > 1 sharpens); word-list
 //!   (lexicon) evidence and the friend list get their own fixed weights, never λ;
 //! - pieces that share a **cause** (the same lexicon rule pointing the same way, such as
-//!   every group name that mentions a place in Oregon; the same reference item matched
-//!   by two archive items) form a group. A group of `n` visible pieces with summed
+//!   every group name that mentions a place in Oregon; reference items of one name,
+//!   such as one item matched by two archive items, or a page and a group the priors
+//!   file lists under one name) form a group. A group of `n` visible pieces with summed
 //!   log-likelihood ratios `S` adds `w · f(n)/n · S` (`f(n) = 1 + ln n`: the mean piece
 //!   counted `f(n)` times). One piece counts in full; ten count like 3.3; thirty like
 //!   4.4. Each further piece adds less than the one before;
@@ -102,7 +103,8 @@ pub fn source_weight(origin: &Origin, lambda: f64) -> f64 {
 
 /// The cause a piece shares with others, if any: the lexicon rule (its `cause` when
 /// the source gives one, else its rule name) and the value it points to most; or the
-/// reference item a table piece comes from. Friends and marks stand alone.
+/// name of the reference item a table piece comes from (so reference items of one name
+/// share a cause). Friends and marks stand alone.
 fn cause_of(e: &Evidence) -> Option<Cause<'_>> {
     match &e.origin {
         Origin::Lexicon(rule) => {
