@@ -65,19 +65,34 @@ def parse_pattern(text):
     return parts
 
 
+def parse_year(tok):
+    """A `{year}` slot's word: two or four decimal digits (any script's); four-digit
+    years from 1300 to 2700. (value, digits) or None."""
+    if len(tok) not in (2, 4) or not all(unicodedata.decimal(c, None) is not None
+                                         for c in tok):
+        return None
+    value = int("".join(str(unicodedata.decimal(c)) for c in tok))
+    if len(tok) == 4 and not 1300 <= value <= 2700:
+        return None
+    return value, len(tok)
+
+
 def match_at(parts, toks, start):
+    """False when the pattern does not match at `start`; else the year its slot read
+    (None without a slot)."""
     if start + len(parts) > len(toks):
         return False
+    year = None
     for (kind, w), tok in zip(parts, toks[start:]):
         if kind == "word" and tok != w:
             return False
         if kind == "prefix" and not tok.startswith(w):
             return False
-        if kind == "year" and not (tok.isdigit() and len(tok) in (2, 4)):
-            return False
-    if any(kind == "year" for kind, _ in parts):
-        raise ValueError("{year} slots are not handled here: " + " ".join(toks))
-    return True
+        if kind == "year":
+            year = parse_year(tok)
+            if year is None:
+                return False
+    return year
 
 
 def longest(hits):
@@ -109,7 +124,7 @@ def find_inside(keys, max_chars, tok, index):
             if n == len(tok) or not unspaced(sub):
                 continue
             if keys.get(sub):
-                hits.append((index, index + 1, sub, keys[sub], at))
+                hits.append((index, index + 1, sub, keys[sub], at, None))
                 step = n
                 break
         at += step
@@ -129,14 +144,18 @@ class Phrases:
                 if unspaced(key):
                     self.max_unspaced = max(self.max_unspaced, len(key))
             else:
-                self.other.append((parts, value))
+                same = next((o for o in self.other if o[0] == parts), None)
+                if same:
+                    same[1].append(value)  # one pattern in several rules
+                else:
+                    self.other.append((parts, [value]))
         self.max_tokens = max([k.count(" ") + 1 for k in self.keys] +
                               [len(p) for p, _ in self.other] + [1])
 
     def values(self):
         """Every value, each once, in file order."""
         seen = {}
-        for values in list(self.keys.values()) + [[v] for _, v in self.other]:
+        for values in list(self.keys.values()) + [v for _, v in self.other]:
             for v in values:
                 seen.setdefault(id(v), v)
         return list(seen.values())
@@ -148,11 +167,12 @@ class Phrases:
             for n in range(1, min(self.max_tokens, len(toks) - start) + 1):
                 key = " ".join(toks[start:start + n])
                 if key in self.keys:
-                    hits.append((start, start + n, key, self.keys[key], 0))
-            for parts, value in self.other:
-                if match_at(parts, toks, start):
+                    hits.append((start, start + n, key, self.keys[key], 0, None))
+            for parts, values in self.other:
+                year = match_at(parts, toks, start)
+                if year is not False:
                     end = start + len(parts)
-                    hits.append((start, end, " ".join(toks[start:end]), [value], 0))
+                    hits.append((start, end, " ".join(toks[start:end]), values, 0, year))
         for i, tok in enumerate(toks):
             if self.max_unspaced and unspaced(tok):
                 hits += find_inside(self.keys, self.max_unspaced, tok, i)
@@ -160,8 +180,8 @@ class Phrases:
 
 
 def find_patterns(phrases, toks):
-    """(start, end, text, value) for every value of every match."""
-    return [(h[0], h[1], h[2], v) for h in phrases.find(toks) for v in h[3]]
+    """(start, end, text, value, year) for every value of every match."""
+    return [(h[0], h[1], h[2], v, h[5]) for h in phrases.find(toks) for v in h[3]]
 
 
 # ── The data files ───────────────────────────────────────────────────────────────────
@@ -182,14 +202,19 @@ def load_life_stages():
     patterns = []
     for rule in doc["rule"]:
         pats = rule["patterns"]
-        lists = pats.values() if isinstance(pats, dict) else [pats]
-        for lst in lists:
+        lists = pats.items() if isinstance(pats, dict) else [("", pats)]
+        for language, lst in lists:
+            calendar = CALENDARS.get(language, "gregorian")
             for p in lst:
-                patterns.append((parse_pattern(p), rule))
+                patterns.append((parse_pattern(p), (rule, calendar)))
     levels = []
-    for words in doc.get("levels", {}).values():
-        levels.extend((parse_pattern(w), None) for w in words)
+    for level, words in doc.get("levels", {}).items():
+        levels.extend((parse_pattern(w), level) for w in words)
     return Phrases(patterns), Phrases(levels)
+
+
+# The calendar a pattern's years are read in, by its language (docs/evidence.md, "When").
+CALENDARS = {"fa": "solar-hijri", "th": "buddhist", "ar": "hijri", "ur": "hijri"}
 
 
 class Gazetteer:
@@ -244,9 +269,9 @@ class Gazetteer:
             for n in range(1, min(self.max_tokens, len(toks) - start) + 1):
                 key = " ".join(toks[start:start + n])
                 if key in self.index:
-                    hits.append((start, start + n, key, self.index[key], 0))
+                    hits.append((start, start + n, key, self.index[key], 0, None))
         for i, tok in enumerate(toks):
             if unspaced(tok):
                 hits += find_inside(self.index, self.max_unspaced, tok, i)
         return [(text, refs, end - start == 1 and text in self.common)
-                for start, end, text, refs, _offset in longest(hits)]
+                for start, end, text, refs, _offset, _year in longest(hits)]

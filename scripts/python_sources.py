@@ -2,17 +2,18 @@
 alone (docs/evidence.md and docs/model-card.md are the spec; numpy does the arithmetic).
 None of telltale's code is used (python_lexicons.py reads the word lists, and
 python_archive.py the archive and friends file): the script reads the same data files
-telltale compiles in (reference-priors/lexicons/*.toml, gazetteer.tsv, common-words.txt), the priors JSON,
-the archive zip (layout L, as `telltale synth large` writes it) and a friends CSV.
+telltale compiles in (reference-priors/lexicons/*.toml, gazetteer.tsv,
+common-words.txt), the priors JSON, the archive zip (layout L, as `telltale synth large`
+writes it) and a friends CSV.
 
 What it recomputes, each from the section of docs/evidence.md named:
 - `table`: smoothed likelihood ratios (c + a)/(n·μ + a), a = α·μ + k ("`table`"), the
   counts of a noisy file first discounted (docs/priors.md, "Noisy counts");
 - `places`: place names found on name keys in the gazetteer, candidates weighted by
   population, L(v) = c·(s·q(v)/π(v) + 1 − s + s·q_out) + (1 − c) ("`places`");
-- `life-stages`: the rule's ages plus the years since the join date, spread uniformly and
-  cut into the bands, D = c·P + (1 − c)·π ("`life-stages`"); only rules without a
-  `{year}` slot or level words are handled (the check's archives use no others);
+- `life-stages`: the rule's ages (narrowed by education-level words) plus the years
+  since the year named (in the pattern's calendar) or the join date, spread uniformly
+  and cut into the bands, D = c·P + (1 − c)·π ("`life-stages`"); each item on its own;
 - `vocabulary`: stated ratios (`lean`) or members' shares (`members`), the strongest
   term per attribute ("`vocabulary`");
 - `friends`: the weighted vote smoothed with one pseudo-friend per value ("`friends`");
@@ -21,13 +22,14 @@ What it recomputes, each from the section of docs/evidence.md named:
   "Combining evidence"; docs/evidence.md, "How sources are combined").
 
 Not handled (the check's archives avoid them, and the script refuses them rather than
-guess): `{year}` slots, education levels, aliases in the priors, logistic calibration,
-`--home-levels`.
+guess): aliases in the priors, logistic calibration, `--home-levels`.
 """
 
 import json
 import math
 import re
+
+from datetime import datetime, timezone
 
 import numpy as np
 
@@ -40,6 +42,7 @@ LOCALITY_SHARE = 0.25  # s, "`places`" (common practice, no source)
 CONF_PHRASE, CONF_WORD, CONF_COMMON = 0.9, 0.7, 0.1  # c of a place match
 YEAR_SECONDS = 365.2425 * 86400.0  # the Gregorian year
 OLDEST_AGE = 120.0  # end of an open band
+MAX_YEARS_AHEAD = 8.0  # two-digit years and stages in the future
 CEILING = 0.85  # rules-of-thumb ceiling
 MIN_DATA_SUPPORT = 1.0  # table evidence worth fewer members counts as a rule of thumb
 LEXICON_WEIGHT = FRIENDS_WEIGHT = 1.0
@@ -60,20 +63,6 @@ def lexicons():
         _LEXICONS["life-stages"] = load_life_stages()
         _LEXICONS["gazetteer"] = Gazetteer()
     return _LEXICONS
-
-
-def handled(name):
-    """Whether this script can read a name: no `{year}` slot matched, no
-    education-level words beside a life-stage match."""
-    lex = lexicons()
-    toks = tokens(name)
-    try:
-        lex["gazetteer"].mentions(toks)
-        find_patterns(lex["vocabulary"], toks)
-        stages = find_patterns(lex["life-stages"][0], split_digits(toks))
-    except ValueError:
-        return False
-    return not (stages and lex["life-stages"][1].find(toks))
 
 
 # ── Priors ───────────────────────────────────────────────────────────────────────────
@@ -236,11 +225,42 @@ def age_attribute(attrs):
     return None, None
 
 
-def life_stage_lr(rule, since, ranges, pi):
+def calendar_year(year, calendar, now):
+    """docs/evidence.md, "When": the Gregorian year a `{year}` slot means, or None."""
+    value, digits = year
+    ahead = datetime.fromtimestamp(now, timezone.utc).year + MAX_YEARS_AHEAD
+
+    def gregorian(v):
+        if calendar == "solar-hijri" and v < 1700:
+            v = v + 621
+        elif calendar == "buddhist" and v >= 2400:
+            v = v - 543
+        elif calendar == "hijri" and v < 1500:
+            v = 622 + round(v * 32 / 33)
+        return v if 1900 <= v <= 2100 else None
+
+    if digits == 4:
+        return gregorian(value)
+    centuries = {"solar-hijri": [1400, 1300], "buddhist": [2500]}.get(calendar)
+    if centuries is None:
+        this = (ahead - MAX_YEARS_AHEAD) // 100 * 100
+        return this + value if this + value <= ahead else this - 100 + value
+    for c in centuries:
+        g = gregorian(c + value)
+        if g is not None and g <= ahead:
+            return g
+    return None
+
+
+def mid_year(year):
+    """1 July of a year (UTC), for a year named without a date."""
+    return int(datetime(year, 7, 1, tzinfo=timezone.utc).timestamp())
+
+
+def life_stage_lr(confidence, stages, since, ranges, pi):
     """Ages + years since, uniform over each stage's span [from, to + 1), cut into the
     bands (what falls outside every band is dropped, the rest renormalised); then
     D = c·P + (1 − c)·π, L = D/π."""
-    stages = rule["stages"]
     wsum = sum(st.get("weight", 1.0) for st in stages)
     shares = np.zeros(len(ranges))
     for st in stages:
@@ -250,7 +270,7 @@ def life_stage_lr(rule, since, ranges, pi):
     if shares.sum() <= 1e-9:
         return None
     p = shares / shares.sum()
-    c = rule["confidence"]
+    c = confidence
     d = c * p + (1 - c) * pi
     d = d / d.sum()
     return np.log(d / pi)
@@ -349,21 +369,30 @@ def gather(archive, priors_path, friends_csv=None, sources=ALL_SOURCES):
         if "life-stages" in sources and age_ai is not None and age_ai not in covered:
             patterns, levels = lex["life-stages"]
             best = None
-            for _s, _e, text, rule in find_patterns(patterns, split_digits(toks)):
-                rank = (rule["confidence"], len(text.encode()))
+            words = split_digits(toks)
+            for _s, _e, text, (rule, calendar), year in find_patterns(patterns, words):
+                rank = (rule["confidence"], year is not None, len(text.encode()))
                 if best is None or rank >= best[0]:
-                    best = (rank, rule)
+                    best = (rank, rule, calendar, year)
             if best is not None:
-                rule = best[1]
-                if any(st.get("level") for st in rule["stages"]) and levels.find(toks):
-                    raise ValueError(f"education levels are not handled here: {it['name']}")
-                since = (now - it["date"]) / YEAR_SECONDS
-                log_lr = life_stage_lr(rule, since, age_ranges, attrs[age_ai]["pi"])
-                if log_lr is not None:
-                    lexicon_piece(age_ai, log_lr, "life-stages", "life-stages: " + rule["id"])
+                _rank, rule, calendar, year = best
+                named = calendar_year(year, calendar, now) if year else None
+                when = mid_year(named) if named is not None else it["date"]
+                since = (now - when) / YEAR_SECONDS
+                found = {v for h in levels.find(words) for v in h[3]}
+                stages = rule["stages"]
+                if len(found) == 1:
+                    narrowed = [st for st in stages if st.get("level") in found]
+                    stages = narrowed or stages
+                if since >= -MAX_YEARS_AHEAD:
+                    log_lr = life_stage_lr(rule["confidence"], stages, since, age_ranges,
+                                           attrs[age_ai]["pi"])
+                    if log_lr is not None:
+                        lexicon_piece(age_ai, log_lr, "life-stages",
+                                      "life-stages: " + rule["id"])
         strongest = {}
         vocabulary = lex["vocabulary"] if "vocabulary" in sources else Phrases([])
-        for _s, _e, _text, term in find_patterns(vocabulary, toks):
+        for _s, _e, _text, term, _year in find_patterns(vocabulary, toks):
             ai = attr_by.get(term.get("attribute", "").lower())
             if ai is None or ai in covered:
                 continue
