@@ -22,7 +22,7 @@ What it recomputes, each from the section of docs/evidence.md named:
   "Combining evidence"; docs/evidence.md, "How sources are combined").
 
 Not handled (the check's archives avoid them, and the script refuses them rather than
-guess): aliases in the priors, logistic calibration, `--home-levels`.
+guess): logistic calibration, `--home-levels`.
 """
 
 import json
@@ -86,8 +86,6 @@ def load_priors(path):
             "lambda": cal["lambda"],
         })
     items = doc["items"]
-    if any(it.get("aliases") for it in items):
-        raise ValueError("aliases are not handled here")
     variance = noise_variance(doc.get("provenance", {}).get("privacy"))
     for a in attrs:
         a["noise_variance"] = variance
@@ -322,11 +320,13 @@ def gather(archive, priors_path, friends_csv=None, sources=ALL_SOURCES):
         friends = merge_friends_file(friends_csv, friends, attrs)
     dates = [it["date"] for it in items] + [f["date"] for f in friends if f["date"]]
     now = max(dates)
-    by_id, by_name = {}, {}
+    by_id, by_name, by_alias = {}, {}, {}
     for i, it in enumerate(ref_items):
         if it.get("id") is not None:
             by_id.setdefault(it["id"], i)
         by_name.setdefault(name_key(it["name"]), []).append(i)
+        for alias in it.get("aliases") or []:
+            by_alias.setdefault(name_key(alias), []).append(i)
 
     def supported(i):
         return max((sum(c) for c in ref_items[i]["members"].values()), default=0.0)
@@ -345,7 +345,8 @@ def gather(archive, priors_path, friends_csv=None, sources=ALL_SOURCES):
     for it in items:
         ref = by_id.get(it["id"]) if it["id"] is not None else None
         if ref is None:
-            cands = by_name.get(name_key(it["name"]))
+            key = name_key(it["name"])
+            cands = (by_name.get(key) or by_alias.get(key)) if key else None
             if cands:
                 ref = max(cands, key=lambda i: (ref_items[i].get("kind") == it["kind"],
                                                 supported(i), -i))

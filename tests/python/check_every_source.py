@@ -229,7 +229,8 @@ def personas(tmp):
     #    discounted to the members they are worth, docs/priors.md); one reference item
     #    so small it is worth under one member, so age band and location rest on rules
     #    of thumb though the table matched it; two reference items of one name (a page
-    #    and a group), which form one cause group (docs/evidence.md, item 6).
+    #    and a group), which form one cause group (docs/evidence.md, item 6); a like
+    #    matched by one of a reference item's aliases.
     pri = os.path.join(tmp, "ke.json")
     make_priors(pri, COUNTRIES + ["KE", "UG", "TZ"], 15,
                 {"age_band": 1.2, "location": 1.1, "politics": 0.95, "religion": 1.25},
@@ -241,6 +242,7 @@ def personas(tmp):
         "mechanism": "discrete_laplace", "epsilon": 4.0, "sensitivity": 10.0,
         "min_members": 10, "budget_split": "invented for the check",
         "item_noise_variance": 150.0}
+    doc["items"][0]["aliases"] = ["Wakulima wa Kilimo Bora", "Kilimo Bora Farmers"]
     rng = np.random.default_rng(15)
     for i, item in enumerate(doc["items"]):
         keep = {0: ["politics"], 1: ["age_band", "location", "religion", "politics"],
@@ -256,7 +258,7 @@ def personas(tmp):
               ("Wastaafu wa Kisumu", "2018-08-08T10:00:00Z"),
               ("Kisumu Church Choir", "2021-06-06T10:00:00Z"),
               ("Kisumu Lakeside Runners", "2022-01-01T10:00:00Z")]
-    make_archive(arc, [("ref-0", "Kilimo Bora Wakulima", 1735000000),
+    make_archive(arc, [("ref-9", "Kilimo Bora Farmers", 1735000000),
                        ("ref-1", "Matatu Culture Fans", 1736000000),
                        ("ref-2", "Jazz ya Jumapili", 1737000000)], groups, [])
     out.append(("Kisumu (Swahili, noisy priors)", arc, pri, None, {"rules_only", "noisy"}))
