@@ -11,6 +11,9 @@
 use crate::evidence::Subject;
 use crate::infer::{Exposure, Posterior};
 
+mod memo;
+pub use memo::{Alike, Memo};
+
 /// What one subject does to one attribute's best guess.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct Effect {
@@ -199,3 +202,6 @@ mod tests {
         assert!(after.bits * after.drop_if_hidden() >= 0.0);
     }
 }
+
+#[cfg(test)]
+mod memo_tests;

@@ -141,6 +141,8 @@ pub struct Exposure {
     grouping: Grouping,
     groups: Vec<GroupState>,
     tallies: Vec<Tally>,
+    /// Which subjects' evidence is the same piece for piece, found on first use.
+    alike: std::sync::OnceLock<crate::effect::Alike>,
 }
 
 impl Exposure {
@@ -178,6 +180,7 @@ impl Exposure {
             hidden: vec![false; n_subjects],
             grouping,
             groups,
+            alike: std::sync::OnceLock::new(),
         };
         x.recompute();
         x
@@ -255,6 +258,13 @@ impl Exposure {
 
     fn of_slot(&self, s: usize) -> &[usize] {
         &self.by_subject[self.starts[s] as usize..self.starts[s + 1] as usize]
+    }
+
+    /// Which subjects' evidence is the same piece for piece (so their figures are
+    /// too, [`crate::effect::Memo`]); found once, on first use: it depends only on the
+    /// evidence, which never changes.
+    pub fn alike(&self) -> &crate::effect::Alike {
+        self.alike.get_or_init(|| crate::effect::Alike::new(self))
     }
 
     /// How the evidence is grouped by shared cause, with each piece's source weight.

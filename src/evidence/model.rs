@@ -250,6 +250,13 @@ impl Evidence {
         self.numbers[self.numbers.len() - 1]
     }
 
+    /// Whether two pieces hold the very same numbers (one shared allocation, as
+    /// [`Evidence::about`] and [`Evidence::sharing`] make): then every figure worked
+    /// out from them is the same, bit for bit.
+    pub fn numbers_id(&self) -> usize {
+        Arc::as_ptr(&self.numbers) as *const f64 as usize
+    }
+
     /// The value this evidence points to most (highest likelihood ratio).
     pub fn leaning(&self) -> usize {
         crate::stats::argmax(self.log_lr()).0

@@ -3,15 +3,16 @@
 //! rows; the JSON writer streams them from here instead of holding them all, and the
 //! text, Markdown and HTML reports make only the few they show.
 
+use std::cell::RefCell;
 use std::collections::HashMap;
 use std::sync::Arc;
 
 use serde::ser::{Serialize, SerializeSeq, Serializer};
 
-use crate::effect::effect_given;
+use crate::effect::Memo;
 use crate::evidence::{LexiconRule, Origin, Subject};
 use crate::footprint::Footprint;
-use crate::infer::{Exposure, Posterior};
+use crate::infer::Exposure;
 use crate::priors::Priors;
 
 use super::build::ItemReport;
@@ -39,8 +40,9 @@ pub struct Rows<'a> {
     footprint: &'a Footprint,
     exposure: &'a Exposure,
     attrs: Vec<AttrStrings>,
-    /// Each attribute's posterior now (every row's figure is measured against it).
-    posteriors: Vec<Posterior>,
+    /// Each row's figure, measured against each attribute's posterior now; items
+    /// sharing evidence have theirs worked out once ([`Memo`]).
+    effects: RefCell<Memo<'a>>,
     /// Report order: indices into the evidence list (visible subjects only). A row's
     /// figures are worked out when it is made, so a large archive's rows cost four
     /// bytes each until then.
@@ -58,9 +60,7 @@ impl<'a> Rows<'a> {
                 value_labels: a.values.iter().map(|v| v.label.as_str().into()).collect(),
             })
             .collect();
-        let posteriors: Vec<Posterior> = (0..priors.attributes.len())
-            .map(|a| exposure.posterior(a))
-            .collect();
+        let mut effects = Memo::new(exposure);
         let list = &exposure.evidence().list;
         // Most bits toward the guess first (the leave-one-out figure of
         // [`crate::effect`]), then the most informative; ties go by attribute, then by
@@ -70,7 +70,7 @@ impl<'a> Rows<'a> {
             .map(|i| {
                 let e = &list[i];
                 let a = e.attribute();
-                let bits = effect_given(exposure, a, e.subject(), &posteriors[a]).bits;
+                let bits = effects.effect(a, e.subject()).bits;
                 (bits, e.info_bits(), e.attribute(), i as u32)
             })
             .collect();
@@ -85,7 +85,7 @@ impl<'a> Rows<'a> {
             footprint,
             exposure,
             attrs,
-            posteriors,
+            effects: RefCell::new(effects),
             order,
         }
     }
@@ -112,7 +112,7 @@ impl<'a> Rows<'a> {
         let strings = &self.attrs[ai];
         // Leave-one-out: what all of this subject's evidence for the attribute does to
         // the best guess.
-        let fx = effect_given(self.exposure, ai, e.subject(), &self.posteriors[ai]);
+        let fx = self.effects.borrow_mut().effect(ai, e.subject());
         let (name, kind, date) = match e.subject() {
             Subject::Item(i) => {
                 let it = &self.footprint.items[i];

@@ -121,7 +121,7 @@ pub struct ItemRow {
 /// The rows for a query.
 pub fn item_rows(s: &Session, q: &RowQuery) -> Vec<ItemRow> {
     let x = s.exposure();
-    let posteriors: Vec<_> = (0..s.n_attributes()).map(|a| x.posterior(a)).collect();
+    let mut effects = crate::effect::Memo::new(x);
     let needle = name_key(&q.search);
     let fp = s.footprint();
     let mut rows = Vec::with_capacity(fp.items.len() + 1);
@@ -153,7 +153,7 @@ pub fn item_rows(s: &Session, q: &RowQuery) -> Vec<ItemRow> {
             {
                 continue;
             }
-            let fx = crate::effect::effect_given(x, a, subject, &posteriors[a]);
+            let fx = effects.effect(a, subject);
             if chosen.is_none_or(|(_, best, _)| fx.bits > best) {
                 chosen = Some((ei, fx.bits, fx.points_to));
             }
