@@ -6,7 +6,7 @@ use crossterm::event::{KeyCode, KeyEvent, KeyModifiers};
 use telltale::decisions::Mark;
 use telltale::evidence::Subject;
 use telltale::plan::Method;
-use telltale::whatif::{ItemRow, RowQuery, Session, item_rows};
+use telltale::whatif::{ItemRow, RowQuery, Session, item_rows, sort_rows};
 
 use super::keys::{Action, action_for};
 pub use super::state::{Effect, ExportFormat, Goal, Overlay, PlanResult, PlanState, Screen};
@@ -113,6 +113,26 @@ impl App {
             .and_then(|s| self.row_at[slot(s, n_items)])
             .map_or(self.item_cursor, |i| i as usize)
             .min(self.rows.len().saturating_sub(1));
+    }
+
+    /// Put the item list in the query's new order, from the top. The rows are up to
+    /// date unless marks changed since they were made (then it is rebuilt); only their
+    /// order changes, so they are sorted again rather than worked out again.
+    pub fn resort(&mut self) {
+        if self
+            .session
+            .take_changed()
+            .is_none_or(|list| !list.is_empty())
+        {
+            self.requery();
+            return;
+        }
+        sort_rows(&self.session, &mut self.rows, self.query.sort);
+        let n_items = self.session.footprint().items.len();
+        for (i, r) in self.rows.iter().enumerate() {
+            self.row_at[slot(r.subject, n_items)] = Some(i as u32);
+        }
+        self.item_cursor = 0;
     }
 
     /// Rebuild the item list for a changed query (order, filter, search) and start at
@@ -399,7 +419,7 @@ impl App {
             }
             Action::CycleSort => {
                 self.query.sort = self.query.sort.next();
-                self.requery();
+                self.resort();
             }
             Action::Search => self.searching = true,
             Action::ClearFilters => {

@@ -811,6 +811,8 @@ fn item_list_updated_in_place_equals_a_rebuild() {
             assert_eq!(app.rows, rebuilt, "after {keys:?} in order {order}");
         }
         press(&mut app, "o");
+        let rebuilt = telltale::whatif::item_rows(&app.session, &app.query);
+        assert_eq!(app.rows, rebuilt, "re-sorted into order {}", order + 1);
     }
     assert!(app.session.hidden_count() > 0 && app.session.kept_count() > 0);
 }

@@ -14,5 +14,5 @@ mod session;
 pub use detail::{AttributeChange, EvidenceView, ItemDetail, ValueBar, item_detail};
 pub use overview::{AttributeSummary, overview};
 pub use plan::{PLAN_TIME_LIMIT, PlanAsk};
-pub use rows::{ItemRow, KindFilter, RowQuery, SortBy, item_rows};
+pub use rows::{ItemRow, KindFilter, RowQuery, SortBy, item_rows, sort_rows};
 pub use session::{Session, subject_name};

@@ -190,10 +190,18 @@ pub fn item_rows(s: &Session, q: &RowQuery) -> Vec<ItemRow> {
         };
         rows.push(row);
     }
+    sort_rows(s, &mut rows, q.sort);
+    rows
+}
+
+/// Put rows in `by`'s order. The order is total (ties break by archive order), so rows
+/// made for one query and sorted again for another order are the very list
+/// [`item_rows`] gives for that order: the figures do not depend on the order.
+pub fn sort_rows(s: &Session, rows: &mut [ItemRow], by: SortBy) {
     // Items nothing is known about go last; ties break by archive order, so the
     // order is total and the same every time.
     let unknown = |r: &ItemRow| r.attribute.is_none();
-    match q.sort {
+    match by {
         SortBy::Revealing => rows.sort_unstable_by(|a, b| {
             unknown(a)
                 .cmp(&unknown(b))
@@ -222,7 +230,6 @@ pub fn item_rows(s: &Session, q: &RowQuery) -> Vec<ItemRow> {
                 .then(a.subject.cmp(&b.subject))
         }),
     }
-    rows
 }
 
 #[cfg(test)]
