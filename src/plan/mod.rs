@@ -22,6 +22,7 @@ mod exact;
 mod explain;
 mod greedy;
 mod html;
+mod improve;
 mod outcome;
 mod problem;
 mod render;

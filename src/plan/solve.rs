@@ -9,6 +9,7 @@ use super::coarse::{evaluate, states};
 use super::exact::search;
 use super::explain::explain;
 use super::greedy::greedy;
+use super::improve::improve;
 use super::outcome::{GreedySummary, HideItem, Plan, PlanOutcome, Reason, SearchStats, Status};
 use super::problem::{Problem, validate};
 use super::request::{Budget, Error, Method, PlanRequest, Progress};
@@ -59,7 +60,18 @@ pub fn solve_with_progress(
             (greedy_plan.clone(), status, lb, None, 0)
         }
         Method::Exact => {
+            // Greedy's plan, improved by local search (on footprints of up to
+            // IMPROVE_UP_TO candidates, with at most a third of the time left).
             let warm = greedy_plan.clone().map(|g| {
+                let g = if p.n() <= IMPROVE_UP_TO {
+                    let budget = Budget {
+                        deadline: request.budget.deadline.map(a_third_to),
+                        ..request.budget.clone()
+                    };
+                    improve(&p, g, &budget)
+                } else {
+                    g
+                };
                 let c = p.cost_of(&g);
                 (g, c)
             });
@@ -127,6 +139,17 @@ pub fn solve_with_progress(
         infeasibility,
         stats,
     })
+}
+
+/// Footprints up to this many candidates get greedy's plan improved by local search
+/// before the exact search (each round of moves is quadratic in the plan's size times
+/// the candidates; on larger ones the time goes to the search's first bound).
+const IMPROVE_UP_TO: usize = 2_000;
+
+/// A third of the way from now to `deadline` (now, if it has passed).
+fn a_third_to(deadline: Instant) -> Instant {
+    let now = Instant::now();
+    now + deadline.saturating_duration_since(now) / 3
 }
 
 /// Three quarters of the way from now to `deadline` (now, if it has passed).
