@@ -33,6 +33,40 @@ pub fn count(n: usize, one: &str, many: &str) -> String {
     format!("{n} {}", if n == 1 { one } else { many })
 }
 
+/// What feeds an attribute, in words: "no evidence", "fed by 1 piece of evidence",
+/// "fed by 12 pieces of evidence" (the reports' line under each attribute).
+pub fn fed_by(feeding: usize) -> String {
+    if feeding == 0 {
+        "no evidence".into()
+    } else {
+        format!(
+            "fed by {}",
+            count(feeding, "piece of evidence", "pieces of evidence")
+        )
+    }
+}
+
+/// How many of the pieces of evidence feeding an attribute point to its guess, in
+/// words, the verb agreeing with the count: "no evidence", "its one piece of evidence
+/// does not support it", "none of the 3 pieces of evidence supports it", "1 of 5 pieces
+/// of evidence supports it", "80 of 151 pieces of evidence support it", "all 3 pieces
+/// of evidence support it", "its one piece of evidence supports it". With
+/// `of_evidence` false, "of evidence" is left out ("none of the 3 pieces supports it")
+/// for a short line; "no evidence" stays as it is.
+pub fn support_phrase(supporting: usize, feeding: usize, of_evidence: bool) -> String {
+    let of = if of_evidence { " of evidence" } else { "" };
+    let supporting = supporting.min(feeding);
+    match (supporting, feeding) {
+        (_, 0) => "no evidence".into(),
+        (0, 1) => format!("its one piece{of} does not support it"),
+        (1, 1) => format!("its one piece{of} supports it"),
+        (0, n) => format!("none of the {n} pieces{of} supports it"),
+        (k, n) if k == n => format!("all {n} pieces{of} support it"),
+        (1, n) => format!("1 of {n} pieces{of} supports it"),
+        (k, n) => format!("{k} of {n} pieces{of} support it"),
+    }
+}
+
 /// Percentage with sensible precision: "68%", "1.8%", "0.04%".
 pub fn percent(p: f64) -> String {
     let x = p * 100.0;
@@ -356,6 +390,40 @@ mod tests {
             count(1, "piece of evidence", "pieces of evidence"),
             "1 piece of evidence"
         );
+    }
+
+    /// Singular and plural agree with the count, and an attribute with nothing
+    /// feeding it says so plainly (English grammar: "none of the N … supports", common
+    /// practice, no source).
+    #[test]
+    fn support_counts_read_plainly() {
+        assert_eq!(support_phrase(0, 0, true), "no evidence");
+        assert_eq!(support_phrase(0, 0, false), "no evidence");
+        assert_eq!(
+            support_phrase(0, 1, true),
+            "its one piece of evidence does not support it"
+        );
+        assert_eq!(support_phrase(1, 1, false), "its one piece supports it");
+        assert_eq!(
+            support_phrase(0, 3, true),
+            "none of the 3 pieces of evidence supports it"
+        );
+        assert_eq!(
+            support_phrase(0, 3, false),
+            "none of the 3 pieces supports it"
+        );
+        assert_eq!(
+            support_phrase(1, 5, true),
+            "1 of 5 pieces of evidence supports it"
+        );
+        assert_eq!(
+            support_phrase(80, 151, true),
+            "80 of 151 pieces of evidence support it"
+        );
+        assert_eq!(support_phrase(3, 3, false), "all 3 pieces support it");
+        assert_eq!(fed_by(0), "no evidence");
+        assert_eq!(fed_by(1), "fed by 1 piece of evidence");
+        assert_eq!(fed_by(12), "fed by 12 pieces of evidence");
     }
 
     #[test]

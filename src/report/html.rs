@@ -184,8 +184,8 @@ fn write_attribute(a: &AttributeReport, out: &mut dyn Write) -> io::Result<()> {
     writeln!(out, "<p>{}</p>", escape(&a.reading))?;
     writeln!(
         out,
-        "<p class=\"meta\">Fed by {}. Alert level {}.{}</p>",
-        count(a.feeding, "piece of evidence", "pieces of evidence"),
+        "<p class=\"meta\">{}. Alert level {}.{}</p>",
+        capitalised(&crate::reading::fed_by(a.feeding)),
         percent(a.threshold),
         a.special_category
             .as_deref()
@@ -318,6 +318,15 @@ fn write_items(r: &ScanReport, top: usize, out: &mut dyn Write) -> io::Result<()
             .collect::<Vec<_>>()
             .join(" ")
     )
+}
+
+/// The sentence with its first letter a capital ("no evidence" → "No evidence").
+fn capitalised(s: &str) -> String {
+    let mut chars = s.chars();
+    match chars.next() {
+        Some(c) => c.to_uppercase().chain(chars).collect(),
+        None => String::new(),
+    }
 }
 
 #[cfg(test)]

@@ -118,10 +118,10 @@ pub fn write_text(r: &ScanReport, opts: TextOptions, out: &mut dyn Write) -> io:
             p.level(&a.level),
         )?;
         let detail = format!(
-            "population rate {} · alert level {} · fed by {}",
+            "population rate {} · alert level {} · {}",
             percent(a.base_rate),
             percent(a.threshold),
-            count(a.feeding, "piece of evidence", "pieces of evidence")
+            crate::reading::fed_by(a.feeding)
         );
         writeln!(out, "{}", p.dim(&format!("    {detail}")))?;
         writeln!(out, "{}", wrap_words(&a.reading, 74, "    "))?;

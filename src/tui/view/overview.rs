@@ -6,7 +6,7 @@ use ratatui::Frame;
 use ratatui::layout::Rect;
 use ratatui::text::{Line, Span};
 use ratatui::widgets::Paragraph;
-use telltale::reading::{count, percent};
+use telltale::reading::{percent, support_phrase};
 use telltale::whatif::overview;
 
 use super::widgets::{bar, cell, fit, wrap};
@@ -30,7 +30,8 @@ pub fn render(app: &App, frame: &mut Frame, area: Rect, theme: Theme) {
             theme.title()
         };
         // Facts beside the name: what feeds it, how it changed, your real value.
-        // The verb agrees with the first number: "1 of 5 pieces of evidence supports it".
+        // The verb agrees with the count: "1 of 5 pieces of evidence supports it",
+        // "none of the 3 pieces of evidence supports it", "no evidence".
         let label_w = 18.min(w / 4);
         let facts_w = w.saturating_sub(2 + label_w + 1 + tag.chars().count() + 1);
         let mut facts = vec![if s.only_friend_list {
@@ -47,18 +48,12 @@ pub fn render(app: &App, frame: &mut Frame, area: Rect, theme: Theme) {
             // it"): one item can give several (the reference table and a place name),
             // and the friend list gives some too. Where the line is short, "of
             // evidence" is left out so that "before hiding" still fits at 80 columns.
-            let verb = if s.supporting == 1 {
-                "supports"
-            } else {
-                "support"
-            };
-            let pieces = count(s.feeding, "piece", "pieces");
-            let long = format!("{} of {pieces} of evidence {verb} it", s.supporting);
+            let long = support_phrase(s.supporting, s.feeding, true);
             let room = facts_w.saturating_sub(" · before hiding 100%".len());
             if long.chars().count() <= room {
                 long
             } else {
-                format!("{} of {pieces} {verb} it", s.supporting)
+                support_phrase(s.supporting, s.feeding, false)
             }
         }];
         if percent(s.baseline_probability) != percent(s.probability)
