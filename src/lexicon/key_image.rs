@@ -1,5 +1,5 @@
 //! A read-only table of phrase keys laid out as bytes, so that a large bundled list
-//! (the gazetteer's 250,000 names) is compiled into the binary ready to search and
+//! (the gazetteer's 282,000 names) is compiled into the binary ready to search and
 //! costs nothing to load. build.rs compiles this same file to write the table; the
 //! library reads it in place. Kept free of the rest of the crate for that reason.
 //!
