@@ -816,3 +816,56 @@ fn item_list_updated_in_place_equals_a_rebuild() {
     }
     assert!(app.session.hidden_count() > 0 && app.session.kept_count() > 0);
 }
+
+/// An item with two pieces of evidence about one attribute (with the home levels, the
+/// reference table's and a place name's about the home region) shows the attribute's
+/// figure once, with how many pieces it covers, and names the second piece's source
+/// instead of repeating the figure as if it were a second, separate one.
+#[test]
+fn detail_gives_an_attributes_figure_once_for_several_pieces() {
+    let mut priors = load_priors(None).unwrap();
+    let mut input = ScanInput {
+        archive: std::path::Path::new(env!("CARGO_MANIFEST_DIR"))
+            .join("demo-exports")
+            .join("teacher"),
+        ..ScanInput::default()
+    };
+    input.sources.home_levels = true;
+    let scan = Scan::run(&input, &mut priors).unwrap();
+    let fp = scan.footprint.fingerprint.clone();
+    let session = Session::open(scan, priors, &Decisions::new(&fp));
+    // The first item with two pieces about one attribute.
+    let (subject, label) = session
+        .subjects()
+        .find_map(|s| {
+            let d = telltale::whatif::item_detail(&session, s);
+            d.evidence.iter().enumerate().find_map(|(i, e)| {
+                d.evidence[i + 1..]
+                    .iter()
+                    .any(|f| f.attribute == e.attribute)
+                    .then(|| (s, e.attribute_label.clone()))
+            })
+        })
+        .expect("the teacher has an item with two pieces about one attribute");
+    let mut app = App::new(session);
+    app.screen = Screen::Detail(subject);
+    let screen = draw(&app, 160, 80);
+    let headers: Vec<&str> = screen
+        .lines()
+        .filter(|l| l.starts_with(&format!("  {label} — ")))
+        .collect();
+    assert_eq!(headers.len(), 2, "{screen}");
+    assert_eq!(
+        headers.iter().filter(|l| l.contains("adds")).count(),
+        1,
+        "the figure once: {headers:?}"
+    );
+    assert!(
+        headers[0].contains("2 pieces of evidence together"),
+        "{headers:?}"
+    );
+    assert!(
+        headers[1].contains("counted in the figure above"),
+        "{headers:?}"
+    );
+}

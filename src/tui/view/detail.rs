@@ -134,18 +134,43 @@ pub fn lines(app: &App, subject: Subject, width: u16, theme: Theme) -> Vec<Line<
 
     let label_w = 14.min(w / 5);
     let bar_w = (w.saturating_sub(label_w + 4 + 2 * 6 + 4) / 2).clamp(4, 30);
-    // Most telling first.
+    // Most telling first. An item may hold several pieces about one attribute (the
+    // reference table's and a place name's about the home region): they sit together,
+    // and the figure, which is the item's for the attribute with all its pieces, is
+    // given once, on the first.
     let mut evidence: Vec<_> = d.evidence.iter().collect();
-    evidence.sort_by(|a, b| b.contribution_bits.total_cmp(&a.contribution_bits));
+    evidence.sort_by(|a, b| {
+        b.contribution_bits
+            .total_cmp(&a.contribution_bits)
+            .then(a.attribute.cmp(&b.attribute))
+    });
+    let pieces_about = |a: usize| d.evidence.iter().filter(|e| e.attribute == a).count();
+    let mut headed: Vec<usize> = Vec::new();
     for ev in evidence {
         out.push(Line::raw(""));
+        let n = pieces_about(ev.attribute);
+        let phrase = if headed.contains(&ev.attribute) {
+            format!(
+                "another piece of evidence about it, from {}; counted in the figure above",
+                source_words(ev.source)
+            )
+        } else {
+            headed.push(ev.attribute);
+            let effect = telltale::reading::effect_phrase(&ev.leaning_label, ev.contribution_bits);
+            if n > 1 {
+                format!(
+                    "{effect} ({} together; this one from {})",
+                    telltale::reading::count(n, "piece of evidence", "pieces of evidence"),
+                    source_words(ev.source)
+                )
+            } else {
+                effect
+            }
+        };
         out.push(fit(
             Line::from(vec![
                 Span::styled(format!("  {}", ev.attribute_label), theme.title()),
-                Span::raw(format!(
-                    " — {}",
-                    telltale::reading::effect_phrase(&ev.leaning_label, ev.contribution_bits)
-                )),
+                Span::raw(format!(" — {phrase}")),
             ]),
             w,
         ));
@@ -244,6 +269,17 @@ pub fn render(app: &App, subject: Subject, frame: &mut Frame, area: Rect, theme:
     let max_scroll = lines.len().saturating_sub(area.height as usize) as u16;
     let scroll = app.detail_scroll.min(max_scroll);
     frame.render_widget(Paragraph::new(lines).scroll((scroll, 0)), area);
+}
+
+/// Where a piece of evidence comes from, in words ("the reference table").
+fn source_words(source: &str) -> &'static str {
+    match source {
+        "priors" => "the reference table",
+        "lexicon" => "the word lists",
+        "friends" => "your friend list",
+        "mark" => "your own marking",
+        _ => "another source",
+    }
 }
 
 /// What stands behind a piece of evidence, in words: members counted in the reference
