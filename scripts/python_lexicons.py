@@ -11,18 +11,36 @@ ROOT = os.path.dirname(os.path.dirname(os.path.abspath(__file__)))
 LEXICONS = os.path.join(ROOT, "reference-priors", "lexicons")
 MIN_ASCII_CHARS, MIN_OTHER_CHARS = 3, 2  # shortest place name matched
 
-_SEP = re.compile(r"[^\w]+|_+")
+# The combining marks a name key drops (docs/evidence.md, "Name keys and patterns").
+OPTIONAL_MARKS = (
+    (0x0300, 0x036F), (0x1AB0, 0x1AFF), (0x1DC0, 0x1DFF), (0x20D0, 0x20FF),
+    (0xFE20, 0xFE2F), (0x0483, 0x0489), (0x0591, 0x05C7), (0x0610, 0x061A),
+    (0x064B, 0x065F), (0x0670, 0x0670), (0x06D6, 0x06ED), (0x0730, 0x074A),
+    (0xFE00, 0xFE0F), (0xE0100, 0xE01EF),
+)
 
 
 def name_key(s):
-    """docs/evidence.md, "Name keys": compatibility forms, combining marks (Unicode
-    category M: accents, vowel signs) dropped, lower case, apostrophes dropped, every
-    other run of punctuation, symbols and spaces one space."""
-    s = unicodedata.normalize("NFKD", s)
-    s = "".join(c for c in s if not unicodedata.category(c).startswith("M"))
-    s = s.lower().replace("'", "").replace("\u2019", "").replace("\u02bc", "")
-    s = _SEP.sub(" ", s).strip()
-    return unicodedata.normalize("NFC", s)
+    """docs/evidence.md, "Name keys and patterns": compatibility forms folded, the
+    optional diacritics dropped (accents, Hebrew and Arabic points), every other
+    combining mark kept with the letter before it, lower case, apostrophes dropped,
+    every other run of punctuation, symbols and spaces one space."""
+    out, word = [], False
+    for c in unicodedata.normalize("NFKD", s):
+        if unicodedata.category(c).startswith("M"):
+            if any(lo <= ord(c) <= hi for lo, hi in OPTIONAL_MARKS):
+                continue
+            if word:
+                out.append(c)
+        elif c.isalnum():
+            out.append(c.lower())
+            word = True
+        elif c in "'\u2019\u02bc":
+            word = False
+        else:
+            out.append(" ")
+            word = False
+    return unicodedata.normalize("NFC", " ".join("".join(out).split()))
 
 
 def tokens(s):
@@ -114,14 +132,23 @@ def longest(hits):
 
 def find_inside(keys, max_chars, tok, index):
     """Words of unspaced script inside a longer word: from the left, the longest listed
-    key (2+ characters, not the whole word, holding an unspaced character) at each
-    place, then on after it."""
+    key (2+ characters, not the whole word, holding an unspaced character, neither
+    starting on a combining mark nor ending just before one) at each place, then on
+    after it."""
+    def mark(c):
+        return unicodedata.category(c).startswith("M")
+
     hits, at = [], 0
     while at < len(tok):
+        if mark(tok[at]):
+            at += 1
+            continue
         step = 1
         for n in range(min(max_chars, len(tok) - at), 1, -1):
             sub = tok[at:at + n]
             if n == len(tok) or not unspaced(sub):
+                continue
+            if at + n < len(tok) and mark(tok[at + n]):
                 continue
             if keys.get(sub):
                 hits.append((index, index + 1, sub, keys[sub], at, None))

@@ -9,6 +9,7 @@
 //! read as "york".
 
 use foldhash::{HashMap, HashMapExt};
+use unicode_normalization::char::is_combining_mark;
 
 use super::keys::KeyTable;
 
@@ -369,15 +370,21 @@ impl<T> PhraseIndex<T> {
 
     /// Look for keys of unspaced script inside one token (every substring of up to
     /// the longest key's length that is not the whole token, which was looked up
-    /// already).
+    /// already). A substring neither starts nor ends inside a letter: not on a
+    /// combining mark, nor just before one (a Thai vowel sign or tone mark is kept in
+    /// the key and belongs to the letter before it, so "กร" is not read inside "กรุง").
     fn find_inside<'a>(&'a self, tok: &str, index: usize, hits: &mut Vec<Hit<'a, T>>) {
         let chars: Vec<char> = tok.chars().collect();
         let mut from = 0;
         while from < chars.len() {
+            if is_combining_mark(chars[from]) {
+                from += 1;
+                continue;
+            }
             let longest = self.max_unspaced_chars.min(chars.len() - from);
             let mut step = 1;
             for n in (2..=longest).rev() {
-                if n == chars.len() {
+                if n == chars.len() || chars.get(from + n).is_some_and(|&c| is_combining_mark(c)) {
                     continue;
                 }
                 let sub: String = chars[from..from + n].iter().collect();
@@ -518,5 +525,18 @@ mod tests {
         assert_eq!(found, vec![1, 2]);
         // Whole-token matches still work.
         assert_eq!(ix.find("東京 Ramen Walks")[0].values[0], 1);
+    }
+
+    #[test]
+    fn a_word_inside_an_unspaced_run_keeps_its_marks() {
+        // "กรุงเทพ" (Bangkok, from memory): ก ร, then U+0E38 THAI CHARACTER SARA U
+        // (general category Mn in the Unicode Character Database), then ง เ ท พ. "กร"
+        // stops before the vowel sign, so it is not a word of this run; "เทพ" is.
+        let ix = index(&[("กร", 1), ("เทพ", 2)]);
+        let found: Vec<u32> = ix.find("กรุงเทพ").iter().map(|h| h.values[0]).collect();
+        assert_eq!(found, vec![2]);
+        // With the mark, the word is found ("กรุ" as a key, made up for the check).
+        let ix = index(&[("กรุ", 4)]);
+        assert_eq!(ix.find("กรุงเทพ")[0].values[0], 4);
     }
 }
