@@ -128,6 +128,31 @@ def fold(name: str) -> str:
     return " ".join("".join(c if c.isalnum() else " " for c in kept.casefold()).split())
 
 
+# Combining marks that telltale's name key drops as optional diacritics (src/name_key.rs,
+# docs/evidence.md "Name keys"); it keeps every other mark (Indic vowel signs, kana
+# voicing marks).
+OPTIONAL_MARKS = (
+    (0x0300, 0x036F), (0x0483, 0x0489), (0x0591, 0x05C7), (0x0610, 0x061A),
+    (0x064B, 0x065F), (0x0670, 0x0670), (0x06D6, 0x06ED), (0x0730, 0x074A),
+    (0x1AB0, 0x1AFF), (0x1DC0, 0x1DFF), (0x20D0, 0x20FF), (0xFE00, 0xFE0F),
+    (0xFE20, 0xFE2F), (0xE0100, 0xE01EF),
+)
+
+
+def key_fold(name: str) -> str:
+    """As fold, but dropping only the marks the name key drops: two names that fold
+    alike here are one name to telltale."""
+    decomposed = unicodedata.normalize("NFKD", name)
+    kept = "".join(
+        ch for ch in decomposed
+        if not (unicodedata.category(ch).startswith("M")
+                and any(lo <= ord(ch) <= hi for lo, hi in OPTIONAL_MARKS))
+    )
+    return " ".join("".join(
+        c if c.isalnum() or unicodedata.category(c).startswith("M") else " "
+        for c in kept.lower()).split())
+
+
 def plain(name: str) -> str:
     return fold(name.translate(PLAIN_LETTERS))
 
@@ -194,11 +219,12 @@ def keep_alternate(alt: str, population: int, local: set[str]) -> bool:
 
 
 def name_list(names) -> list[str]:
-    """Names in order, without empties and without names that fold alike."""
+    """Names in order, without empties and without names that telltale's name key
+    reads alike."""
     out, seen = [], set()
     for n in names:
         n = clean(n or "")
-        f = fold(n)
+        f = key_fold(n)
         if n and f and f not in seen:
             seen.add(f)
             out.append(n)
